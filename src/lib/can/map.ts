@@ -1,0 +1,88 @@
+/**
+ * The map model: zod schemas are the single definition of a broadcast map's shape.
+ * Bit numbering and the `framewright-map@1` JSON format are specified in shared/design.md.
+ * Structural checks that need the whole map (overlaps, duplicates) live in lint.ts.
+ */
+import { z } from 'zod';
+
+export const MAP_FORMAT = 'framewright-map@1';
+
+/** Largest 29-bit identifier (ISO 11898-1 extended format). */
+export const MAX_EXTENDED_ID = 0x1fffffff;
+/** Largest 11-bit identifier (ISO 11898-1 base format). */
+export const MAX_STANDARD_ID = 0x7ff;
+
+/** Payload byte counts a frame may declare: classical 0–8, CAN FD 12…64 (ISO 11898-1 DLC 9–15). */
+export const PAYLOAD_LENGTHS = [0, 1, 2, 3, 4, 5, 6, 7, 8, 12, 16, 20, 24, 32, 48, 64] as const;
+
+export const byteOrderSchema = z.enum(['little', 'big']);
+export type ByteOrder = z.infer<typeof byteOrderSchema>;
+
+export const valueTypeSchema = z.enum(['unsigned', 'signed', 'float32', 'float64']);
+export type ValueType = z.infer<typeof valueTypeSchema>;
+
+/** A CAN ID written as a hex string ("0x360") or a plain number; always a number once parsed. */
+export const canIdSchema = z
+	.union([
+		z.number().int().min(0).max(MAX_EXTENDED_ID),
+		z
+			.string()
+			.trim()
+			.regex(/^0[xX][0-9a-fA-F]{1,8}$/, 'a hex ID like "0x360"')
+			.transform((s) => Number.parseInt(s.slice(2), 16))
+			.pipe(z.number().int().max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'))
+	])
+	.describe('CAN identifier: hex string "0x…" or a number');
+
+const finite = () => z.number().refine(Number.isFinite, 'must be a finite number');
+
+export const signalSchema = z.strictObject({
+	name: z.string().trim().min(1, 'a signal needs a name').max(120),
+	startBit: z.number().int().min(0).max(511).describe('position of the least significant bit'),
+	length: z.number().int().min(1).max(64),
+	byteOrder: byteOrderSchema.default('little'),
+	valueType: valueTypeSchema.default('unsigned'),
+	scale: finite().default(1),
+	offset: finite().default(0),
+	unit: z.string().max(40).default(''),
+	min: finite().nullable().default(null),
+	max: finite().nullable().default(null),
+	labels: z
+		.record(z.string().regex(/^-?\d+$/, 'label keys are integer raw values'), z.string())
+		.default({}),
+	multiplexer: z.boolean().default(false),
+	muxValue: z.number().int().min(0).nullable().default(null),
+	spn: z.number().int().min(0).max(0x7ffff).nullable().default(null),
+	comment: z.string().max(2000).default('')
+});
+export type Signal = z.output<typeof signalSchema>;
+export type SignalInput = z.input<typeof signalSchema>;
+
+export const frameSchema = z.strictObject({
+	name: z.string().trim().min(1, 'a frame needs a name').max(120),
+	id: canIdSchema,
+	extended: z.boolean().default(false),
+	length: z
+		.number()
+		.int()
+		.refine((n) => (PAYLOAD_LENGTHS as readonly number[]).includes(n), {
+			message: 'payload length must be 0–8, 12, 16, 20, 24, 32, 48 or 64 bytes'
+		})
+		.default(8),
+	cycleMs: z.number().positive().max(3_600_000).nullable().default(null),
+	sender: z.string().max(120).default(''),
+	j1939: z.boolean().default(false),
+	comment: z.string().max(2000).default(''),
+	signals: z.array(signalSchema).default([])
+});
+export type Frame = z.output<typeof frameSchema>;
+export type FrameInput = z.input<typeof frameSchema>;
+
+export const canMapSchema = z.strictObject({
+	format: z.literal(MAP_FORMAT),
+	name: z.string().trim().min(1, 'a map needs a name').max(200),
+	bitrate: z.number().int().min(1000).max(8_000_000).default(500_000),
+	frames: z.array(frameSchema).default([])
+});
+export type CanMap = z.output<typeof canMapSchema>;
+export type CanMapInput = z.input<typeof canMapSchema>;
