@@ -5,8 +5,9 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter(),
-		alias: { $db: 'db' }
+		// Overridable so parallel builds (e.g. the e2e suite and a developer's own build) never share folders.
+		adapter: adapter({ out: process.env.FW_BUILD_DIR ?? 'build' }),
+		outDir: process.env.FW_KIT_DIR ?? '.svelte-kit'
 	}
 };
 
