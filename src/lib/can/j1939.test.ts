@@ -1,0 +1,117 @@
+import { describe, expect, it } from 'vitest';
+import { buildJ1939Id, j1939ValueStatus, parseJ1939Id } from './j1939';
+
+describe('parseJ1939Id (SAE J1939-21 29-bit identifier layout)', () => {
+	it.each([
+		// SAE J1939-21: request PGN 59904 (0xEA00), PDU1, sent to global (0xFF) by SA 0.
+		{ id: 0x18eaff00, priority: 6, pgn: 0xea00, pf: 0xea, ps: 0xff, sa: 0x00, da: 0xff },
+		// SAE J1939-71 EEC1 (electronic engine controller 1), PGN 61444 = 0xF004, priority 3, engine SA 0.
+		{ id: 0x0cf00400, priority: 3, pgn: 61444, pf: 0xf0, ps: 0x04, sa: 0x00, da: null },
+		// SAE J1939-71 ET1 (engine temperature 1), PGN 65262 = 0xFEEE, priority 6.
+		{ id: 0x18feee00, priority: 6, pgn: 65262, pf: 0xfe, ps: 0xee, sa: 0x00, da: null },
+		// SAE J1939-73 DM1, PGN 65226 = 0xFECA, priority 6, from SA 0x03 (transmission, from memory).
+		{ id: 0x18feca03, priority: 6, pgn: 0xfeca, pf: 0xfe, ps: 0xca, sa: 0x03, da: null },
+		// SAE J1939-21 TP.CM, PGN 0xEC00 (PDU1), to 0x21 from 0xF9.
+		{ id: 0x1cec21f9, priority: 7, pgn: 0xec00, pf: 0xec, ps: 0x21, sa: 0xf9, da: 0x21 }
+	])('ID $id → priority $priority, PGN $pgn', ({ id, priority, pgn, pf, ps, sa, da }) => {
+		const parsed = parseJ1939Id(id);
+		expect(parsed).toMatchObject({ priority, pgn, pf, ps, sourceAddress: sa, destinationAddress: da });
+		expect(parsed.edp).toBe(0);
+		expect(parsed.dp).toBe(0);
+		// build is the inverse of parse
+		expect(buildJ1939Id({ priority, pgn, sourceAddress: sa, destinationAddress: da })).toBe(id);
+	});
+
+	it('reads EDP and DP (SAE J1939-21: bits 25 and 24) into the 18-bit PGN', () => {
+		// Constructed by the bit layout: priority 7, EDP 1, DP 1, PF 0xFF, PS 0x12, SA 0x34.
+		const id = (7 << 26) | (1 << 25) | (1 << 24) | (0xff << 16) | (0x12 << 8) | 0x34;
+		const parsed = parseJ1939Id(id >>> 0);
+		expect(parsed).toMatchObject({ priority: 7, edp: 1, dp: 1, pgn: 0x3ff12, sourceAddress: 0x34 });
+		expect(buildJ1939Id({ priority: 7, pgn: 0x3ff12, sourceAddress: 0x34 })).toBe(0x1fff1234);
+	});
+
+	it('round-trips every priority, PF and a spread of PS/SA through build and parse', () => {
+		let checked = 0;
+		for (let priority = 0; priority < 8; priority++) {
+			for (let pf = 0; pf < 256; pf += 7) {
+				for (const dp of [0, 1]) {
+					const ps = (pf * 31) & 0xff;
+					const sa = (pf * 17 + priority) & 0xff;
+					const id = priority * 0x4000000 + dp * 0x1000000 + pf * 0x10000 + ps * 0x100 + sa;
+					const p = parseJ1939Id(id);
+					expect(buildJ1939Id(p)).toBe(id);
+					checked++;
+				}
+			}
+		}
+		expect(checked).toBe(8 * 37 * 2);
+	});
+
+	it('rejects IDs outside 29 bits and malformed build parts with clear messages', () => {
+		expect(() => parseJ1939Id(0x20000000)).toThrow(/0x1FFFFFFF/);
+		expect(() => parseJ1939Id(-1)).toThrow(RangeError);
+		expect(() => buildJ1939Id({ priority: 8, pgn: 0xf004, sourceAddress: 0 })).toThrow(/priority/);
+		expect(() => buildJ1939Id({ priority: 3, pgn: 0xea12, sourceAddress: 0 })).toThrow(/low byte/);
+		expect(() =>
+			buildJ1939Id({ priority: 3, pgn: 0xf004, sourceAddress: 0, destinationAddress: 5 })
+		).toThrow(/PDU2/);
+		expect(() => buildJ1939Id({ priority: 3, pgn: 0xf004, sourceAddress: 256 })).toThrow(
+			/source address/
+		);
+	});
+
+	it('a PDU1 PGN without destination goes to the global address 0xFF (SAE J1939-21)', () => {
+		expect(buildJ1939Id({ priority: 6, pgn: 0xea00, sourceAddress: 0xf9 })).toBe(0x18eafff9);
+	});
+});
+
+describe('j1939ValueStatus (SAE J1939-71 parameter ranges, recalled from memory)', () => {
+	it.each([
+		// 1-byte parameters: 0–250 valid, 251 parameter-specific, 252–253 reserved, 254 error, 255 n/a.
+		[0, 8, 'valid'],
+		[250, 8, 'valid'],
+		[251, 8, 'reserved'],
+		[253, 8, 'reserved'],
+		[254, 8, 'error'],
+		[255, 8, 'notAvailable'],
+		// 2-byte parameters: 0x0000–0xFAFF valid, 0xFE00–0xFEFF error, 0xFF00–0xFFFF n/a.
+		[0xfaff, 16, 'valid'],
+		[0xfb00, 16, 'reserved'],
+		[0xfdff, 16, 'reserved'],
+		[0xfe00, 16, 'error'],
+		[0xfeff, 16, 'error'],
+		[0xff00, 16, 'notAvailable'],
+		[0xffff, 16, 'notAvailable'],
+		// 4-byte parameters: 0–0xFAFFFFFF valid, 0xFExxxxxx error, 0xFFxxxxxx n/a.
+		[0xfaffffff, 32, 'valid'],
+		[0xfb000000, 32, 'reserved'],
+		[0xfe123456, 32, 'error'],
+		[0xff000000, 32, 'notAvailable'],
+		[0xffffffff, 32, 'notAvailable'],
+		// 2-bit discrete: 00 off, 01 on, 10 error, 11 not available.
+		[0, 2, 'valid'],
+		[1, 2, 'valid'],
+		[2, 2, 'error'],
+		[3, 2, 'notAvailable'],
+		// 4-bit discrete: 0–13 valid, 14 error, 15 not available.
+		[13, 4, 'valid'],
+		[14, 4, 'error'],
+		[15, 4, 'notAvailable'],
+		// No rule for other sizes.
+		[0xffffff, 24, 'valid'],
+		[7, 3, 'valid']
+	] as const)('raw %d in %d bits → %s', (raw, length, status) => {
+		expect(j1939ValueStatus(raw, length)).toBe(status);
+	});
+
+	it('reads a negative (two’s complement) raw value as its bit pattern', () => {
+		// −1 in 8 bits is 0xFF, "not available"; −2 in 16 bits is 0xFFFE.
+		expect(j1939ValueStatus(-1, 8)).toBe('notAvailable');
+		expect(j1939ValueStatus(-2, 16)).toBe('notAvailable');
+		expect(j1939ValueStatus(-0x1000000, 32)).toBe('notAvailable');
+	});
+
+	it('rejects a non-integer raw value', () => {
+		expect(() => j1939ValueStatus(1.5, 8)).toThrow(RangeError);
+	});
+});
