@@ -174,3 +174,261 @@ function rangeStatus(topByte: number): J1939ValueStatus {
 	if (topByte === 0xff) return 'notAvailable';
 	return 'reserved';
 }
+
+// ---------------------------------------------------------------------------------------------
+// DM1 — active diagnostic trouble codes (SAE J1939-73)
+
+/** PGN 65226 (0xFECA): DM1, active diagnostic trouble codes. SAE J1939-73. */
+export const PGN_DM1 = 0xfeca;
+
+export type LampState = 'off' | 'on' | 'reserved' | 'notAvailable';
+export type LampFlash = 'slow' | 'fast' | 'reserved' | 'none';
+export interface Lamp {
+	state: LampState;
+	flash: LampFlash;
+}
+export interface Dm1Lamps {
+	malfunctionIndicator: Lamp;
+	redStop: Lamp;
+	amberWarning: Lamp;
+	protect: Lamp;
+}
+export interface TroubleCode {
+	/** Suspect parameter number, 19 bits. */
+	spn: number;
+	/** Failure mode identifier, 5 bits. */
+	fmi: number;
+	/** Occurrence count, 7 bits (127 = not available). */
+	occurrenceCount: number;
+	/** SPN conversion method bit: 0 = version 4 layout (the one decoded here), 1 = an older layout. */
+	conversionMethod: number;
+}
+export interface Dm1 {
+	lamps: Dm1Lamps;
+	troubleCodes: TroubleCode[];
+}
+
+const LAMP_STATES: readonly LampState[] = ['off', 'on', 'reserved', 'notAvailable'];
+// J1939-73 flash codes (from memory): 00 slow (1 Hz), 01 fast (2 Hz), 10 reserved, 11 do not flash.
+const LAMP_FLASHES: readonly LampFlash[] = ['slow', 'fast', 'reserved', 'none'];
+
+function lamp(status: number, flash: number, shift: number): Lamp {
+	return { state: LAMP_STATES[(status >> shift) & 3], flash: LAMP_FLASHES[(flash >> shift) & 3] };
+}
+
+/**
+ * Decodes a DM1 payload (SAE J1939-73): byte 0 lamp status (bits 8–7 malfunction indicator,
+ * 6–5 red stop, 4–3 amber warning, 2–1 protect; J1939 numbers bits 1…8 from the LSB), byte 1
+ * the matching flash codes, then 4-byte DTCs: SPN low 8 bits, SPN next 8 bits, SPN top 3 bits
+ * in bits 8–6 with FMI in bits 5–1, then CM (bit 8) and occurrence count (bits 7–1).
+ * Works on a single 8-byte frame or on a BAM-reassembled payload. An all-zero DTC slot means
+ * "no active fault" and all-0xFF slots are padding; both are skipped.
+ */
+export function parseDm1(data: Uint8Array): Dm1 {
+	if (data.length < 2) {
+		throw new RangeError(`DM1 needs at least the 2 lamp bytes, got ${data.length} byte(s)`);
+	}
+	const status = data[0];
+	const flash = data[1];
+	const lamps: Dm1Lamps = {
+		malfunctionIndicator: lamp(status, flash, 6),
+		redStop: lamp(status, flash, 4),
+		amberWarning: lamp(status, flash, 2),
+		protect: lamp(status, flash, 0)
+	};
+	const troubleCodes: TroubleCode[] = [];
+	for (let at = 2; at + 4 <= data.length; at += 4) {
+		const [b0, b1, b2, b3] = data.subarray(at, at + 4);
+		const empty = (b0 | b1 | b2 | b3) === 0;
+		const padding = (b0 & b1 & b2 & b3) === 0xff;
+		if (empty || padding) continue;
+		troubleCodes.push({
+			spn: b0 | (b1 << 8) | ((b2 >> 5) << 16),
+			fmi: b2 & 0x1f,
+			conversionMethod: b3 >> 7,
+			occurrenceCount: b3 & 0x7f
+		});
+	}
+	return { lamps, troubleCodes };
+}
+
+/** Builds a DM1 payload from trouble codes — the inverse of parseDm1 (for tests, demos, simulators). */
+export function encodeDm1(lamps: Dm1Lamps, troubleCodes: readonly TroubleCode[]): Uint8Array {
+	const bits = (pick: (l: Lamp) => number) =>
+		(pick(lamps.malfunctionIndicator) << 6) |
+		(pick(lamps.redStop) << 4) |
+		(pick(lamps.amberWarning) << 2) |
+		pick(lamps.protect);
+	// A DM1 without faults still carries one all-zero DTC slot, padded to 8 bytes (J1939-73, from memory).
+	const slots = Math.max(troubleCodes.length, 1);
+	const out = new Uint8Array(Math.max(2 + 4 * slots, 8)).fill(0xff);
+	out[0] = bits((l) => LAMP_STATES.indexOf(l.state));
+	out[1] = bits((l) => LAMP_FLASHES.indexOf(l.flash));
+	if (troubleCodes.length === 0) out.fill(0, 2, 6);
+	troubleCodes.forEach((code, i) => {
+		if (code.spn < 0 || code.spn > 0x7ffff || code.fmi < 0 || code.fmi > 31) {
+			throw new RangeError(`DTC ${i}: SPN must be 0…524287 and FMI 0…31`);
+		}
+		const at = 2 + 4 * i;
+		out[at] = code.spn & 0xff;
+		out[at + 1] = (code.spn >> 8) & 0xff;
+		out[at + 2] = ((code.spn >> 16) << 5) | code.fmi;
+		out[at + 3] = ((code.conversionMethod & 1) << 7) | (code.occurrenceCount & 0x7f);
+	});
+	return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Transport protocol, broadcast announce message (SAE J1939-21)
+
+/** TP.CM, connection management. SAE J1939-21. */
+export const PGN_TP_CM = 0xec00;
+/** TP.DT, data transfer. SAE J1939-21. */
+export const PGN_TP_DT = 0xeb00;
+/** TP.CM control byte for a broadcast announce message. SAE J1939-21. */
+export const TP_CM_BAM = 32;
+/** Data bytes per TP.DT packet (byte 0 is the sequence number). SAE J1939-21. */
+export const TP_DT_BYTES = 7;
+/** Largest transport message: 255 packets × 7 bytes. SAE J1939-21. */
+export const TP_MAX_SIZE = 255 * TP_DT_BYTES;
+/** Receiver timeout T1 between packets, 750 ms (SAE J1939-21, from memory). */
+export const TP_T1_SECONDS = 0.75;
+
+export interface TransportMessage {
+	pgn: number;
+	sourceAddress: number;
+	data: Uint8Array;
+	/** Time of the last packet, in the caller's time unit (seconds in captures). */
+	time: number;
+}
+
+export type TransportProblemKind = 'malformed' | 'outOfOrder' | 'timeout' | 'replaced';
+export interface TransportProblem {
+	kind: TransportProblemKind;
+	sourceAddress: number;
+	/** PGN of the message being transferred, when known. */
+	pgn: number | null;
+	time: number;
+	message: string;
+}
+
+export interface TransportReassemblerOptions {
+	/** Called for each transfer that is rejected or abandoned; the transfer is dropped. */
+	onProblem?: (problem: TransportProblem) => void;
+	/** Longest gap between packets before a transfer is abandoned, same unit as `time`. */
+	timeout?: number;
+}
+
+export interface TransportReassembler {
+	/** Feeds one received frame; returns a completed message or null. Non-transport frames are ignored. */
+	push(id: number, time: number, data: Uint8Array): TransportMessage | null;
+	/** Number of transfers currently in progress. */
+	readonly pending: number;
+}
+
+interface Transfer {
+	pgn: number;
+	size: number;
+	packets: number;
+	received: number;
+	lastTime: number;
+	buffer: Uint8Array;
+}
+
+/**
+ * Reassembles broadcast (BAM) transfers, one at a time per source address as J1939-21 allows.
+ * TP.CM BAM: byte 0 = 32, bytes 1–2 total size (LSB first), byte 3 packet count, byte 4 reserved,
+ * bytes 5–7 PGN of the packed message (LSB first). TP.DT: byte 0 sequence number 1…n, 7 data bytes.
+ * A packet out of sequence, a gap longer than the timeout, or a new BAM while one is running drops
+ * the transfer and reports it through `onProblem` — a partial message is never returned.
+ * Connection-mode (RTS/CTS) transfers are addressed to one node and are not followed here.
+ */
+export function createTransportReassembler(
+	options: TransportReassemblerOptions = {}
+): TransportReassembler {
+	const timeout = options.timeout ?? TP_T1_SECONDS;
+	const transfers = new Map<number, Transfer>();
+
+	const drop = (sa: number, kind: TransportProblemKind, time: number, message: string) => {
+		const pgn = transfers.get(sa)?.pgn ?? null;
+		transfers.delete(sa);
+		options.onProblem?.({ kind, sourceAddress: sa, pgn, time, message });
+	};
+
+	function announce(sa: number, time: number, data: Uint8Array): null {
+		if (data.length < 8) {
+			drop(sa, 'malformed', time, `TP.CM from 0x${hex(sa)} has ${data.length} bytes, needs 8`);
+			return null;
+		}
+		const size = data[1] | (data[2] << 8);
+		const packets = data[3];
+		const pgn = data[5] | (data[6] << 8) | ((data[7] & 0x03) << 16);
+		if (transfers.has(sa)) {
+			drop(sa, 'replaced', time, `new BAM from 0x${hex(sa)} before the previous one completed`);
+		}
+		if (size < 1 || size > TP_MAX_SIZE || packets !== Math.ceil(size / TP_DT_BYTES)) {
+			options.onProblem?.({
+				kind: 'malformed',
+				sourceAddress: sa,
+				pgn,
+				time,
+				message: `BAM from 0x${hex(sa)} announces ${size} bytes in ${packets} packets; expected 1…${TP_MAX_SIZE} bytes in ⌈size/7⌉ packets`
+			});
+			return null;
+		}
+		transfers.set(sa, {
+			pgn,
+			size,
+			packets,
+			received: 0,
+			lastTime: time,
+			buffer: new Uint8Array(packets * TP_DT_BYTES)
+		});
+		return null;
+	}
+
+	function transfer(sa: number, time: number, data: Uint8Array): TransportMessage | null {
+		const t = transfers.get(sa);
+		if (!t) return null; // a packet of a transfer we did not see start, or of RTS/CTS
+		if (data.length < 8) {
+			drop(sa, 'malformed', time, `TP.DT from 0x${hex(sa)} has ${data.length} bytes, needs 8`);
+			return null;
+		}
+		if (time - t.lastTime > timeout) {
+			drop(sa, 'timeout', time, `BAM from 0x${hex(sa)}: ${time - t.lastTime} between packets exceeds ${timeout}`);
+			return null;
+		}
+		const sequence = data[0];
+		if (sequence !== t.received + 1) {
+			drop(sa, 'outOfOrder', time, `BAM from 0x${hex(sa)}: packet ${sequence} arrived, expected ${t.received + 1}`);
+			return null;
+		}
+		t.buffer.set(data.subarray(1, 8), t.received * TP_DT_BYTES);
+		t.received = sequence;
+		t.lastTime = time;
+		if (t.received < t.packets) return null;
+		transfers.delete(sa);
+		// The last packet is padded with 0xFF; the announced size says where the message ends.
+		return { pgn: t.pgn, sourceAddress: sa, data: t.buffer.slice(0, t.size), time };
+	}
+
+	return {
+		push(id, time, data) {
+			const { pgn, destinationAddress, sourceAddress } = parseJ1939Id(id);
+			// BAM goes to the global address; anything else on these PGNs is connection mode.
+			if (destinationAddress !== GLOBAL_ADDRESS) return null;
+			if (pgn === PGN_TP_CM) {
+				return data[0] === TP_CM_BAM ? announce(sourceAddress, time, data) : null;
+			}
+			if (pgn === PGN_TP_DT) return transfer(sourceAddress, time, data);
+			return null;
+		},
+		get pending() {
+			return transfers.size;
+		}
+	};
+}
+
+function hex(byte: number): string {
+	return byte.toString(16).toUpperCase().padStart(2, '0');
+}
