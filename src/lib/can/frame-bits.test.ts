@@ -1,0 +1,149 @@
+import { describe, expect, it } from 'vitest';
+import {
+	applyStuffing,
+	countStuffBits,
+	frameBits,
+	frameBitSequence,
+	interFrameBits,
+	nominalFrameBits,
+	worstCaseFrameBits
+} from './frame-bits';
+
+/** Deterministic pseudo-random bytes (LCG, Numerical Recipes constants) so failures reproduce. */
+function lcg(seed: number) {
+	return () => (seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) >>> 24;
+}
+
+/**
+ * Reference CRC by plain polynomial long division over GF(2) with BigInt: remainder of
+ * M(x)·x^15 divided by x^15 + 0x4599 (ISO 11898-1 generator), independent of crc15's shift register.
+ */
+function referenceCrc(bits: ArrayLike<number>): number {
+	let m = 0n;
+	for (let i = 0; i < bits.length; i++) m = (m << 1n) | BigInt(bits[i]);
+	m <<= 15n;
+	const gen = (1n << 15n) | 0x4599n;
+	for (let shift = BigInt(bits.length); shift >= 0n; shift--) {
+		if ((m >> (shift + 15n)) & 1n) m ^= gen << shift;
+	}
+	return Number(m);
+}
+
+const str = (bits: ArrayLike<number>) => Array.from(bits).join('');
+
+describe('frameBits (ISO 11898-1 classical data frames)', () => {
+	it.each([0, 1, 2, 3, 4, 5, 6, 7, 8])('%d data bytes: 44+8n base, 64+8n extended bits', (n) => {
+		// ISO 11898-1 field widths: base 1+11+1+1+1+4+8n+15+1+1+1+7 = 44+8n; extended adds SRR, IDE→
+		// SRR+IDE+18-bit extension+r1 = 20 more bits → 64+8n.
+		const data = new Uint8Array(n).fill(0x5a);
+		expect(frameBits(0x123, false, data).bits).toBe(44 + 8 * n);
+		expect(frameBits(0x1abcdef0, true, data).bits).toBe(64 + 8 * n);
+		expect(nominalFrameBits(n, false)).toBe(44 + 8 * n);
+		expect(nominalFrameBits(n, true)).toBe(64 + 8 * n);
+	});
+
+	it('lays out base-format fields in ISO 11898-1 order', () => {
+		const seq = frameBitSequence(0x123, false, Uint8Array.of(0xaa));
+		const crc = seq.crc.toString(2).padStart(15, '0');
+		// SOF | ID 0x123 | RTR IDE r0 | DLC 1 | 0xAA | CRC | CRC delim, ACK slot, ACK delim, EOF×7
+		expect(str(seq.bits)).toBe('0' + '00100100011' + '000' + '0001' + '10101010' + crc + '1'.repeat(10));
+		expect(seq.stuffedLength).toBe(1 + 11 + 3 + 4 + 8 + 15);
+	});
+
+	it('lays out extended-format fields in ISO 11898-1 order', () => {
+		const id = 0x18feee00; // base = top 11 bits, extension = low 18 bits
+		const seq = frameBitSequence(id, true, new Uint8Array(0));
+		const base = (id >>> 18).toString(2).padStart(11, '0');
+		const ext = (id & 0x3ffff).toString(2).padStart(18, '0');
+		const crc = seq.crc.toString(2).padStart(15, '0');
+		// SOF | base ID | SRR=1 IDE=1 | ID extension | RTR r1 r0 | DLC 0 | CRC | trailer
+		expect(str(seq.bits)).toBe('0' + base + '11' + ext + '000' + '0000' + crc + '1'.repeat(10));
+	});
+
+	it('CRC equals a BigInt polynomial long division over SOF…data (random frames)', () => {
+		const rand = lcg(7);
+		for (let t = 0; t < 300; t++) {
+			const extended = t % 2 === 1;
+			const id = extended ? ((rand() << 21) | (rand() << 13) | (rand() << 5) | (rand() >> 3)) >>> 0 : ((rand() << 3) | (rand() >> 5)) & 0x7ff;
+			const data = Uint8Array.from({ length: t % 9 }, rand);
+			const seq = frameBitSequence(id, extended, data);
+			expect(seq.crc).toBe(referenceCrc(seq.bits.subarray(0, seq.stuffedLength - 15)));
+			expect(frameBits(id, extended, data).crc).toBe(seq.crc);
+		}
+	});
+
+	it('rejects IDs out of range and payloads beyond 8 bytes with clear messages', () => {
+		expect(() => frameBits(0x800, false, new Uint8Array(1))).toThrow(/0…0x7FF/);
+		expect(() => frameBits(0x20000000, true, new Uint8Array(1))).toThrow(/0x1FFFFFFF/);
+		expect(() => frameBits(1, false, new Uint8Array(9))).toThrow(/0–8 data bytes/);
+	});
+});
+
+describe('bit stuffing (ISO 11898-1: a complement after 5 equal bits, stuff bits count in runs)', () => {
+	it.each([
+		['00000', 1],
+		['0000', 0],
+		['000010000', 0],
+		['0000011110000', 3], // 00000[1] 1111 → run of 5 with the stuff bit [0] 0000 → [1]
+		['0000000000', 2], // 00000[1] 00000[1]
+		['1111111111', 2],
+		['000001', 1], // the stuff bit 1 plus one 1 is a run of 2, no second stuff
+		['01010101', 0]
+	])('%s needs %d stuff bits', (pattern, expected) => {
+		const bits = Array.from(pattern, Number);
+		expect(countStuffBits(bits)).toBe(expected);
+		expect(applyStuffing(bits).length).toBe(bits.length + expected);
+	});
+
+	it('shows the stuffed stream of a hand-made pattern', () => {
+		expect(str(applyStuffing(Array.from('0000011110000', Number)))).toBe('00000' + '1' + '1111' + '0' + '0000' + '1');
+	});
+
+	it('a stuffed random frame never has 6 equal bits in a row and fits the Davis bound', () => {
+		const rand = lcg(2024);
+		let maxSeen = 0;
+		for (let t = 0; t < 4000; t++) {
+			const extended = t % 2 === 1;
+			const n = t % 9;
+			// Biased payloads (mostly 0x00/0xFF runs) reach far more stuff bits than uniform ones.
+			const data = Uint8Array.from({ length: n }, () => (t % 3 === 0 ? rand() : rand() < 128 ? 0x0f : 0xf0));
+			const id = extended ? (rand() * 0x200000 + rand() * 0x2000 + rand() * 0x20 + (rand() >> 3)) : ((rand() << 3) | (rand() >> 5)) & 0x7ff;
+			const seq = frameBitSequence(id, extended, data);
+			const { bits, stuffBits } = frameBits(id, extended, data);
+			const wire = str(applyStuffing(seq.bits.subarray(0, seq.stuffedLength)));
+			expect(wire).not.toMatch(/000000|111111/);
+			expect(wire.length).toBe(seq.stuffedLength + stuffBits);
+			expect(bits + stuffBits + interFrameBits).toBeLessThanOrEqual(worstCaseFrameBits(n, extended));
+			maxSeen = Math.max(maxSeen, stuffBits);
+		}
+		expect(maxSeen).toBeGreaterThan(10);
+	});
+});
+
+describe('worstCaseFrameBits (Davis, Burns, Bril, Lukkien 2007, eq. 1)', () => {
+	it.each([
+		// C = g + 8n + 13 + ⌊(g + 8n − 1)/4⌋, g = 34 base / 54 extended; 13 includes the 3-bit intermission.
+		[8, false, 135], // the paper's 135 bits for an 8-byte base-format frame
+		[8, true, 160],
+		[0, false, 55], // 34 + 13 + ⌊33/4⌋ = 47 + 8
+		[0, true, 80], // 54 + 13 + ⌊53/4⌋ = 67 + 13
+		[4, false, 95] // 66 + 13 + ⌊65/4⌋ = 79 + 16
+	] as const)('%d bytes, extended %s → %d bits', (n, extended, expected) => {
+		expect(worstCaseFrameBits(n, extended)).toBe(expected);
+	});
+
+	it('decomposes into unstuffed frame + maximum stuff bits + intermission', () => {
+		for (let n = 0; n <= 8; n++) {
+			for (const extended of [false, true]) {
+				const g = extended ? 54 : 34;
+				expect(worstCaseFrameBits(n, extended)).toBe(
+					nominalFrameBits(n, extended) + Math.floor((g + 8 * n - 1) / 4) + interFrameBits
+				);
+			}
+		}
+	});
+
+	it('rejects lengths outside classical CAN', () => {
+		expect(() => worstCaseFrameBits(9, false)).toThrow(/0–8/);
+	});
+});

@@ -1,0 +1,165 @@
+/**
+ * Bit-level layout of classical CAN data frames (ISO 11898-1): the exact bit sequence, its CRC,
+ * the stuff bits it needs, and the worst-case stuffed length for bus load and timing analysis.
+ */
+import { crc15 } from './crc15';
+import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from './map';
+
+/**
+ * Intermission between frames: 3 recessive bits after EOF before the next SOF (ISO 11898-1).
+ * Not part of a frame's own bit count, but it occupies the bus, so bus load adds it.
+ */
+export const interFrameBits = 3;
+
+/** Largest classical payload. ISO 11898-1. */
+export const CLASSICAL_MAX_LENGTH = 8;
+
+/** Bits after the CRC sequence, never stuffed: CRC delimiter, ACK slot, ACK delimiter, 7 EOF. ISO 11898-1. */
+export const TRAILER_BITS = 1 + 1 + 1 + 7;
+
+/** Stuffed bits before the data field plus the 15-bit CRC (Davis et al. 2007 "g"): 34 base, 54 extended. */
+export function stuffedControlBits(extended: boolean): number {
+	return extended ? 54 : 34;
+}
+
+export interface FrameBitSequence {
+	/** SOF through EOF, unstuffed, 0 = dominant, 1 = recessive (ACK slot as sent: recessive). */
+	bits: Uint8Array;
+	/** Bits [0, stuffedLength) — SOF through the end of the CRC sequence — are subject to stuffing. */
+	stuffedLength: number;
+	crc: number;
+}
+
+function checkFrame(id: number, extended: boolean, data: Uint8Array): void {
+	const max = extended ? MAX_EXTENDED_ID : MAX_STANDARD_ID;
+	if (!Number.isInteger(id) || id < 0 || id > max) {
+		const kind = extended ? 'an extended (29-bit) ID must be 0…0x1FFFFFFF' : 'a standard (11-bit) ID must be 0…0x7FF';
+		throw new RangeError(`${kind}, got ${id}`);
+	}
+	if (data.length > CLASSICAL_MAX_LENGTH) {
+		throw new RangeError(
+			`classical CAN frames carry 0–8 data bytes, got ${data.length} (CAN FD frames are not modelled here)`
+		);
+	}
+}
+
+/**
+ * Builds the bit sequence of a classical data frame (ISO 11898-1), most significant bit first:
+ * base format: SOF, 11-bit ID, RTR=0, IDE=0, r0=0, DLC(4), data, CRC(15);
+ * extended format: SOF, 11-bit base ID, SRR=1, IDE=1, 18-bit ID extension, RTR=0, r1=0, r0=0, DLC, data, CRC;
+ * then CRC delimiter, ACK slot, ACK delimiter and 7 EOF bits, all recessive.
+ */
+export function frameBitSequence(id: number, extended: boolean, data: Uint8Array): FrameBitSequence {
+	checkFrame(id, extended, data);
+	const out: number[] = [];
+	const put = (value: number, width: number) => {
+		for (let b = width - 1; b >= 0; b--) out.push(Math.floor(value / 2 ** b) % 2);
+	};
+	put(0, 1); // SOF
+	if (extended) {
+		put(Math.floor(id / 2 ** 18), 11); // base ID = the 11 most significant bits
+		put(1, 1); // SRR
+		put(1, 1); // IDE
+		put(id % 2 ** 18, 18); // ID extension
+		put(0, 1); // RTR
+		put(0, 2); // r1, r0
+	} else {
+		put(id, 11);
+		put(0, 1); // RTR
+		put(0, 1); // IDE
+		put(0, 1); // r0
+	}
+	put(data.length, 4); // DLC: for 0–8 bytes the code equals the length
+	for (const byte of data) put(byte, 8);
+	const crc = crc15(out);
+	put(crc, 15);
+	const stuffedLength = out.length;
+	put(0b1111111111, TRAILER_BITS); // CRC delimiter, ACK slot, ACK delimiter, EOF
+	return { bits: Uint8Array.from(out), stuffedLength, crc };
+}
+
+/**
+ * Stuff bits needed by a bit stream (ISO 11898-1): after 5 consecutive equal bits the sender
+ * inserts one complementary bit, and that stuff bit counts towards the next run.
+ */
+export function countStuffBits(bits: ArrayLike<number>, end: number = bits.length): number {
+	let count = 0;
+	let last = -1;
+	let run = 0;
+	for (let i = 0; i < end; i++) {
+		const bit = bits[i];
+		if (bit === last) run++;
+		else {
+			last = bit;
+			run = 1;
+		}
+		if (run === 5) {
+			count++;
+			last = 1 - bit;
+			run = 1;
+		}
+	}
+	return count;
+}
+
+/** The stuffed stream as sent on the wire (same rule as countStuffBits), for display and checks. */
+export function applyStuffing(bits: ArrayLike<number>): Uint8Array {
+	const out: number[] = [];
+	let last = -1;
+	let run = 0;
+	for (let i = 0; i < bits.length; i++) {
+		const bit = bits[i];
+		out.push(bit);
+		if (bit === last) run++;
+		else {
+			last = bit;
+			run = 1;
+		}
+		if (run === 5) {
+			out.push(1 - bit);
+			last = 1 - bit;
+			run = 1;
+		}
+	}
+	return Uint8Array.from(out);
+}
+
+export interface FrameBits {
+	/** SOF through EOF without stuffing: 44 + 8n base format, 64 + 8n extended. */
+	bits: number;
+	/** Stuff bits this exact frame needs (SOF through the CRC sequence). */
+	stuffBits: number;
+	crc: number;
+}
+
+/** Bit count, stuff bits and CRC-15 of one classical data frame (ISO 11898-1). */
+export function frameBits(id: number, extended: boolean, data: Uint8Array): FrameBits {
+	const seq = frameBitSequence(id, extended, data);
+	return {
+		bits: seq.bits.length,
+		stuffBits: countStuffBits(seq.bits, seq.stuffedLength),
+		crc: seq.crc
+	};
+}
+
+/**
+ * Worst-case bus time of a classical data frame in bits, Davis, Burns, Bril and Lukkien,
+ * "Controller Area Network (CAN) schedulability analysis: refuted, revisited and revised",
+ * Real-Time Systems 35 (2007), eq. (1):  C = g + 8n + 13 + ⌊(g + 8n − 1) / 4⌋,
+ * g = 34 (base) or 54 (extended) stuffed control bits, 13 = the never-stuffed CRC delimiter,
+ * ACK slot, ACK delimiter, 7 EOF bits AND the 3-bit intermission. So the result already includes
+ * interFrameBits: 135 for 8 bytes base format (132 frame bits + 3), 160 extended.
+ * The stuff term assumes a stuff bit after the first 5 bits and then after every 4.
+ */
+export function worstCaseFrameBits(length: number, extended: boolean): number {
+	if (!Number.isInteger(length) || length < 0 || length > CLASSICAL_MAX_LENGTH) {
+		throw new RangeError(`worst-case length is defined for 0–8 data bytes (classical CAN), got ${length}`);
+	}
+	const stuffed = stuffedControlBits(extended) + 8 * length;
+	return stuffed + TRAILER_BITS + interFrameBits + Math.floor((stuffed - 1) / 4);
+}
+
+/** Unstuffed bits of a classical frame, SOF through EOF (44 + 8n or 64 + 8n). ISO 11898-1. */
+export function nominalFrameBits(length: number, extended: boolean): number {
+	return stuffedControlBits(extended) + 8 * length + TRAILER_BITS;
+}
