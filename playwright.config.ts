@@ -1,0 +1,61 @@
+import { defineConfig } from '@playwright/test';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+// Fixed test ports, away from the defaults a developer's own server uses (3000 / 2525).
+const PORT = 4173;
+const STANDIN_SMTP_PORT = 2626;
+const baseURL = `http://localhost:${PORT}`;
+
+// A database file that cannot exist yet: every run starts from an empty, freshly migrated database.
+// (Workers re-evaluate this file, but only the main process starts the web server.)
+const databasePath = join(tmpdir(), `framewright-e2e-${process.pid}-${Date.now()}.db`);
+
+export default defineConfig({
+	testDir: 'tests/e2e',
+	testMatch: '**/*.e2e.ts',
+	workers: 1,
+	fullyParallel: false,
+	forbidOnly: !!process.env.CI,
+	retries: 0,
+	timeout: 60_000,
+	expect: { timeout: 10_000 },
+	reporter: process.env.CI ? [['list'], ['html', { open: 'never' }]] : 'list',
+	use: {
+		baseURL,
+		trace: 'retain-on-failure',
+		screenshot: 'only-on-failure',
+		launchOptions: {
+			// Debian's Chromium; the suite never downloads a browser (`playwright install` is not used).
+			executablePath: '/usr/bin/chromium',
+			args: [
+				'--no-sandbox',
+				'--disable-gpu',
+				'--disable-background-networking',
+				'--disable-component-update',
+				'--disable-sync',
+				'--no-first-run'
+			]
+		}
+	},
+	projects: [{ name: 'chromium', use: { browserName: 'chromium' } }],
+	webServer: {
+		// The production build, served the way `npm start` serves it.
+		command: 'npm run build && node scripts/serve.js',
+		url: baseURL,
+		reuseExistingServer: false,
+		timeout: 300_000,
+		stdout: 'ignore',
+		stderr: 'pipe',
+		env: {
+			PORT: String(PORT),
+			ORIGIN: baseURL,
+			DATABASE_PATH: databasePath,
+			FRAMEWRIGHT_DEMO: '1',
+			SMTP_HOST: '',
+			STANDIN_SMTP_PORT: String(STANDIN_SMTP_PORT),
+			AUTH_TRUST_HOST: 'true',
+			AUTH_SECRET: 'e2e-only-secret-not-for-production-0123456789abcdef'
+		}
+	}
+});

@@ -1,0 +1,28 @@
+import { expect, type Page } from '@playwright/test';
+
+/** A fresh address per test run, so reruns against one database never collide. */
+export function uniqueEmail(who: string): string {
+	return `${who}.${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}@example.test`;
+}
+
+/** Opens the newest message to `email` whose subject matches, from the stand-in mailbox. */
+export async function openNewestMail(page: Page, email: string, subject: RegExp): Promise<void> {
+	await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
+	await expect(page.getByRole('heading', { name: 'Stand-in mailbox' })).toBeVisible();
+	// Newest first: the first matching row is the latest message.
+	await page.getByRole('link', { name: subject }).first().click();
+	await expect(page.getByRole('heading', { level: 1, name: subject })).toBeVisible();
+}
+
+/** Signs in the way a person does: asks for a link, reads it in the mailbox, follows it. */
+export async function signIn(page: Page, email: string, callbackUrl?: string): Promise<void> {
+	await page.goto(callbackUrl ? `/signin?callbackUrl=${encodeURIComponent(callbackUrl)}` : '/signin');
+	await page.getByLabel('E-mail address').fill(email);
+	await page.getByRole('button', { name: 'E-mail me a sign-in link' }).click();
+	await expect(page.getByRole('heading', { name: 'Check your inbox' })).toBeVisible();
+
+	await openNewestMail(page, email, /sign-in link/i);
+	const links = page.getByRole('region', { name: 'Links in this message' }).getByRole('link');
+	await links.first().click();
+	await expect(page.getByRole('button', { name: /account menu/i })).toBeVisible();
+}

@@ -1,0 +1,135 @@
+import { expect, test, type Page } from '@playwright/test';
+import { signIn, uniqueEmail } from './helpers';
+
+/** Describes the focused element the way a screen reader would announce it (role + name). */
+async function focusedName(page: Page): Promise<string> {
+	return page.evaluate(() => {
+		const el = document.activeElement as HTMLElement | null;
+		if (!el) return '';
+		const label = el.getAttribute('aria-label') ?? el.textContent ?? '';
+		return `${el.tagName.toLowerCase()}:${label.replace(/\s+/g, ' ').trim()}`;
+	});
+}
+
+async function bodyBackground(page: Page): Promise<string> {
+	return page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+}
+
+test('signed out: the landing states the job and offers sign-in; the skip link comes first', async ({ page }) => {
+	await page.goto('/');
+	await expect(page.getByRole('main')).toContainText('CAN buses');
+	await expect(page.getByRole('main').getByRole('link', { name: 'Sign in' })).toBeVisible();
+
+	await page.keyboard.press('Tab');
+	const skip = page.getByRole('link', { name: 'Skip to content' });
+	await expect(skip).toBeFocused();
+	await expect(skip).toBeInViewport();
+	await page.keyboard.press('Enter');
+	await expect(page.getByRole('main')).toBeFocused();
+});
+
+test('an expired or used sign-in link gets a clear message', async ({ page }) => {
+	await page.goto('/signin/error?error=Verification');
+	await expect(page.getByRole('alert')).toContainText('expired or has already been used');
+	await expect(page.getByRole('link', { name: 'Get a new sign-in link' })).toBeVisible();
+});
+
+test('keyboard only: Tab reaches the skip link, switcher, navigation and user menu', async ({ page }) => {
+	await signIn(page, uniqueEmail('keys'));
+	await page.goto('/');
+	await page.getByLabel('Workspace name').fill('Keyboard bench');
+	await page.getByRole('button', { name: 'Create workspace' }).click();
+	await expect(page).toHaveURL(/\/w\/[^/]+\/maps$/);
+	const slug = new URL(page.url()).pathname.split('/')[2];
+
+	// Walk the header with Tab alone and record what gets focus, in order.
+	await page.locator('body').focus();
+	await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+	const seen: string[] = [];
+	for (let i = 0; i < 9; i++) {
+		await page.keyboard.press('Tab');
+		seen.push(await focusedName(page));
+	}
+	expect(seen[0]).toBe('a:Skip to content');
+	const order = ['Skip to content', 'Framewright home', 'Workspace:', 'Maps', 'Captures', 'Tools', 'Members', 'Account menu'];
+	let at = -1;
+	for (const expected of order) {
+		const found = seen.findIndex((s, i) => i > at && s.includes(expected));
+		expect(found, `"${expected}" reached by Tab after position ${at} in ${JSON.stringify(seen)}`).toBeGreaterThan(at);
+		at = found;
+	}
+	// The active section is marked for assistive technology.
+	await expect(page.getByRole('link', { name: 'Maps' })).toHaveAttribute('aria-current', 'page');
+
+	// The workspace switcher opens with the arrow key and its links are reachable the same way.
+	const switcher = page.getByRole('button', { name: /workspace:/i });
+	await switcher.focus();
+	await page.keyboard.press('ArrowDown');
+	await expect(switcher).toHaveAttribute('aria-expanded', 'true');
+	await expect(page.getByRole('link', { name: /Keyboard bench/ })).toBeFocused();
+	await page.keyboard.press('Escape');
+	await expect(switcher).toHaveAttribute('aria-expanded', 'false');
+	await expect(switcher).toBeFocused();
+
+	// The user menu opens with Enter and holds the e-mail, the theme toggle and sign-out.
+	const menu = page.getByRole('button', { name: /account menu/i });
+	await menu.focus();
+	await page.keyboard.press('Enter');
+	await expect(menu).toHaveAttribute('aria-expanded', 'true');
+	await page.keyboard.press('Tab');
+	await expect(page.getByRole('button', { name: 'Dark theme' })).toBeFocused();
+	await page.keyboard.press('Tab');
+	await expect(page.getByRole('button', { name: 'Sign out' })).toBeFocused();
+	await page.keyboard.press('Escape');
+	await expect(menu).toBeFocused();
+
+	// Navigation by keyboard: Enter on a nav link moves there.
+	await page.getByRole('link', { name: 'Members' }).focus();
+	await page.keyboard.press('Enter');
+	await expect(page).toHaveURL(new RegExp(`/w/${slug}/members$`));
+	await expect(page.getByRole('link', { name: 'Members' })).toHaveAttribute('aria-current', 'page');
+});
+
+test('both themes render: the toggle switches the dark class and the colours, and is remembered', async ({
+	browser
+}) => {
+	const context = await browser.newContext({ colorScheme: 'light' });
+	const page = await context.newPage();
+	await signIn(page, uniqueEmail('themes'));
+	const html = page.locator('html');
+
+	await expect(html).not.toHaveClass(/\bdark\b/);
+	const lightBackground = await bodyBackground(page);
+
+	await page.getByRole('button', { name: /account menu/i }).click();
+	const toggle = page.getByRole('button', { name: 'Dark theme' });
+	await expect(toggle).toHaveAttribute('aria-pressed', 'false');
+	await toggle.click();
+	await expect(toggle).toHaveAttribute('aria-pressed', 'true');
+	await expect(html).toHaveClass(/\bdark\b/);
+	const darkBackground = await bodyBackground(page);
+	expect(darkBackground).not.toBe(lightBackground);
+	expect(await page.evaluate(() => localStorage.getItem('fw-theme'))).toBe('dark');
+
+	// The choice outlives a reload even though the system prefers light.
+	await page.reload();
+	await expect(html).toHaveClass(/\bdark\b/);
+	expect(await bodyBackground(page)).toBe(darkBackground);
+
+	// And back.
+	await page.getByRole('button', { name: /account menu/i }).click();
+	await page.getByRole('button', { name: 'Dark theme' }).click();
+	await expect(html).not.toHaveClass(/\bdark\b/);
+	expect(await bodyBackground(page)).toBe(lightBackground);
+	await context.close();
+});
+
+test('without a saved choice the theme follows the system preference', async ({ browser }) => {
+	const context = await browser.newContext({ colorScheme: 'dark' });
+	const page = await context.newPage();
+	await page.goto('/');
+	await expect(page.locator('html')).toHaveClass(/\bdark\b/);
+	await page.emulateMedia({ colorScheme: 'light' });
+	await expect(page.locator('html')).not.toHaveClass(/\bdark\b/);
+	await context.close();
+});
