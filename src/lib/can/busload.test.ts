@@ -1,0 +1,76 @@
+import { describe, expect, it } from 'vitest';
+import { captureBusLoad, frameBusBits, mapBusLoad } from './busload';
+import { canMapSchema } from './map';
+
+// Demo map (invented), two periodic frames, one event frame and one CAN FD frame.
+const map = canMapSchema.parse({
+	format: 'framewright-map@1',
+	name: 'Bus load arithmetic',
+	bitrate: 500_000,
+	frames: [
+		{ name: 'Fast', id: '0x100', length: 8, cycleMs: 10 },
+		{ name: 'Slow', id: '0x18FF1234', extended: true, length: 4, cycleMs: 100 },
+		{ name: 'OnChange', id: '0x200', length: 2, cycleMs: null },
+		{ name: 'Wide', id: '0x300', length: 64, cycleMs: 10 }
+	]
+});
+
+describe('mapBusLoad', () => {
+	it('matches the hand arithmetic for two frames (ISO 11898-1 bit counts, Davis et al. 2007 bound)', () => {
+		// Fast: base, 8 bytes, 100 /s. Nominal 44+8·8 = 108 bits + 3 intermission = 111 → 11 100 bit/s.
+		//       Worst (Davis) 34+64+13+⌊97/4⌋ = 135 → 13 500 bit/s.
+		// Slow: extended, 4 bytes, 10 /s. Nominal 64+8·4 = 96 + 3 = 99 → 990 bit/s.
+		//       Worst 54+32+13+⌊85/4⌋ = 120 → 1 200 bit/s.
+		// Totals at 500 kbit/s: nominal 12 090 / 500 000 = 2.418 %, worst 14 700 / 500 000 = 2.94 %.
+		const load = mapBusLoad(map);
+		expect(load.frames[0]).toMatchObject({ framesPerSecond: 100, nominalBitsPerSecond: 11_100, worstCaseBitsPerSecond: 13_500, excluded: null });
+		expect(load.frames[1]).toMatchObject({ framesPerSecond: 10, nominalBitsPerSecond: 990, worstCaseBitsPerSecond: 1_200 });
+		expect(load.frames[0].nominalPercent).toBeCloseTo(2.22, 10);
+		expect(load.frames[1].worstCasePercent).toBeCloseTo(0.24, 10);
+		expect(load.nominalPercent).toBeCloseTo(2.418, 10);
+		expect(load.worstCasePercent).toBeCloseTo(2.94, 10);
+	});
+
+	it('lists frames without a cycle time or beyond classical CAN with zero load', () => {
+		const load = mapBusLoad(map);
+		expect(load.frames[2]).toMatchObject({ name: 'OnChange', framesPerSecond: 0, nominalPercent: 0, excluded: 'noCycleTime' });
+		expect(load.frames[3]).toMatchObject({ name: 'Wide', worstCasePercent: 0, excluded: 'canFd' });
+	});
+
+	it('uses the given bit rate instead of the map’s', () => {
+		// Same 12 090 bit/s on a 250 kbit/s bus: 4.836 %.
+		expect(mapBusLoad(map, 250_000).nominalPercent).toBeCloseTo(4.836, 10);
+		expect(() => mapBusLoad(map, 0)).toThrow(/bit rate/);
+	});
+});
+
+describe('captureBusLoad', () => {
+	it('sums each window’s frame bits against its capacity', () => {
+		// 1 s windows at 125 kbit/s: window 0 holds 1000 + 250 bits = 1.0 %, window 1 is empty,
+		// window 2 holds 12 500 bits = 10 %.
+		const times = Float64Array.of(10.0, 10.5, 12.9);
+		const bits = Float64Array.of(1000, 250, 12_500);
+		expect(captureBusLoad(times, bits, 125_000, 1)).toEqual([
+			{ start: 10, percent: 1 },
+			{ start: 11, percent: 0 },
+			{ start: 12, percent: 10 }
+		]);
+	});
+
+	it('counts a real frame as bits + its stuff bits + 3 intermission (ISO 11898-1)', () => {
+		// An 8-byte all-zero base frame with ID 0: 108 frame bits; stuff bits counted by frameBits.
+		const n = frameBusBits(0, false, new Uint8Array(8));
+		expect(n).toBeGreaterThan(108 + 3);
+		expect(n).toBeLessThanOrEqual(135);
+		const times = new Float64Array(1000).map((_, i) => i / 1000); // 1000 frames in one second
+		const [w] = captureBusLoad(times, new Float64Array(1000).fill(n), 500_000, 1);
+		expect(w.percent).toBeCloseTo((100 * 1000 * n) / 500_000, 10);
+	});
+
+	it('rejects mismatched inputs and absurd windows', () => {
+		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(2), 500_000, 1)).toThrow(/same length/);
+		expect(() => captureBusLoad(Float64Array.of(0, 1e9), new Float64Array(2), 500_000, 1)).toThrow(/windows/);
+		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(1), 500_000, 0)).toThrow(/window/);
+		expect(captureBusLoad(new Float64Array(0), new Float64Array(0), 500_000, 1)).toEqual([]);
+	});
+});

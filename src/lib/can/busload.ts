@@ -1,0 +1,138 @@
+/**
+ * Bus load: the share of the bit rate that frames occupy, from a map's cycle times (planning)
+ * or from a capture's actual frames (measurement). Classical CAN only: CAN FD frames switch bit
+ * rate in the data phase and are listed but left out of the totals.
+ */
+import type { CanMap } from './map';
+import {
+	CLASSICAL_MAX_LENGTH,
+	frameBits,
+	interFrameBits,
+	nominalFrameBits,
+	worstCaseFrameBits
+} from './frame-bits';
+
+export type BusLoadExclusion = 'noCycleTime' | 'canFd';
+
+export interface FrameBusLoad {
+	frameIndex: number;
+	name: string;
+	id: number;
+	framesPerSecond: number;
+	nominalBitsPerSecond: number;
+	worstCaseBitsPerSecond: number;
+	nominalPercent: number;
+	worstCasePercent: number;
+	/** Why the frame contributes nothing to the totals, or null when it counts. */
+	excluded: BusLoadExclusion | null;
+}
+
+export interface MapBusLoad {
+	bitrate: number;
+	nominalPercent: number;
+	worstCasePercent: number;
+	frames: FrameBusLoad[];
+}
+
+function checkPositive(value: number, what: string): void {
+	if (!Number.isFinite(value) || value <= 0) {
+		throw new RangeError(`${what} must be a positive number, got ${value}`);
+	}
+}
+
+/**
+ * Planned bus load of a map from its frames' cycle times, in percent of the bit rate
+ * (map.bitrate unless `bitrate` is given). Per frame and second:
+ * - nominal = (unstuffed bits SOF…EOF + 3-bit intermission) × frames per second — no stuffing
+ *   estimate, so it is the floor the bus can never go below;
+ * - worst case = Davis et al. 2007 bound (already including the intermission) × frames per second.
+ * Frames without a cycle time (event-driven or unknown) and CAN FD frames are listed with zero load.
+ */
+export function mapBusLoad(map: CanMap, bitrate: number = map.bitrate): MapBusLoad {
+	checkPositive(bitrate, 'bit rate');
+	let nominal = 0;
+	let worst = 0;
+	const frames = map.frames.map((frame, frameIndex): FrameBusLoad => {
+		const excluded: BusLoadExclusion | null =
+			frame.length > CLASSICAL_MAX_LENGTH ? 'canFd' : frame.cycleMs == null ? 'noCycleTime' : null;
+		const framesPerSecond = excluded === null && frame.cycleMs ? 1000 / frame.cycleMs : 0;
+		const nominalBitsPerSecond = excluded
+			? 0
+			: framesPerSecond * (nominalFrameBits(frame.length, frame.extended) + interFrameBits);
+		const worstCaseBitsPerSecond = excluded
+			? 0
+			: framesPerSecond * worstCaseFrameBits(frame.length, frame.extended);
+		nominal += nominalBitsPerSecond;
+		worst += worstCaseBitsPerSecond;
+		return {
+			frameIndex,
+			name: frame.name,
+			id: frame.id,
+			framesPerSecond,
+			nominalBitsPerSecond,
+			worstCaseBitsPerSecond,
+			nominalPercent: (100 * nominalBitsPerSecond) / bitrate,
+			worstCasePercent: (100 * worstCaseBitsPerSecond) / bitrate,
+			excluded
+		};
+	});
+	return {
+		bitrate,
+		nominalPercent: (100 * nominal) / bitrate,
+		worstCasePercent: (100 * worst) / bitrate,
+		frames
+	};
+}
+
+/**
+ * Bus time one received classical frame took, in bits: the exact frame with its own stuff bits,
+ * plus the 3-bit intermission. Use as the per-frame count for captureBusLoad.
+ */
+export function frameBusBits(id: number, extended: boolean, data: Uint8Array): number {
+	const { bits, stuffBits } = frameBits(id, extended, data);
+	return bits + stuffBits + interFrameBits;
+}
+
+/** Most windows captureBusLoad will produce, so a typo in the window size cannot exhaust memory. */
+export const MAX_LOAD_WINDOWS = 1_000_000;
+
+/**
+ * Measured bus load of a capture over fixed windows: each frame's bit count is added to the window
+ * holding its timestamp (a frame crossing a window edge is counted whole in its own window).
+ * Windows start at the earliest timestamp; empty windows are reported with 0 %.
+ * `times` in seconds (any order), `frameBitCounts[i]` the bus bits of frame i (see frameBusBits).
+ */
+export function captureBusLoad(
+	times: Float64Array,
+	frameBitCounts: Float64Array | Uint16Array,
+	bitrate: number,
+	windowSeconds: number
+): { start: number; percent: number }[] {
+	checkPositive(bitrate, 'bit rate');
+	checkPositive(windowSeconds, 'window length');
+	if (times.length !== frameBitCounts.length) {
+		throw new RangeError(
+			`times (${times.length}) and frame bit counts (${frameBitCounts.length}) must have the same length`
+		);
+	}
+	if (times.length === 0) return [];
+	let first = Infinity;
+	let last = -Infinity;
+	for (const t of times) {
+		if (!Number.isFinite(t)) throw new RangeError(`frame times must be finite numbers, got ${t}`);
+		if (t < first) first = t;
+		if (t > last) last = t;
+	}
+	const count = Math.floor((last - first) / windowSeconds) + 1;
+	if (count > MAX_LOAD_WINDOWS) {
+		throw new RangeError(
+			`${count} windows of ${windowSeconds} s needed; choose a window of at least ${(last - first) / MAX_LOAD_WINDOWS} s`
+		);
+	}
+	const bits = new Float64Array(count);
+	for (let i = 0; i < times.length; i++) {
+		bits[Math.min(count - 1, Math.floor((times[i] - first) / windowSeconds))] += frameBitCounts[i];
+	}
+	const capacity = bitrate * windowSeconds;
+	return Array.from(bits, (b, k) => ({ start: first + k * windowSeconds, percent: (100 * b) / capacity }));
+}
