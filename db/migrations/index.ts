@@ -1,0 +1,20 @@
+import type { Migration, MigrationProvider } from 'kysely';
+import * as auth from './2026-12-01-001-auth';
+import * as workspaces from './2026-12-01-002-workspaces';
+import * as auditLog from './2026-12-01-003-audit-log';
+import * as signinRequests from './2026-12-01-004-signin-requests';
+import * as mailbox from './2026-12-01-005-mailbox';
+
+// An explicit, ordered list instead of reading the folder: it works the same under Vite, the
+// production bundle, vitest and tsx. Append new migrations at the end; never rename or edit old ones.
+export const migrations: Record<string, Migration> = {
+	'2026-12-01-001-auth': auth,
+	'2026-12-01-002-workspaces': workspaces,
+	'2026-12-01-003-audit-log': auditLog,
+	'2026-12-01-004-signin-requests': signinRequests,
+	'2026-12-01-005-mailbox': mailbox
+};
+
+export const migrationProvider: MigrationProvider = {
+	getMigrations: async () => migrations
+};

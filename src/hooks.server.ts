@@ -1,0 +1,28 @@
+import { building } from '$app/environment';
+import type { Handle, ServerInit } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { authHandle } from '$lib/server/auth';
+import { getServices } from '$lib/server/services';
+
+// Opens and migrates the database, starts the demo mail server and seeds demo data before the
+// first request, so a misconfiguration fails at start-up rather than on someone's click.
+export const init: ServerInit = async () => {
+	if (!building) await getServices();
+};
+
+const provideServices: Handle = async ({ event, resolve }) => {
+	event.locals.services = await getServices();
+	event.locals.user = null;
+	return resolve(event);
+};
+
+const resolveUser: Handle = async ({ event, resolve }) => {
+	const session = await event.locals.auth();
+	const user = session?.user;
+	if (user?.id && user.email) {
+		event.locals.user = { id: user.id, email: user.email, name: user.name ?? null };
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(provideServices, authHandle, resolveUser);

@@ -1,0 +1,125 @@
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { Role } from '../roles';
+
+// Types mirror what better-sqlite3 returns: timestamps as ISO text (or epoch ms where noted),
+// booleans would be 0/1. Columns the database fills are Generated<>.
+
+export interface UserTable {
+	id: string;
+	name: string | null;
+	email: string;
+	emailVerified: string | null;
+	image: string | null;
+}
+
+export interface AccountTable {
+	id: Generated<number>;
+	userId: string;
+	type: string;
+	provider: string;
+	providerAccountId: string;
+	refresh_token: string | null;
+	access_token: string | null;
+	expires_at: number | null;
+	token_type: string | null;
+	scope: string | null;
+	id_token: string | null;
+	session_state: string | null;
+}
+
+export interface SessionTable {
+	id: Generated<number>;
+	sessionToken: string;
+	userId: string;
+	expires: string;
+}
+
+export interface VerificationTokenTable {
+	identifier: string;
+	token: string;
+	expires: string;
+}
+
+export interface WorkspaceTable {
+	id: string;
+	slug: string;
+	name: string;
+	created_by: string | null;
+	created_at: string;
+}
+
+export interface MembershipTable {
+	workspace_id: string;
+	user_id: string;
+	role: Role;
+	joined_at: string;
+}
+
+export interface InvitationTable {
+	id: string;
+	workspace_id: string;
+	email: string;
+	role: Role;
+	token_hash: string;
+	invited_by: string | null;
+	created_at: string;
+	expires_at: string;
+	accepted_at: string | null;
+	accepted_by: string | null;
+}
+
+export interface AuditLogTable {
+	id: Generated<number>;
+	workspace_id: string | null;
+	actor_id: string | null;
+	action: string;
+	target: string | null;
+	/** JSON text. */
+	details: ColumnType<string, string | undefined, string>;
+	created_at: string;
+}
+
+export interface SigninRequestTable {
+	id: Generated<number>;
+	email: string;
+	/** Epoch milliseconds. */
+	requested_at: number;
+}
+
+export interface MailboxMessageTable {
+	id: string;
+	to_address: string;
+	from_address: string;
+	subject: string;
+	text: string;
+	html: string | null;
+	/** JSON array of URLs found in the message. */
+	links: ColumnType<string, string | undefined, string>;
+	received_at: string;
+}
+
+export interface Database {
+	User: UserTable;
+	Account: AccountTable;
+	Session: SessionTable;
+	VerificationToken: VerificationTokenTable;
+	workspaces: WorkspaceTable;
+	memberships: MembershipTable;
+	invitations: InvitationTable;
+	audit_log: AuditLogTable;
+	signin_requests: SigninRequestTable;
+	mailbox_messages: MailboxMessageTable;
+}
+
+export type User = Selectable<UserTable>;
+export type Workspace = Selectable<WorkspaceTable>;
+export type NewWorkspace = Insertable<WorkspaceTable>;
+export type WorkspaceUpdate = Updateable<WorkspaceTable>;
+export type Membership = Selectable<MembershipTable>;
+export type NewMembership = Insertable<MembershipTable>;
+export type Invitation = Selectable<InvitationTable>;
+export type NewInvitation = Insertable<InvitationTable>;
+export type AuditLogEntry = Selectable<AuditLogTable>;
+export type NewAuditLogEntry = Insertable<AuditLogTable>;
+export type MailboxMessage = Selectable<MailboxMessageTable>;
+export type NewMailboxMessage = Insertable<MailboxMessageTable>;

@@ -1,0 +1,28 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { requestSignInLink, safeCallbackUrl } from '$lib/server/auth';
+import { fieldErrorsOf } from '$lib/server/problem';
+import { emailSchema } from '$lib/server/schemas';
+import { z } from 'zod';
+import type { Actions, PageServerLoad } from './$types';
+
+const signInFormSchema = z.object({ email: emailSchema });
+
+export const load = (async ({ locals, url }) => {
+	const callbackUrl = safeCallbackUrl(url.searchParams.get('callbackUrl'));
+	if (locals.user) redirect(303, callbackUrl);
+	return { callbackUrl };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	default: async (event) => {
+		const form = await event.request.formData();
+		const values = { email: String(form.get('email') ?? '') };
+		const callbackUrl = safeCallbackUrl(form.get('callbackUrl') ?? event.url.searchParams.get('callbackUrl'));
+		const parsed = signInFormSchema.safeParse(values);
+		if (!parsed.success) {
+			return fail(400, { errors: fieldErrorsOf(parsed.error) as { email?: string[] }, values });
+		}
+		const next = await requestSignInLink(event.locals.services, event.url.origin, parsed.data.email, callbackUrl);
+		redirect(303, next);
+	}
+} satisfies Actions;
