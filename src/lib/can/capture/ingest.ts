@@ -1,0 +1,227 @@
+/**
+ * Streaming import of a capture CSV. Text arrives in chunks (a string, a web ReadableStream or any
+ * async iterable — a Node file stream is one), is cut at whole lines and handed to papaparse's
+ * parser one chunk at a time, so memory holds one chunk of text plus the compact frames, never the
+ * whole file. Bad rows are reported by line number and skipped; good rows always survive.
+ * Line numbers assume one row per line (CAN captures have no quoted line breaks).
+ */
+import Papa from 'papaparse';
+import { CaptureFormatError, detectCaptureLayout, SAMPLE_ROWS } from './detect-layout';
+import { FrameStore, type FrameSink } from './frame-store';
+import { captureLayoutSchema, SECONDS_PER_UNIT, type CaptureLayout } from './layout';
+import { createParsedRow, createRowParser } from './row-parser';
+
+export type CaptureChunk = string | Uint8Array;
+export type CaptureSource =
+	| string
+	| ReadableStream<CaptureChunk>
+	| AsyncIterable<CaptureChunk>
+	| Iterable<CaptureChunk>;
+
+export interface BadRow {
+	/** 1-based line number in the file. */
+	line: number;
+	reason: string;
+}
+
+export interface IngestReport {
+	layout: CaptureLayout;
+	/** How the layout was guessed; empty when the caller gave the layout. */
+	layoutNotes: string[];
+	frameCount: number;
+	lineCount: number;
+	/** The first MAX_REPORTED_BAD_ROWS bad rows; `badRowCount` counts them all. */
+	badRows: BadRow[];
+	badRowCount: number;
+	/** Rows whose time is earlier than the row before (kept, in file order). */
+	backwardsTimeCount: number;
+	firstBackwardsLine: number | null;
+	/** Time of the first frame in seconds as written (epoch seconds for wall-clock times); null if none. */
+	timeOrigin: number | null;
+	warnings: string[];
+}
+
+export interface IngestOptions {
+	/** A confirmed or corrected layout; guessed from the first rows when absent. */
+	layout?: CaptureLayout;
+}
+
+export const MAX_REPORTED_BAD_ROWS = 1000;
+/** Characters of text parsed at a time: large enough to amortise calls, small enough to stay bounded. */
+const PARSE_CHUNK_CHARS = 1 << 20;
+/** Text read before guessing the layout (unless SAMPLE_ROWS lines arrive first). */
+const SAMPLE_CHARS = 1 << 18;
+
+function isReadableStream(source: unknown): source is ReadableStream<CaptureChunk> {
+	return typeof (source as ReadableStream | null)?.getReader === 'function';
+}
+
+/** Decodes any supported source into text chunks (UTF-8, split multi-byte characters handled). */
+async function* textChunks(source: CaptureSource): AsyncGenerator<string> {
+	if (typeof source === 'string') {
+		for (let at = 0; at < source.length; at += PARSE_CHUNK_CHARS) yield source.slice(at, at + PARSE_CHUNK_CHARS);
+		return;
+	}
+	const decoder = new TextDecoder('utf-8');
+	const text = (chunk: CaptureChunk) => (typeof chunk === 'string' ? chunk : decoder.decode(chunk, { stream: true }));
+	if (isReadableStream(source)) {
+		const reader = source.getReader();
+		try {
+			for (;;) {
+				const { done, value } = await reader.read();
+				if (done) break;
+				yield text(value);
+			}
+		} finally {
+			reader.releaseLock();
+		}
+	} else {
+		for await (const chunk of source) yield text(chunk);
+	}
+	const tail = decoder.decode();
+	if (tail) yield tail;
+}
+
+function detectNewline(text: string): '\n' | '\r\n' | '\r' {
+	const lf = text.indexOf('\n');
+	if (lf > 0 && text.charCodeAt(lf - 1) === 13) return '\r\n';
+	if (lf >= 0) return '\n';
+	return text.includes('\r') ? '\r' : '\n';
+}
+
+function countLines(text: string, limit: number): number {
+	let n = 0;
+	for (let at = text.indexOf('\n'); at >= 0 && n < limit; at = text.indexOf('\n', at + 1)) n++;
+	return n;
+}
+
+/** Streams a capture into `sink` (e.g. a FrameStore, or a decoder that writes rows out). */
+export async function ingestCaptureInto(
+	source: CaptureSource,
+	sink: FrameSink,
+	options: IngestOptions = {}
+): Promise<IngestReport> {
+	let layout: CaptureLayout | null = options.layout ? captureLayoutSchema.parse(options.layout) : null;
+	const layoutNotes: string[] = [];
+	let newline: '\n' | '\r\n' | '\r' = '\n';
+	let parser: Papa.Parser | null = null;
+	let parseRow: ReturnType<typeof createRowParser> = () => null;
+	let secondsPerUnit = 1;
+
+	const out = createParsedRow();
+	const badRows: BadRow[] = [];
+	let badRowCount = 0;
+	let line = 0;
+	let headerPending = false;
+	let frameCount = 0;
+	let firstTime: number | null = null;
+	let previousTime = -Infinity;
+	let backwardsTimeCount = 0;
+	let firstBackwardsLine: number | null = null;
+
+	const start = (sample: string, final: boolean) => {
+		newline = detectNewline(sample);
+		if (!layout) {
+			const complete = final ? sample : sample.slice(0, sample.lastIndexOf(newline));
+			const guess = detectCaptureLayout(complete);
+			layout = guess.layout;
+			layoutNotes.push(...guess.notes);
+		}
+		parser = new Papa.Parser({ delimiter: layout.delimiter, newline });
+		parseRow = createRowParser(layout);
+		secondsPerUnit = SECONDS_PER_UNIT[layout.timeUnit];
+		headerPending = layout.hasHeader;
+	};
+
+	const consume = (text: string, dropLastRow: boolean) => {
+		const rows: string[][] = parser!.parse(text, 0, dropLastRow).data;
+		for (const row of rows) {
+			line++;
+			if (row.length === 1 && row[0].trim() === '') continue;
+			if (headerPending) {
+				headerPending = false;
+				continue;
+			}
+			const problem = parseRow(row, out);
+			if (problem !== null) {
+				if (badRows.length < MAX_REPORTED_BAD_ROWS) badRows.push({ line, reason: problem });
+				badRowCount++;
+				continue;
+			}
+			firstTime ??= out.time;
+			if (out.time < previousTime) {
+				backwardsTimeCount++;
+				firstBackwardsLine ??= line;
+			}
+			previousTime = out.time;
+			// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
+			sink.add((out.time - firstTime) * secondsPerUnit, out.id, out.extended, out.data, out.length);
+			frameCount++;
+		}
+	};
+
+	let pending = '';
+	let first = true;
+	for await (let text of textChunks(source)) {
+		if (first && text.length > 0) {
+			text = text.replace(/^\ufeff/, ''); // a byte-order mark is not part of the first field
+			first = false;
+		}
+		pending += text;
+		if (!parser) {
+			if (pending.length < SAMPLE_CHARS && countLines(pending, SAMPLE_ROWS + 2) < SAMPLE_ROWS + 2) continue;
+			start(pending, false);
+		}
+		if (pending.length < PARSE_CHUNK_CHARS) continue;
+		const cut = pending.lastIndexOf(newline);
+		if (cut < 0) continue;
+		consume(pending.slice(0, cut + newline.length), true);
+		pending = pending.slice(cut + newline.length);
+	}
+	if (!parser) {
+		if (pending.trim() === '' && !layout) {
+			throw new CaptureFormatError('The capture is empty: it has no rows to read.');
+		}
+		start(pending, true);
+	}
+	if (pending.length > 0) consume(pending, pending.endsWith(newline));
+
+	const finalLayout = layout as unknown as CaptureLayout;
+	const warnings: string[] = [];
+	if (frameCount === 0) {
+		warnings.push(badRowCount > 0 ? 'No row could be read as a frame.' : 'The capture has no frames (header only or empty).');
+	}
+	if (badRowCount > 0) {
+		warnings.push(
+			`${badRowCount} row(s) could not be read and were skipped; the first is line ${badRows[0].line}: ${badRows[0].reason}.`
+		);
+	}
+	if (backwardsTimeCount > 0) {
+		warnings.push(
+			`${backwardsTimeCount} row(s) have a time earlier than the row before (first at line ${firstBackwardsLine}); they are kept in file order.`
+		);
+	}
+	return {
+		layout: finalLayout,
+		layoutNotes,
+		frameCount,
+		lineCount: line,
+		badRows,
+		badRowCount,
+		backwardsTimeCount,
+		firstBackwardsLine,
+		timeOrigin: firstTime === null ? null : firstTime * secondsPerUnit,
+		warnings
+	};
+}
+
+/** Streams a capture into a new FrameStore. */
+export async function ingestCapture(
+	source: CaptureSource,
+	options: IngestOptions = {}
+): Promise<IngestReport & { store: FrameStore }> {
+	const store = new FrameStore();
+	const report = await ingestCaptureInto(source, store, options);
+	store.origin = { timeOrigin: report.timeOrigin ?? 0, epoch: report.layout.epochTime };
+	return { ...report, store };
+}
