@@ -3,7 +3,7 @@
  * of millions of frames is a table lookup plus a few typed reads per signal. Byte-aligned 8/16/32/64-bit
  * and float fields read through DataView; other fields use number arithmetic (never BigInt).
  */
-import { fieldLayout, readFloatNumber, readIntegerNumber, readUnsigned32, type FieldLayout } from './bits';
+import { fieldLayout, readFloatNumber, readIntegerNumber, type FieldLayout } from './bits';
 import { multiplexerIndex } from './codec';
 import { j1939Pgn, j1939ValueStatus } from './j1939';
 import { MAX_EXTENDED_ID, type CanMap, type Frame, type Signal } from './map';
@@ -55,7 +55,8 @@ export interface CompiledMap {
 type RawReader = (data: Uint8Array, view: DataView, base: number) => number;
 
 interface SignalPlan {
-	read: RawReader;
+	layout: FieldLayout;
+	valueType: Signal['valueType'];
 	scale: number;
 	offset: number;
 	/** Bytes that must have been received for the field to be present; Infinity if it can never fit. */
@@ -64,72 +65,6 @@ interface SignalPlan {
 	muxValue: number | null;
 	/** Apply the J1939-71 not-available/error ranges (unsigned signal of a J1939 frame). */
 	j1939: boolean;
-	length: number;
-}
-
-const TWO_POW_32 = 4294967296;
-
-/** Fast DataView paths for whole-byte fields; null when the field is not byte-aligned or of an odd size. */
-function alignedReader(signal: Signal, layout: FieldLayout): RawReader | null {
-	if (layout.shift !== 0 || layout.length % 8 !== 0) return null;
-	const at = layout.lowByte;
-	const le = signal.byteOrder === 'little';
-	const signed = signal.valueType === 'signed';
-	switch (`${signal.valueType === 'float32' || signal.valueType === 'float64' ? 'f' : signed ? 'i' : 'u'}${layout.length}`) {
-		case 'u8':
-			return (d, _v, b) => d[b + at];
-		case 'i8':
-			return (_d, v, b) => v.getInt8(b + at);
-		case 'u16':
-			return (_d, v, b) => v.getUint16(b + at, le);
-		case 'i16':
-			return (_d, v, b) => v.getInt16(b + at, le);
-		case 'u32':
-			return (_d, v, b) => v.getUint32(b + at, le);
-		case 'i32':
-			return (_d, v, b) => v.getInt32(b + at, le);
-		case 'f32':
-			return (_d, v, b) => v.getFloat32(b + at, le);
-		case 'f64':
-			return (_d, v, b) => v.getFloat64(b + at, le);
-		// 64-bit integers as two halves: the high half times 2^32 is exact, so the sum rounds once.
-		case 'u64':
-			return le
-				? (_d, v, b) => v.getUint32(b + at + 4, true) * TWO_POW_32 + v.getUint32(b + at, true)
-				: (_d, v, b) => v.getUint32(b + at, false) * TWO_POW_32 + v.getUint32(b + at + 4, false);
-		case 'i64':
-			return le
-				? (_d, v, b) => v.getInt32(b + at + 4, true) * TWO_POW_32 + v.getUint32(b + at, true)
-				: (_d, v, b) => v.getInt32(b + at, false) * TWO_POW_32 + v.getUint32(b + at + 4, false);
-		default:
-			return null;
-	}
-}
-
-function genericReader(signal: Signal, layout: FieldLayout): RawReader {
-	if (signal.valueType === 'float32' || signal.valueType === 'float64') {
-		return (d, _v, b) => readFloatNumber(d, b, layout);
-	}
-	const signed = signal.valueType === 'signed';
-	const { lsbByte, shift, length, step } = layout;
-	if (length > 32) return (d, _v, b) => readIntegerNumber(d, b, layout, signed);
-	const span = 2 ** length;
-	const half = span / 2;
-	if (shift + length <= 8) {
-		const mask = span - 1;
-		return signed
-			? (d, _v, b) => {
-					const u = (d[b + lsbByte] >> shift) & mask;
-					return u >= half ? u - span : u;
-				}
-			: (d, _v, b) => (d[b + lsbByte] >> shift) & mask;
-	}
-	return signed
-		? (d, _v, b) => {
-				const u = readUnsigned32(d, b, lsbByte, shift, length, step);
-				return u >= half ? u - span : u;
-			}
-		: (d, _v, b) => readUnsigned32(d, b, lsbByte, shift, length, step);
 }
 
 function planSignal(signal: Signal, frame: Frame): SignalPlan {
@@ -138,14 +73,67 @@ function planSignal(signal: Signal, frame: Frame): SignalPlan {
 	// A float of the wrong length (a lint error) or a big-endian field running off byte 0 never decodes.
 	const decodable = layout.lowByte >= 0 && (floatLength === null || floatLength === signal.length);
 	return {
-		read: decodable ? (alignedReader(signal, layout) ?? genericReader(signal, layout)) : () => Number.NaN,
+		layout,
+		valueType: signal.valueType,
 		scale: signal.scale,
 		offset: signal.offset,
 		needBytes: decodable ? layout.highByte + 1 : Number.POSITIVE_INFINITY,
 		muxValue: signal.muxValue,
-		j1939: frame.j1939 && signal.valueType === 'unsigned',
-		length: signal.length
+		j1939: frame.j1939 && signal.valueType === 'unsigned'
 	};
+}
+
+/** Portable reader: the shared number arithmetic of bits.ts (used when code generation is unavailable). */
+function genericReader(plan: SignalPlan): RawReader {
+	const { layout } = plan;
+	if (plan.valueType === 'float32' || plan.valueType === 'float64') return (d, _v, b) => readFloatNumber(d, b, layout);
+	const signed = plan.valueType === 'signed';
+	return (d, _v, b) => readIntegerNumber(d, b, layout, signed);
+}
+
+/**
+ * JavaScript expression reading the raw value from `d` (bytes), `v` (DataView) at frame start `b`.
+ * Whole-byte 8/16/32/64-bit and float fields use DataView; other fields up to 32 bits combine at most
+ * five bytes with 32-bit integer operations; longer unaligned fields call the shared helper `L[k]`.
+ */
+function readerSource(plan: SignalPlan, k: number): string {
+	const { lsbByte, shift, length, step, lowByte, byteCount } = plan.layout;
+	const le = step === 1;
+	const at = `b + ${lowByte}`;
+	const float = plan.valueType === 'float32' || plan.valueType === 'float64';
+	const signed = plan.valueType === 'signed';
+	if (shift === 0 && length % 8 === 0) {
+		switch (`${float ? 'f' : signed ? 'i' : 'u'}${length}`) {
+			case 'u8': return `d[${at}]`;
+			case 'i8': return `v.getInt8(${at})`;
+			case 'u16': return `v.getUint16(${at}, ${le})`;
+			case 'i16': return `v.getInt16(${at}, ${le})`;
+			case 'u32': return `v.getUint32(${at}, ${le})`;
+			case 'i32': return `v.getInt32(${at}, ${le})`;
+			case 'f32': return `v.getFloat32(${at}, ${le})`;
+			case 'f64': return `v.getFloat64(${at}, ${le})`;
+			// 64-bit integers as two halves: high × 2^32 is exact, so the sum rounds once (like Number(BigInt)).
+			case 'u64':
+			case 'i64': {
+				const [hi, lo] = le ? [`${at} + 4`, at] : [at, `${at} + 4`];
+				return `(v.get${signed ? 'Int' : 'Uint'}32(${hi}, ${le}) * 4294967296 + v.getUint32(${lo}, ${le}))`;
+			}
+		}
+	}
+	if (float) return `F(d, b, L[${k}])`;
+	if (length > 32) return `I(d, b, L[${k}], ${signed})`;
+	const byteAt = (j: number) => `d[b + ${lsbByte + step * j}]`;
+	const word = Array.from({ length: Math.min(byteCount, 4) }, (_, j) => (j === 0 ? byteAt(0) : `(${byteAt(j)} << ${8 * j})`)).join(' | ');
+	let unsigned: string;
+	if (byteCount <= 4) {
+		unsigned = length === 32 ? `((${word}) >>> 0)` : `(((${word}) >>> ${shift}) & ${2 ** length - 1})`;
+	} else {
+		// fifth byte: its low (shift + length − 32) bits sit above the 32 − shift bits of the word
+		const highBits = shift + length - 32;
+		unsigned = `(((${word}) >>> ${shift}) + (${byteAt(4)} & ${2 ** highBits - 1}) * ${2 ** (32 - shift)})`;
+	}
+	// Sign extension by shifting the sign bit to bit 31 and back (arithmetic shift).
+	return signed ? `((${unsigned} << ${32 - length}) >> ${32 - length})` : unsigned;
 }
 
 const J1939_STATUS_CODE = {
@@ -155,16 +143,49 @@ const J1939_STATUS_CODE = {
 	error: SIGNAL_STATUS.error
 } as const;
 
-function compileFrame(frame: Frame, frameIndex: number, channelStart: number, viewOf: (d: Uint8Array) => DataView): CompiledFrame {
-	const plans = frame.signals.map((s) => planSignal(s, frame));
-	const count = plans.length;
-	const muxAt = multiplexerIndex(frame);
-	const muxPlan = muxAt >= 0 ? plans[muxAt] : null;
+type DecodeFn = CompiledFrame['decode'];
 
-	function decode(data: Uint8Array, offset: number, length: number, out: Float64Array, outOffset: number, status?: Uint8Array): void {
+/** Numbers embedded in generated code print exactly (JS number → string round-trips). */
+const num = (n: number) => `(${Object.is(n, -0) ? '-0' : String(n)})`;
+
+/**
+ * Generate one straight-line decode function per frame so the engine can inline every read —
+ * the generated text contains only numbers computed here, never strings from the map.
+ * Returns null where code generation is forbidden (e.g. a Content-Security-Policy without 'unsafe-eval').
+ */
+function generateDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, muxAt: number, viewOf: (d: Uint8Array) => DataView): DecodeFn | null {
+	const lines: string[] = ['const v = viewOf(d);'];
+	const muxRead = muxPlan && Number.isFinite(muxPlan.needBytes) ? readerSource(muxPlan, muxAt) : null;
+	lines.push(`const sel = ${muxRead ? `len >= ${muxPlan!.needBytes} ? ${muxRead} : NaN` : 'NaN'};`);
+	plans.forEach((plan, k) => {
+		const conditions: string[] = [];
+		if (!Number.isFinite(plan.needBytes)) conditions.push('false');
+		else if (plan.needBytes > 0) conditions.push(`len >= ${plan.needBytes}`);
+		if (plan.muxValue !== null) conditions.push(`sel === ${plan.muxValue}`);
+		const present = conditions.length ? conditions.join(' && ') : 'true';
+		const scaled = `r * ${num(plan.scale)} + ${num(plan.offset)}`;
+		const valid = plan.j1939
+			? `{ const r = ${readerSource(plan, k)}; const c = J[S(r, ${plan.layout.length})]; out[o + ${k}] = c === 0 ? ${scaled} : NaN; if (st) st[o + ${k}] = c; }`
+			: `{ const r = ${Number.isFinite(plan.needBytes) ? readerSource(plan, k) : 'NaN'}; out[o + ${k}] = ${scaled}; if (st) st[o + ${k}] = 0; }`;
+		lines.push(`if (${present}) ${valid} else { out[o + ${k}] = NaN; if (st) st[o + ${k}] = 1; }`);
+	});
+	try {
+		const factory = new Function('viewOf', 'L', 'F', 'I', 'S', 'J', `return function decode(d, b, len, out, o, st) {\n${lines.join('\n')}\n};`);
+		return factory(viewOf, plans.map((p) => p.layout), readFloatNumber, readIntegerNumber, j1939ValueStatus, J1939_STATUS_CODE) as DecodeFn;
+	} catch {
+		return null;
+	}
+}
+
+/** The same decode as a loop over portable closures; slower, but needs no code generation. */
+function loopDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, viewOf: (d: Uint8Array) => DataView): DecodeFn {
+	const readers = plans.map(genericReader);
+	const muxReader = muxPlan ? readers[plans.indexOf(muxPlan)] : null;
+	const count = plans.length;
+	return (data, offset, length, out, outOffset, status) => {
 		const view = viewOf(data);
 		// NaN never equals a muxValue: a missing multiplexer hides every multiplexed signal.
-		const selected = muxPlan !== null && muxPlan.needBytes <= length ? muxPlan.read(data, view, offset) : Number.NaN;
+		const selected = muxPlan && muxReader && muxPlan.needBytes <= length ? muxReader(data, view, offset) : Number.NaN;
 		for (let k = 0; k < count; k++) {
 			const plan = plans[k];
 			if (plan.needBytes > length || (plan.muxValue !== null && plan.muxValue !== selected)) {
@@ -172,21 +193,32 @@ function compileFrame(frame: Frame, frameIndex: number, channelStart: number, vi
 				if (status) status[outOffset + k] = SIGNAL_STATUS.absent;
 				continue;
 			}
-			const raw = plan.read(data, view, offset);
-			let code: SignalStatus = SIGNAL_STATUS.valid;
-			if (plan.j1939) code = J1939_STATUS_CODE[j1939ValueStatus(raw, plan.length)];
+			const raw = readers[k](data, view, offset);
+			const code: SignalStatus = plan.j1939 ? J1939_STATUS_CODE[j1939ValueStatus(raw, plan.layout.length)] : SIGNAL_STATUS.valid;
 			out[outOffset + k] = code === SIGNAL_STATUS.valid ? raw * plan.scale + plan.offset : Number.NaN;
 			if (status) status[outOffset + k] = code;
 		}
-	}
+	};
+}
 
-	return { frameIndex, frame, channelStart, channelCount: count, decode };
+export interface CompileOptions {
+	/** Generate specialised decode functions (default true); false forces the portable loop. */
+	codegen?: boolean;
+}
+
+function compileFrame(frame: Frame, frameIndex: number, channelStart: number, viewOf: (d: Uint8Array) => DataView, codegen: boolean): CompiledFrame {
+	const plans = frame.signals.map((s) => planSignal(s, frame));
+	const muxAt = multiplexerIndex(frame);
+	const muxPlan = muxAt >= 0 ? plans[muxAt] : null;
+	const decode = (codegen && generateDecode(plans, muxPlan, muxAt, viewOf)) || loopDecode(plans, muxPlan, viewOf);
+	return { frameIndex, frame, channelStart, channelCount: plans.length, decode };
 }
 
 /** Lookup key that keeps standard and extended IDs apart (IDs are below 2^29). */
 const idKey = (id: number, extended: boolean) => (extended ? id + 0x20000000 : id);
 
-export function compileMap(map: CanMap): CompiledMap {
+export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledMap {
+	const codegen = options.codegen ?? true;
 	// One DataView per backing buffer, reused while consecutive calls pass the same array.
 	let lastData: Uint8Array | null = null;
 	let lastView: DataView | null = null;
@@ -203,7 +235,7 @@ export function compileMap(map: CanMap): CompiledMap {
 	const byId = new Map<number, CompiledFrame>();
 	const byPgn = new Map<number, CompiledFrame>();
 	map.frames.forEach((frame, frameIndex) => {
-		const compiled = compileFrame(frame, frameIndex, channels.length, viewOf);
+		const compiled = compileFrame(frame, frameIndex, channels.length, viewOf, codegen);
 		frames.push(compiled);
 		for (const s of frame.signals) {
 			channels.push({ index: channels.length, frameIndex, frameName: frame.name, signalName: s.name, unit: s.unit, min: s.min, max: s.max });
