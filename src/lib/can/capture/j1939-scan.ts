@@ -1,0 +1,88 @@
+/**
+ * J1939 helper pass over a capture: active trouble codes from DM1 (single frames and BAM
+ * transfers, SAE J1939-73 / J1939-21) and every multi-packet broadcast message reassembled.
+ */
+import {
+	createTransportReassembler,
+	parseDm1,
+	parseJ1939Id,
+	PGN_DM1,
+	type Dm1Lamps,
+	type TransportProblem,
+	type TroubleCode
+} from '../j1939';
+import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+
+export interface Dm1Message {
+	time: number;
+	sourceAddress: number;
+	/** true when it arrived as a BAM transfer (more than one trouble code). */
+	viaTransport: boolean;
+	lamps: Dm1Lamps;
+	troubleCodes: TroubleCode[];
+}
+
+/** One distinct (source, SPN, FMI) fault and when it was reported. */
+export interface ActiveTroubleCode {
+	sourceAddress: number;
+	spn: number;
+	fmi: number;
+	occurrenceCount: number;
+	firstTime: number;
+	lastTime: number;
+	reports: number;
+}
+
+export interface J1939Scan {
+	/** DM1 messages in time order (the first MAX_LISTED). */
+	dm1: Dm1Message[];
+	troubleCodes: ActiveTroubleCode[];
+	transportMessages: { time: number; pgn: number; sourceAddress: number; length: number }[];
+	transportProblems: TransportProblem[];
+}
+
+const MAX_LISTED = 10_000;
+
+export function scanJ1939(store: FrameStore): J1939Scan {
+	const scan: J1939Scan = { dm1: [], troubleCodes: [], transportMessages: [], transportProblems: [] };
+	const codes = new Map<string, ActiveTroubleCode>();
+	const reassembler = createTransportReassembler({
+		onProblem: (p) => {
+			if (scan.transportProblems.length < MAX_LISTED) scan.transportProblems.push(p);
+		}
+	});
+
+	const recordDm1 = (time: number, sourceAddress: number, payload: Uint8Array, viaTransport: boolean) => {
+		const { lamps, troubleCodes } = parseDm1(payload);
+		if (scan.dm1.length < MAX_LISTED) scan.dm1.push({ time, sourceAddress, viaTransport, lamps, troubleCodes });
+		for (const code of troubleCodes) {
+			const key = `${sourceAddress}:${code.spn}:${code.fmi}`;
+			const known = codes.get(key);
+			if (known) {
+				known.lastTime = time;
+				known.reports++;
+				known.occurrenceCount = code.occurrenceCount;
+			} else {
+				codes.set(key, { sourceAddress, spn: code.spn, fmi: code.fmi, occurrenceCount: code.occurrenceCount, firstTime: time, lastTime: time, reports: 1 });
+			}
+		}
+	};
+
+	for (let i = 0; i < store.count; i++) {
+		if ((store.flags[i] & FLAG_EXTENDED) === 0) continue;
+		const id = store.id[i];
+		const time = store.time[i];
+		const payload = store.payload(i);
+		const { pgn, sourceAddress } = parseJ1939Id(id);
+		if (pgn === PGN_DM1 && payload.length >= 2) recordDm1(time, sourceAddress, payload, false);
+		const message = reassembler.push(id, time, payload);
+		if (message) {
+			if (scan.transportMessages.length < MAX_LISTED) {
+				scan.transportMessages.push({ time: message.time, pgn: message.pgn, sourceAddress: message.sourceAddress, length: message.data.length });
+			}
+			if (message.pgn === PGN_DM1) recordDm1(message.time, message.sourceAddress, message.data, true);
+		}
+	}
+	scan.troubleCodes = [...codes.values()];
+	return scan;
+}
