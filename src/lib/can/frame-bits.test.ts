@@ -5,6 +5,7 @@ import {
 	frameBits,
 	frameBitSequence,
 	interFrameBits,
+	maxStuffBits,
 	nominalFrameBits,
 	worstCaseFrameBits
 } from './frame-bits';
@@ -145,5 +146,57 @@ describe('worstCaseFrameBits (Davis, Burns, Bril, Lukkien 2007, eq. 1)', () => {
 
 	it('rejects lengths outside classical CAN', () => {
 		expect(() => worstCaseFrameBits(9, false)).toThrow(/0–8/);
+	});
+});
+
+describe('maxStuffBits (exact worst-case stuffing, compared with the Davis et al. 2007 bound)', () => {
+	const davisStuff = (n: number, extended: boolean) => Math.floor(((extended ? 54 : 34) + 8 * n - 1) / 4);
+
+	it('agrees with exhaustive search: every 11-bit ID with no data (ISO 11898-1 frames via frameBits)', () => {
+		let max = 0;
+		for (let id = 0; id <= 0x7ff; id++) max = Math.max(max, frameBits(id, false, new Uint8Array(0)).stuffBits);
+		expect(maxStuffBits(0, false).stuffBits).toBe(max);
+	});
+
+	it.each([0x7ff, 0x123])('agrees with exhaustive search over all 2-byte payloads for ID 0x%s', (id) => {
+		let max = 0;
+		const data = new Uint8Array(2);
+		for (let x = 0; x < 0x10000; x++) {
+			data[0] = x >> 8;
+			data[1] = x & 0xff;
+			max = Math.max(max, frameBits(id, false, data).stuffBits);
+		}
+		const found = maxStuffBits(2, false, id);
+		expect(found.stuffBits).toBe(max);
+		expect(found.id).toBe(id);
+	});
+
+	it.each([
+		[0, false],
+		[1, false],
+		[8, false],
+		[0, true],
+		[8, true]
+	] as const)('%d bytes, extended %s: a witness frame reaches the exact maximum, below the bound', (n, extended) => {
+		const found = maxStuffBits(n, extended);
+		// The witness is re-checked by building its real bit stream.
+		expect(frameBits(found.id, extended, found.data).stuffBits).toBe(found.stuffBits);
+		expect(found.data.length).toBe(n);
+		// Davis et al. 2007 bound: an upper bound, never exceeded …
+		expect(found.stuffBits).toBeLessThanOrEqual(davisStuff(n, extended));
+		// … and within 3 bits of the exact maximum (fixed control bits and the CRC cost 2–3 stuff bits).
+		expect(davisStuff(n, extended) - found.stuffBits).toBeLessThanOrEqual(3);
+		expect(frameBits(found.id, extended, found.data).bits + found.stuffBits + interFrameBits).toBeLessThanOrEqual(
+			worstCaseFrameBits(n, extended)
+		);
+	});
+
+	it('beats every random frame of the same shape', () => {
+		const exact = maxStuffBits(4, false, 0x2aa).stuffBits;
+		const rand = lcg(99);
+		for (let t = 0; t < 2000; t++) {
+			const data = Uint8Array.from({ length: 4 }, () => (rand() < 128 ? 0x0f : rand()));
+			expect(frameBits(0x2aa, false, data).stuffBits).toBeLessThanOrEqual(exact);
+		}
 	});
 });

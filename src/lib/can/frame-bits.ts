@@ -2,7 +2,7 @@
  * Bit-level layout of classical CAN data frames (ISO 11898-1): the exact bit sequence, its CRC,
  * the stuff bits it needs, and the worst-case stuffed length for bus load and timing analysis.
  */
-import { crc15 } from './crc15';
+import { crc15, crc15Step, CRC15_POLY } from './crc15';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from './map';
 
 /**
@@ -162,4 +162,122 @@ export function worstCaseFrameBits(length: number, extended: boolean): number {
 /** Unstuffed bits of a classical frame, SOF through EOF (44 + 8n or 64 + 8n). ISO 11898-1. */
 export function nominalFrameBits(length: number, extended: boolean): number {
 	return stuffedControlBits(extended) + 8 * length + TRAILER_BITS;
+}
+
+export interface StuffingWitness {
+	/** Largest number of stuff bits any frame of this shape can need. */
+	stuffBits: number;
+	/** A frame that needs exactly that many. */
+	id: number;
+	data: Uint8Array;
+}
+
+/**
+ * Exact worst-case stuffing of classical frames with `length` data bytes, over every payload and —
+ * unless `id` is given — every identifier, with a frame that reaches it. Unlike the Davis bound
+ * (which assumes every bit free), this respects the fixed control bits and the CRC that the
+ * payload determines. Dynamic programming over (last bit, run length, CRC register): at most
+ * 2 × 4 × 2^15 states per bit, about 0.1–2 s per call, so it is an analysis tool, not a hot path.
+ *
+ * What it shows (computed with this function, confirmed by exhaustive search for 0–2 bytes in the
+ * tests): the Davis bound is never reached. Exact maxima, base format n = 0…8 bytes:
+ * 6, 7, 9, 12, 14, 15, 18, 21, 22 stuff bits (bound ⌊(33 + 8n)/4⌋: 8 … 24); extended: 11, 13, 15,
+ * 17, 19, 21, 23, 25, 27 (bound 13 … 29). Why: the bound needs a stuff bit after the first 5 bits
+ * and then every 4, i.e. runs of exactly 4 equal bits in lock-step across the whole field, but the
+ * fixed bits (RTR, IDE, r0 = 000 in base format; SRR, IDE = 11 and RTR, r1, r0 = 000 extended) and
+ * the DLC sit at fixed places that break that rhythm, and the 15 CRC bits are dictated by the rest.
+ * So an 8-byte base frame takes at most 108 + 22 + 3 = 133 bus bits, not 135.
+ */
+export function maxStuffBits(length: number, extended: boolean, id?: number): StuffingWitness {
+	if (!Number.isInteger(length) || length < 0 || length > CLASSICAL_MAX_LENGTH) {
+		throw new RangeError(`length must be 0–8 data bytes (classical CAN), got ${length}`);
+	}
+	// Template of SOF…data: 0/1 fixed, -1 free; the ID bit positions are remembered to rebuild it.
+	const probe = frameBitSequence(id ?? 0, extended, new Uint8Array(length));
+	const prefix = Array.from(probe.bits.subarray(0, probe.stuffedLength - 15));
+	const idPositions = extended
+		? [...range(1, 12), ...range(14, 32)] // base ID, then (after SRR, IDE) the 18-bit extension
+		: range(1, 12);
+	const dataStart = prefix.length - 8 * length;
+	if (id === undefined) for (const p of idPositions) prefix[p] = -1;
+	for (let p = dataStart; p < prefix.length; p++) prefix[p] = -1;
+
+	// State = crc << 3 | last << 2 | (run − 1); run is 1…4 because a run of 5 is stuffed at once.
+	const STATES = 1 << 18;
+	let best = new Int16Array(STATES).fill(-1);
+	best[(crc15Step(0, 0) << 3) | 0] = 0; // after SOF (dominant): last 0, run 1
+	// choice[layer][state]: the bit taken into `state` and the predecessor's (last, run − 1).
+	const choices: Uint8Array[] = [];
+	for (let p = 1; p < prefix.length; p++) {
+		const next = new Int16Array(STATES).fill(-1);
+		const choice = new Uint8Array(STATES);
+		const options = prefix[p] === -1 ? [0, 1] : [prefix[p]];
+		for (let s = 0; s < STATES; s++) {
+			const v = best[s];
+			if (v < 0) continue;
+			const crc = s >> 3;
+			const last = (s >> 2) & 1;
+			const run = (s & 3) + 1;
+			for (const bit of options) {
+				const r = advance(last, run, bit);
+				const t = (crc15Step(crc, bit) << 3) | (r.last << 2) | (r.run - 1);
+				if (v + r.stuffed > next[t]) {
+					next[t] = v + r.stuffed;
+					choice[t] = (bit << 3) | (s & 7);
+				}
+			}
+		}
+		choices.push(choice);
+		best = next;
+	}
+	// The CRC sequence follows from the state; finish the count through its 15 bits.
+	let top = -1;
+	let topState = -1;
+	for (let s = 0; s < STATES; s++) {
+		if (best[s] < 0) continue;
+		let last = (s >> 2) & 1;
+		let run = (s & 3) + 1;
+		let total = best[s];
+		const crc = s >> 3;
+		for (let b = 14; b >= 0; b--) {
+			const r = advance(last, run, (crc >> b) & 1);
+			({ last, run } = r);
+			total += r.stuffed;
+		}
+		if (total > top) {
+			top = total;
+			topState = s;
+		}
+	}
+	// Walk the choices back to the bits of SOF…data, then read the ID and payload out of them.
+	const bits = new Array<number>(prefix.length).fill(0);
+	let s = topState;
+	for (let p = prefix.length - 1; p >= 1; p--) {
+		const c = choices[p - 1][s];
+		const bit = c >> 3;
+		bits[p] = bit;
+		s = (crc15Unstep(s >> 3, bit) << 3) | (c & 7);
+	}
+	const foundId = idPositions.reduce((acc, p) => acc * 2 + bits[p], 0);
+	const data = Uint8Array.from({ length }, (_, i) =>
+		bits.slice(dataStart + 8 * i, dataStart + 8 * i + 8).reduce((acc, b) => acc * 2 + b, 0)
+	);
+	return { stuffBits: top, id: id ?? foundId, data };
+}
+
+function range(from: number, to: number): number[] {
+	return Array.from({ length: to - from }, (_, i) => from + i);
+}
+
+/** One bit of the stuffing rule: the new run state and whether a stuff bit follows. */
+function advance(last: number, run: number, bit: number): { last: number; run: number; stuffed: number } {
+	const r = bit === last ? run + 1 : 1;
+	return r === 5 ? { last: 1 - bit, run: 1, stuffed: 1 } : { last: bit, run: r, stuffed: 0 };
+}
+
+/** Inverse of crc15Step: the register before `bit` was shifted in (the generator's x^0 term is 1). */
+function crc15Unstep(crc: number, bit: number): number {
+	const feedback = crc & 1;
+	const shifted = feedback ? crc ^ CRC15_POLY : crc;
+	return (shifted >> 1) | ((feedback ^ bit) << 14);
 }
