@@ -11,7 +11,8 @@ export interface MailboxEntry {
 
 export function extractLinks(text: string): string[] {
 	const found = text.match(/https?:\/\/[^\s<>"')\]]+/g) ?? [];
-	return [...new Set(found)];
+	// A sentence's full stop or comma right after a link is not part of it.
+	return [...new Set(found.map((url) => url.replace(/[.,;:!?]+$/, '')))];
 }
 
 function toEntry(row: MailboxMessage): MailboxEntry {
