@@ -24,22 +24,27 @@ export type ValueType = z.infer<typeof valueTypeSchema>;
 /** A CAN ID written as a hex string ("0x360") or a plain number; always a number once parsed. */
 export const canIdSchema = z
 	.union([
-		z.number().int().min(0).max(MAX_EXTENDED_ID),
+		z.number().int('must be a whole number').min(0, 'must not be negative').max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'),
 		z
 			.string()
 			.trim()
 			.regex(/^0[xX][0-9a-fA-F]{1,8}$/, 'a hex ID like "0x360"')
 			.transform((s) => Number.parseInt(s.slice(2), 16))
 			.pipe(z.number().int().max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'))
-	])
+	], { error: 'must be a hex string like "0x360" or a whole number from 0 to 0x1FFFFFFF' })
 	.describe('CAN identifier: hex string "0x…" or a number');
 
 const finite = () => z.number().refine(Number.isFinite, 'must be a finite number');
 
 export const signalSchema = z.strictObject({
 	name: z.string().trim().min(1, 'a signal needs a name').max(120),
-	startBit: z.number().int().min(0).max(511).describe('position of the least significant bit'),
-	length: z.number().int().min(1).max(64),
+	startBit: z
+		.number()
+		.int('must be a whole number')
+		.min(0, 'must be 0–511 (a 64-byte payload has 512 bits)')
+		.max(511, 'must be 0–511 (a 64-byte payload has 512 bits)')
+		.describe('position of the least significant bit'),
+	length: z.number().int('must be a whole number').min(1, 'must be 1–64 bits').max(64, 'must be 1–64 bits'),
 	byteOrder: byteOrderSchema.default('little'),
 	valueType: valueTypeSchema.default('unsigned'),
 	scale: finite().default(1),
@@ -68,6 +73,7 @@ export const frameSchema = z.strictObject({
 		.refine((n) => (PAYLOAD_LENGTHS as readonly number[]).includes(n), {
 			message: 'payload length must be 0–8, 12, 16, 20, 24, 32, 48 or 64 bytes'
 		})
+		.meta({ enum: [...PAYLOAD_LENGTHS] }) // shows the allowed lengths in the generated JSON Schema
 		.default(8),
 	cycleMs: z.number().positive().max(3_600_000).nullable().default(null),
 	sender: z.string().max(120).default(''),
