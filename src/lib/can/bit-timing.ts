@@ -5,6 +5,15 @@
  */
 import { z } from 'zod';
 
+/**
+ * Caution for any screen or command output that shows computed settings: a wrong bit rate or
+ * sample point on one node disturbs every frame on the bus.
+ */
+export const BIT_TIMING_CAUTION =
+	'Check these settings against the controller’s reference manual and the vehicle maker’s network ' +
+	'documentation before use. A node with a wrong bit rate or sample point disrupts the whole bus: ' +
+	'change bus settings only with the vehicle safely parked, ignition off, following the maker’s procedure.';
+
 /** Register ranges most CAN controllers accept (common practice; individual chips differ). */
 export const TIMING_LIMITS = {
 	prescaler: { min: 1, max: 1024 },

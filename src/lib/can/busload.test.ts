@@ -23,8 +23,17 @@ describe('mapBusLoad', () => {
 		//       Worst 54+32+13+⌊85/4⌋ = 120 → 1 200 bit/s.
 		// Totals at 500 kbit/s: nominal 12 090 / 500 000 = 2.418 %, worst 14 700 / 500 000 = 2.94 %.
 		const load = mapBusLoad(map);
-		expect(load.frames[0]).toMatchObject({ framesPerSecond: 100, nominalBitsPerSecond: 11_100, worstCaseBitsPerSecond: 13_500, excluded: null });
-		expect(load.frames[1]).toMatchObject({ framesPerSecond: 10, nominalBitsPerSecond: 990, worstCaseBitsPerSecond: 1_200 });
+		expect(load.frames[0]).toMatchObject({
+			framesPerSecond: 100,
+			nominalBitsPerSecond: 11_100,
+			worstCaseBitsPerSecond: 13_500,
+			excluded: null
+		});
+		expect(load.frames[1]).toMatchObject({
+			framesPerSecond: 10,
+			nominalBitsPerSecond: 990,
+			worstCaseBitsPerSecond: 1_200
+		});
 		expect(load.frames[0].nominalPercent).toBeCloseTo(2.22, 10);
 		expect(load.frames[1].worstCasePercent).toBeCloseTo(0.24, 10);
 		expect(load.nominalPercent).toBeCloseTo(2.418, 10);
@@ -33,7 +42,12 @@ describe('mapBusLoad', () => {
 
 	it('lists frames without a cycle time or beyond classical CAN with zero load', () => {
 		const load = mapBusLoad(map);
-		expect(load.frames[2]).toMatchObject({ name: 'OnChange', framesPerSecond: 0, nominalPercent: 0, excluded: 'noCycleTime' });
+		expect(load.frames[2]).toMatchObject({
+			name: 'OnChange',
+			framesPerSecond: 0,
+			nominalPercent: 0,
+			excluded: 'noCycleTime'
+		});
 		expect(load.frames[3]).toMatchObject({ name: 'Wide', worstCasePercent: 0, excluded: 'canFd' });
 	});
 

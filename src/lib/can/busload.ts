@@ -126,7 +126,8 @@ export function captureBusLoad(
 	const count = Math.floor((last - first) / windowSeconds) + 1;
 	if (count > MAX_LOAD_WINDOWS) {
 		throw new RangeError(
-			`${count} windows of ${windowSeconds} s needed; choose a window of at least ${(last - first) / MAX_LOAD_WINDOWS} s`
+			`${count} windows of ${windowSeconds} s needed; ` +
+				`choose a window of at least ${(last - first) / MAX_LOAD_WINDOWS} s`
 		);
 	}
 	const bits = new Float64Array(count);

@@ -15,6 +15,12 @@ function lcg(seed: number) {
 	return () => (seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) >>> 24;
 }
 
+/** A random 11- or 29-bit identifier from byte-sized random numbers. */
+function randomId(rand: () => number, extended: boolean): number {
+	const wide = rand() * 0x200000 + rand() * 0x2000 + rand() * 0x20 + (rand() >> 3); // ≤ 0x1FFFFFFF
+	return extended ? wide : wide & 0x7ff;
+}
+
 /**
  * Reference CRC by plain polynomial long division over GF(2) with BigInt: remainder of
  * M(x)·x^15 divided by x^15 + 0x4599 (ISO 11898-1 generator), independent of crc15's shift register.
@@ -65,7 +71,7 @@ describe('frameBits (ISO 11898-1 classical data frames)', () => {
 		const rand = lcg(7);
 		for (let t = 0; t < 300; t++) {
 			const extended = t % 2 === 1;
-			const id = extended ? ((rand() << 21) | (rand() << 13) | (rand() << 5) | (rand() >> 3)) >>> 0 : ((rand() << 3) | (rand() >> 5)) & 0x7ff;
+			const id = randomId(rand, extended);
 			const data = Uint8Array.from({ length: t % 9 }, rand);
 			const seq = frameBitSequence(id, extended, data);
 			expect(seq.crc).toBe(referenceCrc(seq.bits.subarray(0, seq.stuffedLength - 15)));
@@ -108,7 +114,7 @@ describe('bit stuffing (ISO 11898-1: a complement after 5 equal bits, stuff bits
 			const n = t % 9;
 			// Biased payloads (mostly 0x00/0xFF runs) reach far more stuff bits than uniform ones.
 			const data = Uint8Array.from({ length: n }, () => (t % 3 === 0 ? rand() : rand() < 128 ? 0x0f : 0xf0));
-			const id = extended ? (rand() * 0x200000 + rand() * 0x2000 + rand() * 0x20 + (rand() >> 3)) : ((rand() << 3) | (rand() >> 5)) & 0x7ff;
+			const id = randomId(rand, extended);
 			const seq = frameBitSequence(id, extended, data);
 			const { bits, stuffBits } = frameBits(id, extended, data);
 			const wire = str(applyStuffing(seq.bits.subarray(0, seq.stuffedLength)));

@@ -33,7 +33,9 @@ export interface FrameBitSequence {
 function checkFrame(id: number, extended: boolean, data: Uint8Array): void {
 	const max = extended ? MAX_EXTENDED_ID : MAX_STANDARD_ID;
 	if (!Number.isInteger(id) || id < 0 || id > max) {
-		const kind = extended ? 'an extended (29-bit) ID must be 0…0x1FFFFFFF' : 'a standard (11-bit) ID must be 0…0x7FF';
+		const kind = extended
+			? 'an extended (29-bit) ID must be 0…0x1FFFFFFF'
+			: 'a standard (11-bit) ID must be 0…0x7FF';
 		throw new RangeError(`${kind}, got ${id}`);
 	}
 	if (data.length > CLASSICAL_MAX_LENGTH) {

@@ -217,7 +217,8 @@ describe('DM1 (SAE J1939-73)', () => {
 		// J1939-73 (from memory): with no active DTC, SPN = 0, FMI = 0, OC = 0 is sent.
 		const dm1 = parseDm1(Uint8Array.of(0x00, 0xff, 0, 0, 0, 0, 0xff, 0xff));
 		expect(dm1.troubleCodes).toEqual([]);
-		expect(parseDm1(encodeDm1({ malfunctionIndicator: lampsOff, redStop: lampsOff, amberWarning: lampsOff, protect: lampsOff }, []))).toEqual(dm1);
+		const allOff = { malfunctionIndicator: lampsOff, redStop: lampsOff, amberWarning: lampsOff, protect: lampsOff };
+		expect(parseDm1(encodeDm1(allOff, []))).toEqual(dm1);
 	});
 
 	it('rejects a payload shorter than the lamp bytes', () => {
@@ -232,7 +233,12 @@ describe('BAM transport reassembly (SAE J1939-21) carrying DM1 (SAE J1939-73)', 
 		{ spn: 190, fmi: 2, occurrenceCount: 9, conversionMethod: 0 },
 		{ spn: 0x40001, fmi: 16, occurrenceCount: 126, conversionMethod: 0 }
 	];
-	const lamps = { malfunctionIndicator: lampsOff, redStop: lampsOff, amberWarning: { state: 'on', flash: 'slow' }, protect: lampsOff } as const;
+	const lamps = {
+		malfunctionIndicator: lampsOff,
+		redStop: lampsOff,
+		amberWarning: { state: 'on', flash: 'slow' },
+		protect: lampsOff
+	} as const;
 	const message = encodeDm1(lamps, codes); // 2 + 4 × 4 = 18 bytes → 3 packets of 7
 
 	it('reassembles a 3-packet DM1 and truncates the 0xFF padding to the announced size', () => {

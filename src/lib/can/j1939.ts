@@ -89,7 +89,9 @@ export const j1939IdPartsSchema = z
 				ctx.addIssue({
 					code: 'custom',
 					path: ['pgn'],
-					message: `PDU1 PGN 0x${parts.pgn.toString(16).toUpperCase()} must have a zero low byte; pass the destination in destinationAddress`
+					message:
+						`PDU1 PGN 0x${parts.pgn.toString(16).toUpperCase()} must have a zero low byte; ` +
+						'pass the destination in destinationAddress'
 				});
 			}
 		} else if (parts.destinationAddress != null) {
@@ -125,7 +127,8 @@ export type J1939ValueStatus = 'valid' | 'notAvailable' | 'error' | 'reserved';
  * Classifies a raw parameter value by the SAE J1939-71 transmitted-value ranges.
  * `length` is the parameter's size in bits; `raw` its bit pattern (a negative two's-complement
  * value is read as the same bit pattern). Ranges (recalled from memory, J1939-71 "Parameter ranges"):
- * - 8 bits: 0x00–0xFA valid, 0xFB parameter-specific indicator, 0xFC–0xFD reserved, 0xFE error, 0xFF not available
+ * - 8 bits: 0x00–0xFA valid, 0xFB parameter-specific indicator, 0xFC–0xFD reserved,
+ *   0xFE error, 0xFF not available
  * - 16 bits: 0x0000–0xFAFF valid, 0xFB00–0xFBFF parameter-specific, 0xFC00–0xFDFF reserved,
  *   0xFE00–0xFEFF error, 0xFF00–0xFFFF not available
  * - 32 bits: 0–0xFAFFFFFF valid, 0xFBxxxxxx parameter-specific, 0xFC–0xFDxxxxxx reserved,
@@ -177,6 +180,15 @@ function rangeStatus(topByte: number): J1939ValueStatus {
 
 // ---------------------------------------------------------------------------------------------
 // DM1 — active diagnostic trouble codes (SAE J1939-73)
+
+/**
+ * Caution for any place that shows DM1 lamps or trouble codes: the codes say what a controller
+ * reports, not what to do about it.
+ */
+export const DM1_CAUTION =
+	'Lamp states and trouble codes are as reported by the sending controller. What a code means and ' +
+	'whether the vehicle may keep running is defined by the vehicle or engine maker’s service ' +
+	'documentation — a red stop lamp means stop safely and consult it.';
 
 /** PGN 65226 (0xFECA): DM1, active diagnostic trouble codes. SAE J1939-73. */
 export const PGN_DM1 = 0xfeca;
@@ -372,7 +384,9 @@ export function createTransportReassembler(
 				sourceAddress: sa,
 				pgn,
 				time,
-				message: `BAM from 0x${hex(sa)} announces ${size} bytes in ${packets} packets; expected 1…${TP_MAX_SIZE} bytes in ⌈size/7⌉ packets`
+				message:
+					`BAM from 0x${hex(sa)} announces ${size} bytes in ${packets} packets; ` +
+					`expected 1…${TP_MAX_SIZE} bytes in ⌈size/7⌉ packets`
 			});
 			return null;
 		}
@@ -395,12 +409,14 @@ export function createTransportReassembler(
 			return null;
 		}
 		if (time - t.lastTime > timeout) {
-			drop(sa, 'timeout', time, `BAM from 0x${hex(sa)}: ${time - t.lastTime} between packets exceeds ${timeout}`);
+			const gap = Number((time - t.lastTime).toPrecision(4));
+			drop(sa, 'timeout', time, `BAM from 0x${hex(sa)}: ${gap} between packets exceeds ${timeout}`);
 			return null;
 		}
 		const sequence = data[0];
 		if (sequence !== t.received + 1) {
-			drop(sa, 'outOfOrder', time, `BAM from 0x${hex(sa)}: packet ${sequence} arrived, expected ${t.received + 1}`);
+			const expected = t.received + 1;
+			drop(sa, 'outOfOrder', time, `BAM from 0x${hex(sa)}: packet ${sequence} arrived, expected ${expected}`);
 			return null;
 		}
 		t.buffer.set(data.subarray(1, 8), t.received * TP_DT_BYTES);
