@@ -14,15 +14,18 @@ export async function openNewestMail(page: Page, email: string, subject: RegExp)
 	await expect(page.getByRole('heading', { level: 1, name: subject })).toBeVisible();
 }
 
-/** Signs in the way a person does: asks for a link, reads it in the mailbox, follows it. */
-export async function signIn(page: Page, email: string, callbackUrl?: string): Promise<void> {
+/** Signs in the way a person does: asks for a link, reads it in the mailbox, follows it. Returns the link. */
+export async function signIn(page: Page, email: string, callbackUrl?: string): Promise<string> {
 	await page.goto(callbackUrl ? `/signin?callbackUrl=${encodeURIComponent(callbackUrl)}` : '/signin');
 	await page.getByLabel('E-mail address').fill(email);
 	await page.getByRole('button', { name: 'E-mail me a sign-in link' }).click();
 	await expect(page.getByRole('heading', { name: 'Check your inbox' })).toBeVisible();
 
 	await openNewestMail(page, email, /sign-in link/i);
-	const links = page.getByRole('region', { name: 'Links in this message' }).getByRole('link');
-	await links.first().click();
+	const link = page.getByRole('region', { name: 'Links in this message' }).getByRole('link').first();
+	const href = await link.getAttribute('href');
+	if (!href) throw new Error(`the sign-in mail to ${email} carries no link`);
+	await link.click();
 	await expect(page.getByRole('button', { name: /account menu/i })).toBeVisible();
+	return href;
 }

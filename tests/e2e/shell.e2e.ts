@@ -28,10 +28,21 @@ test('signed out: the landing states the job and offers sign-in; the skip link c
 	await expect(page.getByRole('main')).toBeFocused();
 });
 
-test('an expired or used sign-in link gets a clear message', async ({ page }) => {
-	await page.goto('/signin/error?error=Verification');
-	await expect(page.getByRole('alert')).toContainText('expired or has already been used');
-	await expect(page.getByRole('link', { name: 'Get a new sign-in link' })).toBeVisible();
+test('a sign-in link used a second time gets a clear message, not a session', async ({ browser }) => {
+	const first = await browser.newContext();
+	const link = await signIn(await first.newPage(), uniqueEmail('once'));
+	await first.close();
+
+	const second = await browser.newContext();
+	const page = await second.newPage();
+	await page.goto(link);
+	await expect(page).toHaveURL(/\/signin\/error/);
+	await expect(page.getByRole('heading', { name: 'Sign-in problem' })).toBeVisible();
+	await expect(page.getByRole('alert')).toContainText(/already used/i);
+	await expect(page.getByRole('button', { name: /account menu/i })).toHaveCount(0);
+	await page.getByRole('link', { name: 'Get a new sign-in link' }).click();
+	await expect(page.getByRole('heading', { name: 'Sign in' })).toBeVisible();
+	await second.close();
 });
 
 test('keyboard only: Tab reaches the skip link, switcher, navigation and user menu', async ({ page }) => {
