@@ -3,33 +3,18 @@
  * Every failure becomes an ApiError whose message a person can read.
  */
 import type { Role } from '$lib/components/roles';
+// The row shapes are the server's own (type-only imports: erased, nothing server-side ships).
+import type { MemberView as Member } from '$lib/server/db/members';
+import type { InvitationView as Invitation } from '$lib/server/db/invitations';
+import type { Issue as ApiIssue } from '$lib/server/problem';
 
-export interface Member {
-	userId: string;
-	email: string;
-	name: string | null;
-	role: Role;
-	joinedAt: string;
-}
-
-export interface Invitation {
-	id: string;
-	email: string;
-	role: Role;
-	expiresAt: string;
-	invitedBy: string | null;
-}
+export type { ApiIssue, Invitation, Member };
 
 export interface MembersOverview {
 	members: Member[];
 	invitations: Invitation[];
 	myRole: Role;
 	myUserId: string;
-}
-
-export interface ApiIssue {
-	path: string;
-	message: string;
 }
 
 export class ApiError extends Error {
