@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fieldFits, fieldLayout } from './bits';
+import { decodeFrame } from './codec';
 import { compileMap, SIGNAL_STATUS, type CompileOptions } from './decoder';
 import { canMapSchema, type CanMapInput, type SignalInput } from './map';
 import { referenceExtract } from './testing/reference-bits';
@@ -99,6 +100,25 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 				expected = scratch.getFloat64(0);
 			}
 			expect(run(options, map, 0, data).values[0]).toBe(expected);
+		}
+	});
+
+	it('agrees with codec.decodeFrame (BigInt path) on random multiplexed frames and short payloads', () => {
+		const rand = seededRandom(0x5eed14);
+		for (let round = 0; round < 200; round++) {
+			const signals: SignalInput[] = [{ name: 'mux', startBit: rand.int(0, 6) * 8, length: 2, multiplexer: true }];
+			for (let i = 0; i < 5; i++) {
+				const length = rand.int(1, 64);
+				const byteOrder = rand.pick(['little', 'big'] as const);
+				let startBit = rand.int(0, 63);
+				while (!fieldFits(fieldLayout(startBit, length, byteOrder), 8)) startBit = rand.int(0, 63);
+				signals.push({ name: `s${i}`, startBit, length, byteOrder, valueType: rand.pick(['unsigned', 'signed'] as const), muxValue: rand.pick([null, 0, 1, 2, 3]), offset: rand.int(-9, 9) });
+			}
+			const map = mapOf([{ name: 'F', id: 1, signals }]);
+			const received = rand.int(0, 8);
+			const data = rand.bytes(received);
+			const expected = decodeFrame(map.frames[0], data).map((r) => (r.present ? r.value : Number.NaN));
+			expect(run(options, map, 0, data).values).toEqual(expected);
 		}
 	});
 
