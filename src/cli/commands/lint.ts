@@ -8,6 +8,9 @@ import type { Command } from '../command';
 import { EXIT, InputError } from '../errors';
 import { printJson } from '../io';
 
+/** A lint problem, or a format problem when the file is not a valid map at all. */
+type ReportedProblem = Omit<LintProblem, 'code'> & { code: LintProblem['code'] | 'format' };
+
 const schema = z.object({
 	map: mapPath,
 	positionals: z.array(z.string()).max(0, 'takes no file arguments besides --map')
@@ -30,7 +33,7 @@ A file that is not a valid map is reported the same way (code "format"). Exit 1 
 			throw new InputError(`${options.map}: ${code === 'ENOENT' ? 'no such file' : (error as Error).message}`);
 		}
 		const parsed = parseMap(text);
-		const problems: LintProblem[] = parsed.ok
+		const problems: ReportedProblem[] = parsed.ok
 			? lintMap(parsed.map)
 			: parsed.problems.map((p) => ({ severity: 'error', code: 'format', message: p.message, frameIndex: null, signalIndex: null, path: p.path }));
 		printJson(problems);
