@@ -45,7 +45,9 @@ describe('lintMap', () => {
 		['nested-multiplexer', [frame([sig('m', 0, 4, { multiplexer: true, muxValue: 1 })])], 'frames[0].signals[0].muxValue', 0],
 		['mux-value-out-of-range', [frame([sig('m', 0, 2, { multiplexer: true }), sig('a', 8, 8, { muxValue: 4 })])], 'frames[0].signals[1].muxValue', 1],
 		['label-out-of-range', [frame([sig('a', 0, 4, { labels: { '16': 'too big' } })])], 'frames[0].signals[0].labels', 0],
-		['label-out-of-range', [frame([sig('a', 0, 4, { valueType: 'signed', labels: { '-9': 'too small' } })])], 'frames[0].signals[0].labels', 0]
+		['label-out-of-range', [frame([sig('a', 0, 4, { valueType: 'signed', labels: { '-9': 'too small' } })])], 'frames[0].signals[0].labels', 0],
+		['limit-unreachable', [frame([sig('a', 0, 8, { scale: 0.5, min: 200 })])], 'frames[0].signals[0].min', 0],
+		['limit-unreachable', [frame([sig('a', 0, 8, { offset: -40, max: -50 })])], 'frames[0].signals[0].max', 0]
 	])('%s at %j', (code, frames, path, signalIndex) => {
 		const problems = lintMap(mapOf(frames));
 		expect(problems.map((p) => p.code)).toEqual([code]);

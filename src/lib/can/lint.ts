@@ -35,7 +35,8 @@ export type LintCode =
 	| 'multiple-multiplexers'
 	| 'nested-multiplexer'
 	| 'mux-value-out-of-range'
-	| 'label-out-of-range';
+	| 'label-out-of-range'
+	| 'limit-unreachable';
 
 type Report = (problem: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>, field?: string) => void;
 
@@ -91,6 +92,12 @@ function lintSignal(frame: Frame, signal: Signal, report: Report): void {
 		const outside = Object.keys(signal.labels).filter((key) => BigInt(key) < lo || BigInt(key) > hi);
 		if (outside.length > 0) {
 			report({ severity: 'warning', code: 'label-out-of-range', message: `"${signal.name}" has label(s) for raw ${outside.join(', ')}, outside its raw range ${lo}…${hi}` }, 'labels');
+		}
+		// A limit the field can never reach means a warning that can never fire, or one that always fires.
+		const ends = [Number(lo) * signal.scale + signal.offset, Number(hi) * signal.scale + signal.offset];
+		const [low, high] = [Math.min(...ends), Math.max(...ends)];
+		if (signal.scale !== 0 && ((signal.min !== null && signal.min > high) || (signal.max !== null && signal.max < low))) {
+			report({ severity: 'warning', code: 'limit-unreachable', message: `"${signal.name}" can only carry ${low}…${high}, so its min/max ${signal.min ?? '–'}…${signal.max ?? '–'} cannot be met` }, signal.min !== null && signal.min > high ? 'min' : 'max');
 		}
 	}
 }
