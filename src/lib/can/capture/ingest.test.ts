@@ -66,9 +66,10 @@ describe('capture ingest: layout variants', () => {
 		// Gaps of 230 whole units: far below the ~44 µs minimum frame (ISO 11898-1, 44 bits at
 		// 1 Mbit/s, from memory) if they were nanoseconds-scale, and too busy for milliseconds.
 		const rows = Array.from({ length: 10 }, (_, i) => `${1000 + 230 * i},${(0x100 + i).toString(16)},0,1,0${i}`);
-		const { layout, list } = await frames(rows.join('\n'));
+		const { layout, list, layoutNotes } = await frames(rows.join('\n'));
 		expect(layout.hasHeader).toBe(false);
 		expect(layout.timeUnit).toBe('us');
+		expect(layoutNotes.join(' ')).toMatch(/microseconds — judged by whole numbers about 230 apart/);
 		expect(list[9].time).toBeCloseTo(9 * 230e-6, 15);
 	});
 
@@ -156,6 +157,22 @@ describe('capture ingest: layout variants', () => {
 		const { list, layoutNotes } = await frames('time,id,extended,dlc,data\n0,864,0,1,01\n', layout);
 		expect(list[0].id).toBe(0x360);
 		expect(layoutNotes).toEqual([]);
+	});
+});
+
+describe('capture ingest: layouts without a header', () => {
+	it('finds flag, DLC and byte columns by content', async () => {
+		const { layout, list } = await frames('0.000100;18FF1027;1;3;9E;0F;F4\n0.000200;100;0;2;01;02;\n');
+		expect(layout).toMatchObject({ delimiter: ';', hasHeader: false, extendedColumn: 2, dlcColumn: 3, byteColumns: [4, 5, 6] });
+		expect(list.map((f) => f.data)).toEqual([
+			[0x9e, 0x0f, 0xf4],
+			[1, 2]
+		]);
+	});
+
+	it('rejects a hand-corrected layout that names no data column', async () => {
+		const layout = { ...CANONICAL_LAYOUT, dataColumn: null };
+		await expect(ingestCapture('0,100,0,1,01\n', { layout })).rejects.toThrow(/layout is not valid: dataColumn/);
 	});
 });
 

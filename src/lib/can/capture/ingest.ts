@@ -95,13 +95,21 @@ function countLines(text: string, limit: number): number {
 	return n;
 }
 
+/** A layout the user corrected by hand, checked with the one schema; problems name the field. */
+function checkLayout(layout: unknown): CaptureLayout {
+	const parsed = captureLayoutSchema.safeParse(layout);
+	if (parsed.success) return parsed.data;
+	const problems = parsed.error.issues.map((i) => `${i.path.join('.') || 'layout'}: ${i.message}`);
+	throw new CaptureFormatError(`The column layout is not valid: ${problems.join('; ')}.`);
+}
+
 /** Streams a capture into `sink` (e.g. a FrameStore, or a decoder that writes rows out). */
 export async function ingestCaptureInto(
 	source: CaptureSource,
 	sink: FrameSink,
 	options: IngestOptions = {}
 ): Promise<IngestReport> {
-	let layout: CaptureLayout | null = options.layout ? captureLayoutSchema.parse(options.layout) : null;
+	let layout: CaptureLayout | null = options.layout ? checkLayout(options.layout) : null;
 	const layoutNotes: string[] = [];
 	let newline: '\n' | '\r\n' | '\r' = '\n';
 	let parser: Papa.Parser | null = null;
