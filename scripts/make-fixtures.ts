@@ -329,7 +329,7 @@ function clubRacerSession(map: CanMap): Row[] {
 	});
 	let page = 0;
 	let fuelUsed = 1.2;
-	add('StatusPaged', 0x600, 0.1, 0.0078, (t) => {
+	add('StatusPaged', 0x600, 0.1, 0.0078, (t): Record<string, number> => {
 		page ^= 1;
 		fuelUsed += 0.0045 * (state(t).throttle / 100 + 0.1);
 		return page === 0
