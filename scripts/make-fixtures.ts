@@ -282,7 +282,7 @@ function clubRacerSession(map: CanMap): Row[] {
 		// Oil pressure rises with engine speed; in the long corner of lap 3 (t ≈ 52.5–54 s) the
 		// sump surges and pressure dips — the kind of event a limit alert exists to catch.
 		let oil = 180 + 0.06 * rpm + noise(4);
-		if (t > 52.5 && t < 54) oil = 180 + (oil - 180) * (1 - 0.8 * Math.sin((Math.PI * (t - 52.5)) / 1.5));
+		if (t > 52.5 && t < 54) oil -= (oil - 120) * 0.85 * Math.sin((Math.PI * (t - 52.5)) / 1.5);
 		const warm = 1 - Math.exp(-t / 35);
 		return {
 			gear,
