@@ -43,6 +43,9 @@ test('an owner invites a colleague, makes them Viewer, and the server refuses th
 	await expect(colleague).toHaveURL(new RegExp(`${invitationPath}$`));
 	await colleague.getByRole('button', { name: `Accept and join ${workspaceName}` }).click();
 	await expect(colleague).toHaveURL(new RegExp(`/w/${slug}/maps$`));
+	await colleague.goto(`/w/${slug}`);
+	await expect(colleague.getByRole('heading', { level: 1, name: workspaceName })).toBeVisible();
+	await expect(colleague.getByRole('main')).toContainText('You are Editor here');
 
 	// The owner sees the new member and makes them Viewer.
 	await owner.reload();
