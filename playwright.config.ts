@@ -2,9 +2,10 @@ import { defineConfig } from '@playwright/test';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
-// Fixed test ports, away from the defaults a developer's own server uses (3000 / 2525).
-const PORT = 4173;
-const STANDIN_SMTP_PORT = 2626;
+// Fixed test ports, away from the defaults a developer's own server uses (3000 / 2525);
+// overridable so two suites (say, a clean-checkout CI rehearsal and a developer's run) can run at once.
+const PORT = Number(process.env.E2E_PORT ?? 4173);
+const STANDIN_SMTP_PORT = Number(process.env.E2E_SMTP_PORT ?? 2626);
 const baseURL = `http://localhost:${PORT}`;
 
 // A database file that cannot exist yet: every run starts from an empty, freshly migrated database.
