@@ -70,6 +70,13 @@ function pageOf(signal: Signal): number | null {
 	return signal.multiplexer ? null : signal.muxValue;
 }
 
+/** Whether two signals of one frame can be in the same received payload (so shared bits clash). */
+export function presentTogether(a: Signal, b: Signal): boolean {
+	const pageA = pageOf(a);
+	const pageB = pageOf(b);
+	return pageA === null || pageB === null || pageA === pageB;
+}
+
 function lintSignal(frame: Frame, signal: Signal, report: Report): void {
 	const layout = fieldLayout(signal.startBit, signal.length, signal.byteOrder);
 	if (layout.lowByte < 0) {
@@ -133,9 +140,7 @@ function lintFrameSignals(frame: Frame, f: number, problems: LintProblem[]): voi
 		}
 
 		for (let other = 0; other < s; other++) {
-			const a = pageOf(frame.signals[other]);
-			const b = pageOf(signal);
-			if (a !== null && b !== null && a !== b) continue; // never present together
+			if (!presentTogether(frame.signals[other], signal)) continue;
 			const shared = sets[other] & sets[s];
 			if (shared !== 0n) {
 				report({ severity: 'error', code: 'signal-overlap', message: `"${signal.name}" overlaps "${frame.signals[other].name}" on payload ${describeBits(shared)}` }, 'startBit');
