@@ -49,9 +49,9 @@ describe('labels text', () => {
 
 describe('newSignal', () => {
 	it('takes the first free bits, up to a byte, with an unused name', () => {
-		const frame = { length: 2, signals: [signalSchema.parse({ name: 'Signal2', startBit: 0, length: 4 })] };
+		const frame = { length: 2, signals: [signalSchema.parse({ name: 'Signal_2', startBit: 0, length: 4 })] };
 		const added = newSignal(frame);
-		expect(added).toMatchObject({ name: 'Signal3', startBit: 4, length: 8, byteOrder: 'little' });
+		expect(added).toMatchObject({ name: 'Signal_3', startBit: 4, length: 8, byteOrder: 'little' });
 	});
 
 	it('stops before a used bit and before the payload end', () => {

@@ -90,12 +90,12 @@ export function applyFieldText(signal: Signal, field: SignalField, text: string)
 	return { ok: false, message: issue.message };
 }
 
-/** "Signal 3" style name not yet used in the frame. */
+/** "Signal_3" style name not yet used in the frame. */
 export function unusedSignalName(frame: Pick<Frame, 'signals'>): string {
 	const taken = new Set(frame.signals.map((s) => s.name));
 	let n = frame.signals.length + 1;
-	while (taken.has(`Signal${n}`)) n++;
-	return `Signal${n}`;
+	while (taken.has(`Signal_${n}`)) n++;
+	return `Signal_${n}`;
 }
 
 /**
