@@ -6,7 +6,7 @@ describe('demo seed', () => {
 	it('creates the invented team with one account per role, and is idempotent', async () => {
 		const db = await createTestDatabase();
 		const first = await seedDemo(db);
-		expect(first.created).toHaveLength(7);
+		expect(first.created).toHaveLength(9);
 		const second = await seedDemo(db);
 		expect(second.created).toEqual([]);
 		const members = await db

@@ -2,6 +2,12 @@ import type { Kysely } from 'kysely';
 import type { Database } from '../src/lib/server/db/schema';
 import type { Role } from '../src/lib/server/roles';
 import { appendAudit } from '../src/lib/server/db/audit';
+import { createMap, findMapForWorkspace, saveDraft } from '../src/lib/server/db/maps';
+import { publishRevision } from '../src/lib/server/db/revisions';
+import { parseMap } from '../src/lib/can/map-json';
+import type { CanMap } from '../src/lib/can/map';
+import clubRacerMapJson from '../fixtures/club-racer-ecu.map.json';
+import gensetMapJson from '../fixtures/genset-j1939.map.json';
 
 // An invented scenario for demos: a small club motorsport team. Addresses use the reserved `.test`
 // top-level domain (RFC 2606), so no real mailbox can ever receive them.
@@ -23,6 +29,48 @@ export async function countUsers(db: Kysely<Database>): Promise<number> {
 
 /** Adds whatever part of the demo data is missing; running it again changes nothing. */
 export async function seedDemo(db: Kysely<Database>): Promise<{ created: string[] }> {
+	const { created, workspaceId, calibratorId } = await seedPeople(db);
+	// The map repositories open their own transactions, so maps are added after the people.
+	created.push(...(await seedDemoMaps(db, workspaceId, calibratorId)));
+	return { created };
+}
+
+function fixtureMap(json: unknown, file: string): CanMap {
+	const parsed = parseMap(json);
+	if (!parsed.ok) throw new Error(`fixtures/${file} is not a valid map: ${parsed.problems.map((p) => `${p.path} ${p.message}`).join('; ')}`);
+	return parsed.map;
+}
+
+/**
+ * The two demo maps, only while the workspace has none: the club racer controller published as r1
+ * with an unpublished change in its draft, and the generator set published as r1.
+ */
+async function seedDemoMaps(db: Kysely<Database>, workspaceId: string, actorId: string): Promise<string[]> {
+	const existing = await db.selectFrom('maps').select('id').where('workspace_id', '=', workspaceId).executeTakeFirst();
+	if (existing) return [];
+	const clubRacer = fixtureMap(clubRacerMapJson, 'club-racer-ecu.map.json');
+	const genset = fixtureMap(gensetMapJson, 'genset-j1939.map.json');
+
+	const club = await createMap(db, { workspaceId, map: clubRacer, actorId, source: 'json' });
+	await publishRevision(db, { workspaceId, mapId: club.id, version: 1, actorId, note: 'First release for the season: engine, pressures, drivetrain and chassis frames.' });
+	const draft = structuredClone(clubRacer);
+	for (const frame of draft.frames) {
+		for (const signal of frame.signals) {
+			if (signal.name === 'CoolantTemp') {
+				signal.max = 110;
+				signal.comment = 'Warning limit raised for summer events (not yet published).';
+			}
+		}
+	}
+	await saveDraft(db, { workspaceId, mapId: club.id, version: 1, draft, actorId });
+
+	const gen = await createMap(db, { workspaceId, map: genset, actorId, source: 'json' });
+	await publishRevision(db, { workspaceId, mapId: gen.id, version: 1, actorId, note: 'Generator set engine broadcast as installed on the demo unit.' });
+	const found = await findMapForWorkspace(db, workspaceId, club.id);
+	return [`map ${found?.name ?? club.name} (r1 + draft)`, `map ${gen.name} (r1)`];
+}
+
+async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; workspaceId: string; calibratorId: string }> {
 	return db.transaction().execute(async (trx) => {
 		const created: string[] = [];
 		const now = new Date().toISOString();
@@ -70,6 +118,6 @@ export async function seedDemo(db: Kysely<Database>): Promise<{ created: string[
 				details: { created }
 			});
 		}
-		return { created };
+		return { created, workspaceId: workspace.id, calibratorId: userIds.get('calibrator@framewright.test')! };
 	});
 }

@@ -9,7 +9,7 @@ export function apiRoute<E extends RequestEvent>(handler: (event: E) => Promise<
 			return await handler(event);
 		} catch (thrown) {
 			if (thrown instanceof Problem) {
-				const body = thrown.issues ? { error: thrown.message, issues: thrown.issues } : { error: thrown.message };
+				const body = { error: thrown.message, ...(thrown.issues ? { issues: thrown.issues } : {}), ...thrown.extra };
 				return json(body, { status: thrown.status });
 			}
 			throw thrown;

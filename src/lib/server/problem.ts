@@ -3,14 +3,19 @@ import { z } from 'zod';
 export interface Issue {
 	path: string;
 	message: string;
+	/** Where in an imported text file the problem is (CSV line, JSON line/column). */
+	line?: number;
+	column?: number | string;
 }
 
 /** An expected failure with an HTTP status, reported to API clients as `{ error, issues? }`. */
 export class Problem extends Error {
 	constructor(
-		readonly status: 400 | 401 | 403 | 404 | 409 | 410,
+		readonly status: 400 | 401 | 403 | 404 | 409 | 410 | 422,
 		message: string,
-		readonly issues?: Issue[]
+		readonly issues?: Issue[],
+		/** More fields for the JSON body, e.g. `currentVersion` on a stale save. */
+		readonly extra?: Record<string, unknown>
 	) {
 		super(message);
 		this.name = 'Problem';

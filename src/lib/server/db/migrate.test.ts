@@ -27,7 +27,10 @@ describe('migrations', () => {
 				'audit_log',
 				'invitations',
 				'mailbox_messages',
+				'map_revisions',
+				'maps',
 				'memberships',
+				'share_links',
 				'signin_requests',
 				'workspaces'
 			].sort()

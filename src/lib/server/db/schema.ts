@@ -98,6 +98,43 @@ export interface MailboxMessageTable {
 	received_at: string;
 }
 
+export interface MapTable {
+	id: string;
+	workspace_id: string;
+	name: string;
+	/** The draft as `framewright-map@1` JSON text. */
+	draft_json: string;
+	/** Bumped by every change to the draft; a save must name the version it started from. */
+	draft_version: number;
+	created_by: string | null;
+	created_at: string;
+	updated_by: string | null;
+	updated_at: string;
+}
+
+export interface MapRevisionTable {
+	id: string;
+	map_id: string;
+	/** 1, 2, … per map (shown as r1, r2, …). */
+	number: number;
+	note: string;
+	/** The published map as `framewright-map@1` JSON text; never changed after insert. */
+	map_json: string;
+	published_by: string | null;
+	published_at: string;
+}
+
+export interface ShareLinkTable {
+	id: string;
+	map_id: string;
+	revision_id: string;
+	token_hash: string;
+	created_by: string | null;
+	created_at: string;
+	expires_at: string | null;
+	revoked_at: string | null;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -109,6 +146,9 @@ export interface Database {
 	audit_log: AuditLogTable;
 	signin_requests: SigninRequestTable;
 	mailbox_messages: MailboxMessageTable;
+	maps: MapTable;
+	map_revisions: MapRevisionTable;
+	share_links: ShareLinkTable;
 }
 
 export type User = Selectable<UserTable>;
@@ -123,3 +163,6 @@ export type AuditLogEntry = Selectable<AuditLogTable>;
 export type NewAuditLogEntry = Insertable<AuditLogTable>;
 export type MailboxMessage = Selectable<MailboxMessageTable>;
 export type NewMailboxMessage = Insertable<MailboxMessageTable>;
+export type MapRow = Selectable<MapTable>;
+export type MapRevisionRow = Selectable<MapRevisionTable>;
+export type ShareLinkRow = Selectable<ShareLinkTable>;

@@ -1,0 +1,128 @@
+/**
+ * Field-by-field differences between two maps: frames are matched by (ID, standard/extended),
+ * signals within a frame by name — the identities a receiving device and a person reading the
+ * map use. A duplicate (a lint error, but legal in a draft) is matched to its n-th counterpart.
+ */
+import type { CanMap, Frame, Signal } from './map';
+import { formatCanId } from './map-json';
+
+export interface FieldChange {
+	field: string;
+	from: unknown;
+	to: unknown;
+}
+
+export interface SignalDiff {
+	name: string;
+	status: 'added' | 'removed' | 'changed';
+	changes: FieldChange[];
+}
+
+export interface FrameDiff {
+	/** "0x360" (standard) or "0x18FEF100" (extended), with "#2" for a second frame of the same ID. */
+	key: string;
+	status: 'added' | 'removed' | 'changed' | 'same';
+	name: string;
+	changes: FieldChange[];
+	/** Only signals that differ; unchanged ones are left out. */
+	signals: SignalDiff[];
+}
+
+export interface MapDiff {
+	/** Map-level fields (name, bitrate). */
+	changes: FieldChange[];
+	frames: FrameDiff[];
+	/** True when nothing at all differs. */
+	identical: boolean;
+}
+
+const MAP_FIELDS = ['name', 'bitrate'] as const satisfies readonly (keyof CanMap)[];
+const FRAME_FIELDS = ['name', 'length', 'cycleMs', 'sender', 'j1939', 'comment'] as const satisfies readonly (keyof Frame)[];
+const SIGNAL_FIELDS = [
+	'startBit',
+	'length',
+	'byteOrder',
+	'valueType',
+	'scale',
+	'offset',
+	'unit',
+	'min',
+	'max',
+	'labels',
+	'multiplexer',
+	'muxValue',
+	'spn',
+	'comment'
+] as const satisfies readonly (keyof Signal)[];
+
+/** Structural equality for the JSON-like values a map holds (labels compare by content, not key order). */
+function sameValue(a: unknown, b: unknown): boolean {
+	if (Object.is(a, b)) return true;
+	if (a === null || b === null || typeof a !== 'object' || typeof b !== 'object') return false;
+	const ka = Object.keys(a);
+	const kb = Object.keys(b);
+	return ka.length === kb.length && ka.every((k) => k in b && sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+}
+
+function fieldChanges<T, K extends keyof T>(a: T, b: T, fields: readonly K[]): FieldChange[] {
+	return fields.filter((f) => !sameValue(a[f], b[f])).map((f) => ({ field: String(f), from: a[f], to: b[f] }));
+}
+
+/** Keys items by identity, numbering repeats so each one has a unique key. */
+function keyed<T>(items: readonly T[], identity: (item: T) => string): Map<string, T> {
+	const seen = new Map<string, number>();
+	const out = new Map<string, T>();
+	for (const item of items) {
+		const id = identity(item);
+		const n = (seen.get(id) ?? 0) + 1;
+		seen.set(id, n);
+		out.set(n === 1 ? id : `${id}#${n}`, item);
+	}
+	return out;
+}
+
+/** Keys of `b` in its order, then keys only `a` has, each in the position its neighbours suggest. */
+function mergedKeys(a: Map<string, unknown>, b: Map<string, unknown>): string[] {
+	const keys = [...b.keys()];
+	let insertAt = 0;
+	for (const key of a.keys()) {
+		const found = keys.indexOf(key);
+		if (found >= 0) insertAt = found + 1;
+		else keys.splice(insertAt++, 0, key);
+	}
+	return keys;
+}
+
+function diffSignals(a: readonly Signal[], b: readonly Signal[]): SignalDiff[] {
+	const before = keyed(a, (s) => s.name);
+	const after = keyed(b, (s) => s.name);
+	const out: SignalDiff[] = [];
+	for (const key of mergedKeys(before, after)) {
+		const from = before.get(key);
+		const to = after.get(key);
+		if (!from && to) out.push({ name: to.name, status: 'added', changes: [] });
+		else if (from && !to) out.push({ name: from.name, status: 'removed', changes: [] });
+		else if (from && to) {
+			const changes = fieldChanges(from, to, SIGNAL_FIELDS);
+			if (changes.length > 0) out.push({ name: to.name, status: 'changed', changes });
+		}
+	}
+	return out;
+}
+
+export function diffMaps(a: CanMap, b: CanMap): MapDiff {
+	const identity = (f: Frame) => formatCanId(f.id, f.extended);
+	const before = keyed(a.frames, identity);
+	const after = keyed(b.frames, identity);
+	const frames: FrameDiff[] = mergedKeys(before, after).map((key) => {
+		const from = before.get(key);
+		const to = after.get(key);
+		if (!from) return { key, status: 'added', name: to!.name, changes: [], signals: diffSignals([], to!.signals) };
+		if (!to) return { key, status: 'removed', name: from.name, changes: [], signals: diffSignals(from.signals, []) };
+		const changes = fieldChanges(from, to, FRAME_FIELDS);
+		const signals = diffSignals(from.signals, to.signals);
+		return { key, status: changes.length + signals.length > 0 ? 'changed' : 'same', name: to.name, changes, signals };
+	});
+	const changes = fieldChanges(a, b, MAP_FIELDS);
+	return { changes, frames, identical: changes.length === 0 && frames.every((f) => f.status === 'same') };
+}
