@@ -6,7 +6,7 @@
 import { fieldLayout, readFloatNumber, readIntegerNumber, type FieldLayout } from './bits';
 import { multiplexerIndex } from './codec';
 import { j1939Pgn, j1939ValueStatus } from './j1939';
-import { MAX_EXTENDED_ID, type CanMap, type Frame, type Signal } from './map';
+import { MAX_EXTENDED_ID, MAX_STANDARD_ID, type CanMap, type Frame, type Signal } from './map';
 
 export interface ChannelInfo {
 	index: number;
@@ -49,6 +49,21 @@ export interface CompiledMap {
 	frames: CompiledFrame[];
 	/** The frame defined for a received ID: exact (id, extended) first, then J1939 frames by PGN. */
 	lookup(id: number, extended: boolean): CompiledFrame | undefined;
+	/** Same as `lookup`, as an index into `frames` (-1 when the map does not define the ID); no allocation. */
+	indexOf(id: number, extended: boolean): number;
+	/**
+	 * `frames[frameIndex].decode(…)` through one dispatcher whose call to each frame's decoder is its own
+	 * call site, so a loop over many frame kinds avoids one megamorphic call site (the hot path of a capture).
+	 */
+	decodeAt(
+		frameIndex: number,
+		data: Uint8Array,
+		offset: number,
+		length: number,
+		out: Float64Array,
+		outOffset: number,
+		status?: Uint8Array
+	): void;
 }
 
 /** Reads a signal's raw value from the frame starting at data[base]. */
@@ -214,6 +229,30 @@ function compileFrame(frame: Frame, frameIndex: number, channelStart: number, vi
 	return { frameIndex, frame, channelStart, channelCount: plans.length, decode };
 }
 
+type DispatchFn = CompiledMap['decodeAt'];
+
+/**
+ * A switch with one direct call per frame: each call site sees a single function, so the engine can
+ * inline it, where `frames[i].decode(…)` in a loop over 40 frame kinds is one megamorphic site.
+ * Generated text holds only indices. Null where code generation is forbidden.
+ */
+function generateDispatch(frames: CompiledFrame[]): DispatchFn | null {
+	const cases = frames.map((_, i) => `case ${i}: D${i}(d, b, len, out, o, st); return;`).join('\n');
+	const bindings = frames.map((_, i) => `const D${i} = D[${i}];`).join('\n');
+	try {
+		const factory = new Function('D', `${bindings}\nreturn function decodeAt(f, d, b, len, out, o, st) {\nswitch (f) {\n${cases}\n}\n};`);
+		return factory(frames.map((f) => f.decode)) as DispatchFn;
+	} catch {
+		return null;
+	}
+}
+
+function loopDispatch(frames: CompiledFrame[]): DispatchFn {
+	return (frameIndex, data, offset, length, out, outOffset, status) => {
+		frames[frameIndex]?.decode(data, offset, length, out, outOffset, status);
+	};
+}
+
 /** Lookup key that keeps standard and extended IDs apart (IDs are below 2^29). */
 const idKey = (id: number, extended: boolean) => (extended ? id + 0x20000000 : id);
 
@@ -232,8 +271,10 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 
 	const channels: ChannelInfo[] = [];
 	const frames: CompiledFrame[] = [];
-	const byId = new Map<number, CompiledFrame>();
-	const byPgn = new Map<number, CompiledFrame>();
+	const byId = new Map<number, number>();
+	const byPgn = new Map<number, number>();
+	// Standard IDs index a dense table: one typed read instead of a hash lookup per received frame.
+	const standard = new Int32Array(MAX_STANDARD_ID + 1).fill(-1);
 	map.frames.forEach((frame, frameIndex) => {
 		const compiled = compileFrame(frame, frameIndex, channels.length, viewOf, codegen);
 		frames.push(compiled);
@@ -242,25 +283,47 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 		}
 		// First definition wins on duplicates; lintMap reports them.
 		const key = idKey(frame.id, frame.extended);
-		if (!byId.has(key)) byId.set(key, compiled);
+		if (!byId.has(key)) {
+			byId.set(key, frameIndex);
+			if (!frame.extended && frame.id <= MAX_STANDARD_ID) standard[frame.id] = frameIndex;
+		}
 		if (frame.j1939 && frame.extended) {
 			const pgn = j1939Pgn(frame.id);
-			if (!byPgn.has(pgn)) byPgn.set(pgn, compiled);
+			if (!byPgn.has(pgn)) byPgn.set(pgn, frameIndex);
 		}
 	});
 
 	// Received extended IDs resolved by PGN, remembered so each distinct ID is parsed once.
-	const pgnCache = new Map<number, CompiledFrame | null>();
-	function lookup(id: number, extended: boolean): CompiledFrame | undefined {
-		const exact = byId.get(idKey(id, extended));
-		if (exact !== undefined || !extended || byPgn.size === 0 || !(id >= 0 && id <= MAX_EXTENDED_ID)) return exact;
+	const pgnCache = new Map<number, number>();
+	// Captures repeat IDs in runs (multi-packet transfers, bursts): remember the last extended answer.
+	let lastExtendedId = -1;
+	let lastExtendedIndex = -1;
+	function extendedIndexOf(id: number): number {
+		const exact = byId.get(idKey(id, true));
+		if (exact !== undefined || byPgn.size === 0 || !(id >= 0 && id <= MAX_EXTENDED_ID)) return exact ?? -1;
 		let found = pgnCache.get(id);
 		if (found === undefined) {
-			found = byPgn.get(j1939Pgn(id)) ?? null;
+			found = byPgn.get(j1939Pgn(id)) ?? -1;
 			pgnCache.set(id, found);
 		}
-		return found ?? undefined;
+		return found;
 	}
+	function indexOf(id: number, extended: boolean): number {
+		if (!extended) {
+			if (id >= 0 && id <= MAX_STANDARD_ID) {
+				const slot = standard[id];
+				if (slot !== undefined) return slot; // undefined only for a fractional id
+			}
+			return byId.get(idKey(id, false)) ?? -1;
+		}
+		if (id !== lastExtendedId) {
+			lastExtendedIndex = extendedIndexOf(id);
+			lastExtendedId = id;
+		}
+		return lastExtendedIndex;
+	}
+	const lookup = (id: number, extended: boolean): CompiledFrame | undefined => frames[indexOf(id, extended)];
+	const decodeAt = (codegen && generateDispatch(frames)) || loopDispatch(frames);
 
-	return { map, channels, frames, lookup };
+	return { map, channels, frames, lookup, indexOf, decodeAt };
 }

@@ -3,12 +3,15 @@
  * holding only the samples where the signal was present, with summary statistics.
  */
 import { SIGNAL_STATUS, type ChannelInfo, type CompiledMap } from '../decoder';
-import type { FrameStore } from './frame-store';
-import { GrowableFloat64 } from './growable';
+import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+
 
 export interface Channel {
 	info: ChannelInfo;
-	/** Seconds from the capture's first frame, one per present sample. */
+	/**
+	 * Seconds from the capture's first frame, one per present sample. Read-only: signals of one frame
+	 * that are present in every received frame share one array.
+	 */
 	time: Float64Array;
 	/** Physical values (raw × scale + offset). */
 	value: Float64Array;
@@ -25,9 +28,8 @@ export interface Channel {
 	errorCount: number;
 }
 
-interface Accumulator {
-	time: GrowableFloat64;
-	value: GrowableFloat64;
+interface ColumnSummary {
+	count: number;
 	min: number;
 	max: number;
 	sum: number;
@@ -37,60 +39,95 @@ interface Accumulator {
 	error: number;
 }
 
-export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channel[] {
-	const acc: Accumulator[] = compiled.channels.map(() => ({
-		time: new GrowableFloat64(),
-		value: new GrowableFloat64(),
-		min: Infinity,
-		max: -Infinity,
-		sum: 0,
-		last: NaN,
-		outOfRange: 0,
-		notAvailable: 0,
-		error: 0
-	}));
-	const lo = compiled.channels.map((c) => c.min ?? -Infinity);
-	const hi = compiled.channels.map((c) => c.max ?? Infinity);
-	const out = new Float64Array(Math.max(1, compiled.channels.length));
-	const status = new Uint8Array(out.length);
-	const { time, id, flags, length, dataOffset, data } = store;
+/** Statistics of column k of a row-major table (`width` values a row, `rows` rows). */
+function summariseColumn(table: Float64Array, status: Uint8Array, rows: number, width: number, k: number, lo: number, hi: number): ColumnSummary {
+	const s: ColumnSummary = { count: 0, min: Infinity, max: -Infinity, sum: 0, last: NaN, outOfRange: 0, notAvailable: 0, error: 0 };
+	for (let j = 0, at = k; j < rows; j++, at += width) {
+		const v = table[at];
+		if (v === v) {
+			s.count++;
+			if (v < s.min) s.min = v;
+			if (v > s.max) s.max = v;
+			s.sum += v;
+			s.last = v;
+			if (v < lo || v > hi) s.outOfRange++;
+		} else if (status[at] === SIGNAL_STATUS.notAvailable) s.notAvailable++;
+		else if (status[at] === SIGNAL_STATUS.error) s.error++;
+	}
+	return s;
+}
 
-	for (let i = 0; i < store.count; i++) {
-		const frame = compiled.lookup(id[i], (flags[i] & 1) !== 0);
-		if (frame === undefined) continue;
-		const start = frame.channelStart;
-		frame.decode(data, dataOffset[i], length[i], out, start, status);
-		for (let c = start; c < start + frame.channelCount; c++) {
-			const v = out[c];
-			const a = acc[c];
-			if (v === v) {
-				a.time.push(time[i]);
-				a.value.push(v);
-				if (v < a.min) a.min = v;
-				if (v > a.max) a.max = v;
-				a.sum += v;
-				a.last = v;
-				if (v < lo[c] || v > hi[c]) a.outOfRange++;
-			} else if (status[c] === SIGNAL_STATUS.notAvailable) a.notAvailable++;
-			else if (status[c] === SIGNAL_STATUS.error) a.error++;
-		}
+/**
+ * Three steps, so nothing ever grows or is copied twice:
+ *  1. resolve each received frame's definition once and count frames per definition;
+ *  2. decode every frame into its definition's row-major table (one row per received frame, one
+ *     column per signal): each decode writes one contiguous row, and one time array per definition;
+ *  3. per signal, read its column into exactly sized arrays and compute the statistics, then drop the
+ *     table. A signal present in every frame of its definition shares that definition's time array.
+ */
+export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channel[] {
+	const { time, id, flags, length, dataOffset, data } = store;
+	const n = store.count;
+	const { frames } = compiled;
+	const frameOf = new Int32Array(n);
+	const rows = new Uint32Array(frames.length);
+	for (let i = 0; i < n; i++) {
+		const f = compiled.indexOf(id[i], (flags[i] & FLAG_EXTENDED) !== 0);
+		frameOf[i] = f;
+		if (f >= 0) rows[f]++;
 	}
 
-	return compiled.channels.map((info, c) => {
-		const a = acc[c];
-		const count = a.value.count;
-		return {
-			info,
-			time: a.time.toArray(),
-			value: a.value.toArray(),
-			count,
-			min: count ? a.min : null,
-			max: count ? a.max : null,
-			mean: count ? a.sum / count : null,
-			last: count ? a.last : null,
-			outOfRangeCount: a.outOfRange,
-			notAvailableCount: a.notAvailable,
-			errorCount: a.error
-		};
+	const width = Uint32Array.from(frames, (frame) => frame.channelCount);
+	const frameTime = frames.map((_, f) => new Float64Array(rows[f]));
+	const table: (Float64Array | null)[] = frames.map((_, f) => new Float64Array(rows[f] * width[f]));
+	const tableStatus: (Uint8Array | null)[] = frames.map((_, f) => new Uint8Array(rows[f] * width[f]));
+	const row = new Uint32Array(frames.length);
+	for (let i = 0; i < n; i++) {
+		const f = frameOf[i];
+		if (f < 0) continue;
+		const j = row[f]++;
+		frameTime[f][j] = time[i];
+		compiled.decodeAt(f, data, dataOffset[i], length[i], table[f]!, j * width[f], tableStatus[f]!);
+	}
+
+	const channels: Channel[] = [];
+	frames.forEach((frame, f) => {
+		const values = table[f]!;
+		const status = tableStatus[f]!;
+		for (let k = 0; k < frame.channelCount; k++) {
+			const info = compiled.channels[frame.channelStart + k];
+			const s = summariseColumn(values, status, rows[f], width[f], k, info.min ?? -Infinity, info.max ?? Infinity);
+			const value = new Float64Array(s.count);
+			let channelTime = frameTime[f];
+			if (s.count < rows[f]) {
+				// Absent in some frames (other mux page, short payload): keep only the present samples.
+				channelTime = new Float64Array(s.count);
+				for (let j = 0, at = k, m = 0; j < rows[f]; j++, at += width[f]) {
+					const v = values[at];
+					if (v === v) {
+						channelTime[m] = frameTime[f][j];
+						value[m++] = v;
+					}
+				}
+			} else {
+				for (let j = 0, at = k; j < rows[f]; j++, at += width[f]) value[j] = values[at];
+			}
+			channels.push({
+				info,
+				time: channelTime,
+				value,
+				count: s.count,
+				min: s.count ? s.min : null,
+				max: s.count ? s.max : null,
+				mean: s.count ? s.sum / s.count : null,
+				last: s.count ? s.last : null,
+				outOfRangeCount: s.outOfRange,
+				notAvailableCount: s.notAvailable,
+				errorCount: s.error
+			});
+		}
+		table[f] = null; // this definition's table is read: let it go before the next one's columns
+		tableStatus[f] = null;
 	});
+	return channels;
 }

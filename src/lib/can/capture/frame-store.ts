@@ -91,7 +91,10 @@ export class FrameStore implements FrameSink {
 		this.#flags[i] = (extended ? FLAG_EXTENDED : 0) | (length > 8 ? FLAG_FD : 0);
 		this.#length[i] = length;
 		this.#dataOffset[i] = this.#dataBytes;
-		this.#data.set(data.subarray(0, length), this.#dataBytes);
+		// A byte loop: classical payloads are ≤ 8 bytes, where subarray + set would allocate a view per frame.
+		const pool = this.#data;
+		const at = this.#dataBytes;
+		for (let k = 0; k < length; k++) pool[at + k] = data[k];
 		this.#dataBytes += length;
 		this.#count = i + 1;
 	}
