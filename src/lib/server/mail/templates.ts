@@ -51,3 +51,25 @@ export function invitationMail(args: {
 		html: layout(lines, { url: args.url, label: 'Open the invitation' })
 	};
 }
+
+export function revisionPublishedMail(args: {
+	to: string;
+	url: string;
+	mapName: string;
+	revision: number;
+	note: string;
+	publishedBy: string;
+	workspaceName: string;
+}): OutgoingMail {
+	const lines = [
+		`${args.publishedBy} published r${args.revision} of the map "${args.mapName}" in the workspace "${args.workspaceName}".`,
+		`Note: ${args.note}`,
+		'Decode with this revision only when it matches the firmware of the device you are working on.'
+	];
+	return {
+		to: args.to,
+		subject: `r${args.revision} of ${args.mapName} published`,
+		text: `${lines.join('\n\n')}\n\n${args.url}\n`,
+		html: layout(lines, { url: args.url, label: `Open r${args.revision}` })
+	};
+}
