@@ -122,6 +122,56 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 		}
 	});
 
+	it('decodeAt over a large map agrees with codec.decodeFrame (BigInt path) for every frame kind', () => {
+		// 160 frames × 3–4 signals: past the dispatcher's inline budget, so both inlined cases and
+		// direct calls are exercised; every fourth frame repeats the layout of the one before (shared case).
+		const rand = seededRandom(0x5eed15);
+		const frames: CanMapInput['frames'] = [];
+		for (let f = 0; f < 160; f++) {
+			if (f % 4 === 3) {
+				frames.push({ ...frames[f - 1], name: `F${f}`, id: f + 1 });
+				continue;
+			}
+			const signals: SignalInput[] = [{ name: 'mux', startBit: 0, length: 2, multiplexer: true }];
+			for (let i = 0; i < rand.int(2, 3); i++) {
+				const length = rand.int(1, 64);
+				const byteOrder = rand.pick(['little', 'big'] as const);
+				let startBit = rand.int(0, 63);
+				while (!fieldFits(fieldLayout(startBit, length, byteOrder), 8)) startBit = rand.int(0, 63);
+				signals.push({ name: `s${i}`, startBit, length, byteOrder, valueType: rand.pick(['unsigned', 'signed'] as const), muxValue: rand.pick([null, 1, 2]), scale: rand.pick([1, 0.5, 0.1]) });
+			}
+			frames.push({ name: `F${f}`, id: f + 1, signals });
+		}
+		const map = mapOf(frames);
+		const compiled = compileMap(map, options);
+		const out = new Float64Array(compiled.channels.length);
+		for (let round = 0; round < 2000; round++) {
+			const f = rand.int(0, frames.length - 1);
+			const data = rand.bytes(rand.int(0, 8));
+			out.fill(-1);
+			compiled.decodeAt(f, data, 0, data.length, out, compiled.frames[f].channelStart);
+			const { channelStart, channelCount } = compiled.frames[f];
+			const expected = decodeFrame(map.frames[f], data).map((r) => (r.present ? r.value : Number.NaN));
+			expect(Array.from(out.subarray(channelStart, channelStart + channelCount))).toEqual(expected);
+		}
+	});
+
+	it('indexOf finds standard IDs through the dense table and everything else by key', () => {
+		const map = mapOf([
+			{ name: 'Zero', id: 0, signals: [] },
+			{ name: 'Top', id: '0x7FF', signals: [] },
+			{ name: 'TopAgain', id: '0x7FF', signals: [] }, // duplicate: the first definition wins
+			{ name: 'Wide', id: '0x800', signals: [] }, // a standard frame above 11 bits (a lint error) still decodes
+			{ name: 'Ext', id: '0x7FF', extended: true, signals: [] }
+		]);
+		const compiled = compileMap(map, options);
+		expect([0, 0x7ff, 0x800, 0x123, -1, 1.5, 0x2000].map((id) => compiled.indexOf(id, false))).toEqual([0, 1, 3, -1, -1, -1, -1]);
+		// Alternating extended IDs exercise the remembered last answer.
+		expect([0x7ff, 0x7fe, 0x7ff, 0x7ff, 0].map((id) => compiled.indexOf(id, true))).toEqual([4, -1, 4, 4, -1]);
+		expect(compiled.lookup(0x7ff, false)?.frame.name).toBe('Top');
+		expect(compiled.lookup(0x123, false)).toBeUndefined();
+	});
+
 	it(options.codegen ? 'uses generated code' : 'uses the portable loop', () => {
 		const frame = compileMap(mapOf([{ name: 'F', id: 1, signals: [] }]), options).frames[0];
 		expect(frame.decode.name === 'decode').toBe(options.codegen);
@@ -187,6 +237,7 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			expect(compiled.lookup(0x18f00403, true)?.frameIndex).toBe(1);
 			expect(compiled.lookup(0x18fef200, true)).toBeUndefined(); // another PGN
 			expect(compiled.lookup(0x1cfef117, false)).toBeUndefined(); // standard frames never match by PGN
+			expect([0x0cfef117, 0x18f00403, 0x0cfef117, 0x18fef200].map((id) => compiled.indexOf(id, true))).toEqual([0, 1, 0, -1]);
 		});
 
 		it('keeps standard and extended IDs apart', () => {

@@ -109,9 +109,10 @@ function genericReader(plan: SignalPlan): RawReader {
 /**
  * JavaScript expression reading the raw value from `d` (bytes), `v` (DataView) at frame start `b`.
  * Whole-byte 8/16/32/64-bit and float fields use DataView; other fields up to 32 bits combine at most
- * five bytes with 32-bit integer operations; longer unaligned fields call the shared helper `L[k]`.
+ * five bytes with 32-bit integer operations; longer unaligned fields call a shared helper with the
+ * field's layout, found in generated code as `layoutRef`.
  */
-function readerSource(plan: SignalPlan, k: number): string {
+function readerSource(plan: SignalPlan, layoutRef: string): string {
 	const { lsbByte, shift, length, step, lowByte, byteCount } = plan.layout;
 	const le = step === 1;
 	const at = `b + ${lowByte}`;
@@ -135,8 +136,8 @@ function readerSource(plan: SignalPlan, k: number): string {
 			}
 		}
 	}
-	if (float) return `F(d, b, L[${k}])`;
-	if (length > 32) return `I(d, b, L[${k}], ${signed})`;
+	if (float) return `F(d, b, ${layoutRef})`;
+	if (length > 32) return `I(d, b, ${layoutRef}, ${signed})`;
 	const byteAt = (j: number) => `d[b + ${lsbByte + step * j}]`;
 	const word = Array.from({ length: Math.min(byteCount, 4) }, (_, j) => (j === 0 ? byteAt(0) : `(${byteAt(j)} << ${8 * j})`)).join(' | ');
 	let unsigned: string;
@@ -163,14 +164,21 @@ type DecodeFn = CompiledFrame['decode'];
 /** Numbers embedded in generated code print exactly (JS number → string round-trips). */
 const num = (n: number) => `(${Object.is(n, -0) ? '-0' : String(n)})`;
 
+/** What code generation needs to know of one frame. */
+interface FramePlan {
+	plans: SignalPlan[];
+	muxPlan: SignalPlan | null;
+	muxAt: number;
+}
+
 /**
- * Generate one straight-line decode function per frame so the engine can inline every read —
- * the generated text contains only numbers computed here, never strings from the map.
- * Returns null where code generation is forbidden (e.g. a Content-Security-Policy without 'unsafe-eval').
+ * Straight-line statements decoding one frame from `d` at `b` (received length `len`, DataView `v`)
+ * into out[o + k] and st[o + k]. `layouts` is the expression naming this frame's layout array.
+ * The generated text contains only numbers computed here, never strings from the map.
  */
-function generateDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, muxAt: number, viewOf: (d: Uint8Array) => DataView): DecodeFn | null {
-	const lines: string[] = ['const v = viewOf(d);'];
-	const muxRead = muxPlan && Number.isFinite(muxPlan.needBytes) ? readerSource(muxPlan, muxAt) : null;
+function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string): string[] {
+	const lines: string[] = [];
+	const muxRead = muxPlan && Number.isFinite(muxPlan.needBytes) ? readerSource(muxPlan, `${layouts}[${muxAt}]`) : null;
 	lines.push(`const sel = ${muxRead ? `len >= ${muxPlan!.needBytes} ? ${muxRead} : NaN` : 'NaN'};`);
 	plans.forEach((plan, k) => {
 		const conditions: string[] = [];
@@ -179,14 +187,29 @@ function generateDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, muxAt: 
 		if (plan.muxValue !== null) conditions.push(`sel === ${plan.muxValue}`);
 		const present = conditions.length ? conditions.join(' && ') : 'true';
 		const scaled = `r * ${num(plan.scale)} + ${num(plan.offset)}`;
+		const read = readerSource(plan, `${layouts}[${k}]`);
 		const valid = plan.j1939
-			? `{ const r = ${readerSource(plan, k)}; const c = J[S(r, ${plan.layout.length})]; out[o + ${k}] = c === 0 ? ${scaled} : NaN; if (st) st[o + ${k}] = c; }`
-			: `{ const r = ${Number.isFinite(plan.needBytes) ? readerSource(plan, k) : 'NaN'}; out[o + ${k}] = ${scaled}; if (st) st[o + ${k}] = 0; }`;
+			? `{ const r = ${read}; const c = J[S(r, ${plan.layout.length})]; out[o + ${k}] = c === 0 ? ${scaled} : NaN; if (st) st[o + ${k}] = c; }`
+			: `{ const r = ${Number.isFinite(plan.needBytes) ? read : 'NaN'}; out[o + ${k}] = ${scaled}; if (st) st[o + ${k}] = 0; }`;
 		lines.push(`if (${present}) ${valid} else { out[o + ${k}] = NaN; if (st) st[o + ${k}] = 1; }`);
 	});
+	return lines;
+}
+
+/** Helpers the generated code calls, in the order of the generated factories' parameters. */
+const GENERATED_HELPERS = ['viewOf', 'L', 'F', 'I', 'S', 'J'] as const;
+const helperValues = (viewOf: (d: Uint8Array) => DataView, layouts: unknown) =>
+	[viewOf, layouts, readFloatNumber, readIntegerNumber, j1939ValueStatus, J1939_STATUS_CODE] as const;
+
+/**
+ * One straight-line decode function per frame, so the engine can inline every read.
+ * Returns null where code generation is forbidden (e.g. a Content-Security-Policy without 'unsafe-eval').
+ */
+function generateDecode(framePlan: FramePlan, viewOf: (d: Uint8Array) => DataView): DecodeFn | null {
+	const body = ['const v = viewOf(d);', ...decodeStatements(framePlan, 'L')].join('\n');
 	try {
-		const factory = new Function('viewOf', 'L', 'F', 'I', 'S', 'J', `return function decode(d, b, len, out, o, st) {\n${lines.join('\n')}\n};`);
-		return factory(viewOf, plans.map((p) => p.layout), readFloatNumber, readIntegerNumber, j1939ValueStatus, J1939_STATUS_CODE) as DecodeFn;
+		const factory = new Function(...GENERATED_HELPERS, `return function decode(d, b, len, out, o, st) {\n${body}\n};`);
+		return factory(...helperValues(viewOf, framePlan.plans.map((p) => p.layout))) as DecodeFn;
 	} catch {
 		return null;
 	}
@@ -221,27 +244,65 @@ export interface CompileOptions {
 	codegen?: boolean;
 }
 
-function compileFrame(frame: Frame, frameIndex: number, channelStart: number, viewOf: (d: Uint8Array) => DataView, codegen: boolean): CompiledFrame {
+function planFrame(frame: Frame): FramePlan {
 	const plans = frame.signals.map((s) => planSignal(s, frame));
 	const muxAt = multiplexerIndex(frame);
-	const muxPlan = muxAt >= 0 ? plans[muxAt] : null;
-	const decode = (codegen && generateDecode(plans, muxPlan, muxAt, viewOf)) || loopDecode(plans, muxPlan, viewOf);
+	return { plans, muxPlan: muxAt >= 0 ? plans[muxAt] : null, muxAt };
+}
+
+function compileFrame(frame: Frame, framePlan: FramePlan, frameIndex: number, channelStart: number, viewOf: (d: Uint8Array) => DataView, codegen: boolean): CompiledFrame {
+	const { plans, muxPlan } = framePlan;
+	const decode = (codegen && generateDecode(framePlan, viewOf)) || loopDecode(plans, muxPlan, viewOf);
 	return { frameIndex, frame, channelStart, channelCount: plans.length, decode };
 }
 
 type DispatchFn = CompiledMap['decodeAt'];
 
 /**
- * A switch with one direct call per frame: each call site sees a single function, so the engine can
- * inline it, where `frames[i].decode(…)` in a loop over 40 frame kinds is one megamorphic site.
- * Generated text holds only indices. Null where code generation is forbidden.
+ * Signals whose decoding is written straight into the dispatcher's switch; frames beyond this budget
+ * get a direct call instead, so the dispatcher stays small enough for the engine to optimise
+ * (V8 declines to optimise very large functions).
  */
-function generateDispatch(frames: CompiledFrame[]): DispatchFn | null {
-	const cases = frames.map((_, i) => `case ${i}: D${i}(d, b, len, out, o, st); return;`).join('\n');
-	const bindings = frames.map((_, i) => `const D${i} = D[${i}];`).join('\n');
+const INLINE_SIGNAL_BUDGET = 400;
+
+/**
+ * One function for the whole map: a switch whose cases hold each frame's decode statements, so
+ * decoding a stream of mixed frames costs no call per frame and one DataView lookup per call —
+ * where `frames[i].decode(…)` in a loop over many frame kinds is one megamorphic call site.
+ * Frames with identical layouts (repeated per-wheel or per-cell frames are common) share one case,
+ * chosen through a frame → case table: less code, and fewer mispredicted branches on mixed traffic.
+ * Null where code generation is forbidden.
+ */
+function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], viewOf: (d: Uint8Array) => DataView): DispatchFn | null {
+	const caseOf = new Int32Array(framePlans.length);
+	const cases: string[] = [];
+	const layouts: FieldLayout[][] = [];
+	const caseByKey = new Map<string, number>();
+	let budget = INLINE_SIGNAL_BUDGET;
+	framePlans.forEach((framePlan, f) => {
+		const frameLayouts = framePlan.plans.map((p) => p.layout);
+		const statements = decodeStatements(framePlan, `L[${layouts.length}]`).join('\n');
+		// Same statements over the same layouts decode alike (the statements name their layout only by index).
+		const key = decodeStatements(framePlan, 'L[#]').join('\n') + JSON.stringify(frameLayouts);
+		const shared = caseByKey.get(key);
+		if (shared !== undefined) {
+			caseOf[f] = shared;
+			return;
+		}
+		caseOf[f] = cases.length;
+		budget -= framePlan.plans.length;
+		if (budget < 0) {
+			cases.push(`case ${cases.length}: D[${f}](d, b, len, out, o, st); return;`);
+			return;
+		}
+		caseByKey.set(key, cases.length);
+		cases.push(`case ${cases.length}: {\n${statements}\nreturn;\n}`);
+		layouts.push(frameLayouts);
+	});
+	const body = `const v = viewOf(d);\nswitch (C[f]) {\n${cases.join('\n')}\n}`;
 	try {
-		const factory = new Function('D', `${bindings}\nreturn function decodeAt(f, d, b, len, out, o, st) {\nswitch (f) {\n${cases}\n}\n};`);
-		return factory(frames.map((f) => f.decode)) as DispatchFn;
+		const factory = new Function('D', 'C', ...GENERATED_HELPERS, `return function decodeAt(f, d, b, len, out, o, st) {\n${body}\n};`);
+		return factory(frames.map((fr) => fr.decode), caseOf, ...helperValues(viewOf, layouts)) as DispatchFn;
 	} catch {
 		return null;
 	}
@@ -275,8 +336,9 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 	const byPgn = new Map<number, number>();
 	// Standard IDs index a dense table: one typed read instead of a hash lookup per received frame.
 	const standard = new Int32Array(MAX_STANDARD_ID + 1).fill(-1);
+	const framePlans = map.frames.map(planFrame);
 	map.frames.forEach((frame, frameIndex) => {
-		const compiled = compileFrame(frame, frameIndex, channels.length, viewOf, codegen);
+		const compiled = compileFrame(frame, framePlans[frameIndex], frameIndex, channels.length, viewOf, codegen);
 		frames.push(compiled);
 		for (const s of frame.signals) {
 			channels.push({ index: channels.length, frameIndex, frameName: frame.name, signalName: s.name, unit: s.unit, min: s.min, max: s.max });
@@ -323,7 +385,7 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 		return lastExtendedIndex;
 	}
 	const lookup = (id: number, extended: boolean): CompiledFrame | undefined => frames[indexOf(id, extended)];
-	const decodeAt = (codegen && generateDispatch(frames)) || loopDispatch(frames);
+	const decodeAt = (codegen && generateDispatch(framePlans, frames, viewOf)) || loopDispatch(frames);
 
 	return { map, channels, frames, lookup, indexOf, decodeAt };
 }
