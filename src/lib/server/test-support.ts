@@ -39,7 +39,7 @@ export async function createUser(db: DB, email: string, name: string | null = nu
 	return user;
 }
 
-export async function countRows(db: DB, table: 'User' | 'workspaces' | 'memberships' | 'invitations' | 'audit_log' | 'VerificationToken' | 'signin_requests' | 'Session'): Promise<number> {
+export async function countRows(db: DB, table: 'User' | 'workspaces' | 'memberships' | 'invitations' | 'audit_log' | 'VerificationToken' | 'signin_requests' | 'Session' | 'maps' | 'map_revisions' | 'share_links'): Promise<number> {
 	const { n } = await db
 		.selectFrom(table)
 		.select((eb) => eb.fn.countAll<number>().as('n'))
