@@ -124,4 +124,9 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	await expect(page.getByRole('alert')).toContainText('your edit was not saved');
 	await page.getByRole('button', { name: 'Reload the map' }).click();
 	await expect(page.getByText('All changes saved')).toBeVisible();
+
+	// Lint links can open the frame with a signal selected.
+	await page.goto(`/w/${slug}/maps/${mapId}/frames/0?signal=1`);
+	await expect(page.getByRole('heading', { name: 'Signal details: Boost' })).toBeVisible();
+	await expect(page.getByRole('button', { name: 'Select signal Boost' })).toHaveAttribute('aria-pressed', 'true');
 });
