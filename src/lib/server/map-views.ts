@@ -7,6 +7,7 @@ import type { CanMap } from '$lib/can/map';
 import type { DB } from './db/connection';
 import { requireMap, type PersonRef } from './db/maps';
 import { listRevisions, requireRevision, type RevisionRef, type RevisionSummary } from './db/revisions';
+import { findSharedRevision } from './db/share-links';
 import { Problem } from './problem';
 import type { Role } from './roles';
 
@@ -66,4 +67,13 @@ export async function orPageError<T>(work: Promise<T> | (() => Promise<T>)): Pro
 		if (thrown instanceof Problem) error(thrown.status, thrown.message);
 		throw thrown;
 	}
+}
+
+export const SHARE_LINK_GONE = 'This link was revoked or has expired';
+
+/** For the public share pages: unknown, revoked and expired links all get the same 404. */
+export async function requireSharedRevision(db: DB, token: string) {
+	const shared = await findSharedRevision(db, token);
+	if (!shared) error(404, SHARE_LINK_GONE);
+	return shared;
 }

@@ -74,7 +74,8 @@ async function getMap(w: World): Promise<{ map: { draft: CanMap; version: number
 	return response.json();
 }
 
-async function saveDraft(w: World, draft: CanMapInput, version: number, actor: Actor = 'editor') {
+/** `draft` is sent as JSON, as a browser would send it. */
+async function saveDraft(w: World, draft: unknown, version: number, actor: Actor = 'editor') {
 	return call(w, draftRoute.PUT, '/api/workspaces/[ws]/maps/[mapId]/draft', actor, { method: 'PUT', body: { version, draft } });
 }
 
@@ -276,7 +277,7 @@ describe('drafts and revisions', () => {
 
 	it('refuses to publish while lint has errors (422 with the problems), then numbers revisions r1, r2', async () => {
 		const w = await buildWorld();
-		const draft = JSON.parse(clubRacerJson) as { frames: { signals: { startBit: number }[] }[] } & CanMapInput;
+		const draft = JSON.parse(clubRacerJson) as { frames: { signals: { startBit: number }[] }[] };
 		draft.frames[0].signals[1].startBit = 8; // now overlaps EngineSpeed (bits 8–23)
 		expect((await saveDraft(w, draft, 1)).status).toBe(200);
 		const refused = await publish(w, 'Should not publish', 2);
@@ -323,7 +324,7 @@ describe('drafts and revisions', () => {
 	it('restores an old revision into the draft as a new version', async () => {
 		const w = await buildWorld();
 		await publish(w, 'r1', 1);
-		const changed = JSON.parse(clubRacerJson) as CanMapInput & { frames: unknown[] };
+		const changed = JSON.parse(clubRacerJson) as { frames: unknown[] };
 		changed.frames.pop();
 		expect((await saveDraft(w, changed, 1)).status).toBe(200);
 		const restored = await call(w, restoreRoute.POST, '/api/workspaces/[ws]/maps/[mapId]/restore', 'editor', { method: 'POST', body: { revision: 1, version: 2 } });
@@ -336,7 +337,7 @@ describe('drafts and revisions', () => {
 	it('diff between revisions finds an added frame, a removed signal and a changed scale', async () => {
 		const w = await buildWorld();
 		await publish(w, 'r1', 1);
-		const next = JSON.parse(clubRacerJson) as { frames: { name: string; id: string; signals: { name: string; scale: number }[] }[] } & CanMapInput;
+		const next = JSON.parse(clubRacerJson) as { frames: { name: string; id: string; signals: { name: string; scale: number }[] }[] };
 		next.frames[0].signals[1].scale = 0.05; // ThrottlePosition
 		next.frames[1].signals = next.frames[1].signals.filter((s) => s.name !== 'OilTemp');
 		next.frames.push({ name: 'Brakes', id: '0x620', signals: [] });

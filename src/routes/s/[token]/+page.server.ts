@@ -1,0 +1,9 @@
+import { lintMap } from '$lib/can/lint';
+import { requireSharedRevision } from '$lib/server/map-views';
+import type { PageServerLoad } from './$types';
+
+// Public: anyone holding the link may read this one revision, signed in or not.
+export const load = (async (event) => {
+	const shared = await requireSharedRevision(event.locals.services.db, event.params.token);
+	return { shared, lint: lintMap(shared.map) };
+}) satisfies PageServerLoad;
