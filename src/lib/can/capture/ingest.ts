@@ -3,13 +3,16 @@
  * async iterable — a Node file stream is one), is cut at whole lines and handed to papaparse's
  * parser one chunk at a time, so memory holds one chunk of text plus the compact frames, never the
  * whole file. Bad rows are reported by line number and skipped; good rows always survive.
+ * Lines in the strict canonical shape skip papaparse's field strings (canonical-line.ts); every other
+ * line, and every bad row, goes through papaparse and the row parser.
  * Line numbers assume one row per line (CAN captures have no quoted line breaks).
  */
 import Papa from 'papaparse';
+import { fitsCanonicalLine, readCanonicalLine } from './canonical-line';
 import { CaptureFormatError, detectCaptureLayout, SAMPLE_ROWS } from './detect-layout';
 import { FrameStore, type FrameSink } from './frame-store';
 import { captureLayoutSchema, SECONDS_PER_UNIT, type CaptureLayout } from './layout';
-import { createParsedRow, createRowParser } from './row-parser';
+import { createParsedRow, createRowParser, type ParsedRow } from './row-parser';
 
 export type CaptureChunk = string | Uint8Array;
 export type CaptureSource =
@@ -44,6 +47,11 @@ export interface IngestReport {
 export interface IngestOptions {
 	/** A confirmed or corrected layout; guessed from the first rows when absent. */
 	layout?: CaptureLayout;
+	/**
+	 * Read strictly canonical lines in place (default true). false sends every line through papaparse;
+	 * the results are the same either way (tests and the benchmark compare the two routes).
+	 */
+	canonicalFastPath?: boolean;
 }
 
 export const MAX_REPORTED_BAD_ROWS = 1000;
@@ -115,8 +123,11 @@ export async function ingestCaptureInto(
 	let parser: Papa.Parser | null = null;
 	let parseRow: ReturnType<typeof createRowParser> = () => null;
 	let secondsPerUnit = 1;
+	let fastLines = false;
+	let dlcMeaning: CaptureLayout['dlcMeaning'] = 'either';
 
 	const out = createParsedRow();
+	const fastOut = createParsedRow();
 	const badRows: BadRow[] = [];
 	let badRowCount = 0;
 	let line = 0;
@@ -137,11 +148,27 @@ export async function ingestCaptureInto(
 		}
 		parser = new Papa.Parser({ delimiter: layout.delimiter, newline });
 		parseRow = createRowParser(layout);
+		fastLines = (options.canonicalFastPath ?? true) && fitsCanonicalLine(layout);
+		dlcMeaning = layout.dlcMeaning;
 		secondsPerUnit = SECONDS_PER_UNIT[layout.timeUnit];
 		headerPending = layout.hasHeader;
 	};
 
-	const consume = (text: string, dropLastRow: boolean) => {
+	/** A row read into `out`: make its time relative and hand it to the sink. */
+	const acceptRow = (row: ParsedRow) => {
+		firstTime ??= row.time;
+		if (row.time < previousTime) {
+			backwardsTimeCount++;
+			firstBackwardsLine ??= line;
+		}
+		previousTime = row.time;
+		// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
+		sink.add((row.time - firstTime) * secondsPerUnit, row.id, row.extended, row.data, row.length);
+		frameCount++;
+	};
+
+	/** The general route: papaparse splits the text, the row parser reads the fields. */
+	const consumeParsed = (text: string, dropLastRow: boolean) => {
 		const rows: string[][] = parser!.parse(text, 0, dropLastRow).data;
 		for (const row of rows) {
 			line++;
@@ -156,16 +183,40 @@ export async function ingestCaptureInto(
 				badRowCount++;
 				continue;
 			}
-			firstTime ??= out.time;
-			if (out.time < previousTime) {
-				backwardsTimeCount++;
-				firstBackwardsLine ??= line;
-			}
-			previousTime = out.time;
-			// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
-			sink.add((out.time - firstTime) * secondsPerUnit, out.id, out.extended, out.data, out.length);
-			frameCount++;
+			acceptRow(out);
 		}
+	};
+
+	/**
+	 * Whole lines of text (the last one may lack its newline when `dropLastRow` is false). Strictly
+	 * canonical lines are read in place; runs of other lines go the general route in file order.
+	 * Text with a quote always goes the general route, since a quoted field may span lines.
+	 */
+	const consume = (text: string, dropLastRow: boolean) => {
+		if (!fastLines || text.indexOf('"') >= 0) return consumeParsed(text, dropLastRow);
+		const step = newline.length;
+		let at = 0;
+		// The header (the first non-blank row) goes the general route, which skips it.
+		while (headerPending && at < text.length) {
+			const end = text.indexOf(newline, at);
+			const next = end < 0 ? text.length : end + step;
+			consumeParsed(text.slice(at, next), end >= 0 || dropLastRow);
+			at = next;
+		}
+		let slowFrom = -1; // start of a run of lines for the general route
+		while (at < text.length) {
+			let end = text.indexOf(newline, at);
+			if (end < 0) end = text.length;
+			if (readCanonicalLine(text, at, end, fastOut, dlcMeaning)) {
+				// Its own row buffer: the earlier lines of the general route are handled first and reuse `out`.
+				if (slowFrom >= 0) consumeParsed(text.slice(slowFrom, at), true);
+				slowFrom = -1;
+				line++;
+				acceptRow(fastOut);
+			} else if (slowFrom < 0) slowFrom = at;
+			at = end + step;
+		}
+		if (slowFrom >= 0) consumeParsed(text.slice(slowFrom), dropLastRow);
 	};
 
 	let pending = '';

@@ -57,13 +57,13 @@ const POWERS_OF_TEN = Array.from({ length: 23 }, (_, k) => 10 ** k);
  * Plain "123.456" (decimal point or comma, at most 15 digits) without building a string: the digits
  * form an integer below 2^53 and 10^k is exact, so one division gives the correctly rounded double —
  * the same result as Number() (Clinger 1990, "How to Read Floating Point Numbers Accurately", fast path).
- * NaN means "not that simple shape"; the caller then takes the general route.
+ * NaN means "not that simple shape"; the caller then takes the general route. Reads s[start, end).
  */
-function parsePlainDecimal(s: string): number {
+export function parsePlainDecimal(s: string, start = 0, end = s.length): number {
 	let mantissa = 0;
 	let digits = 0;
 	let point = -1;
-	for (let i = 0; i < s.length; i++) {
+	for (let i = start; i < end; i++) {
 		const c = s.charCodeAt(i);
 		if (c >= 48 && c <= 57) {
 			mantissa = mantissa * 10 + (c - 48);
@@ -177,8 +177,11 @@ export function parseHexBytes(field: string, out: Uint8Array): number | string {
 
 const FD_LENGTHS = new Set<number>(PAYLOAD_LENGTHS);
 
+/** A payload length a classical or CAN FD frame can have (ISO 11898-1). */
+export const isPayloadLength = (length: number): boolean => FD_LENGTHS.has(length);
+
 /** Checks the DLC column against the payload actually given (design.md: the data column decides). */
-function dlcMatches(dlc: number, length: number, meaning: CaptureLayout['dlcMeaning']): boolean {
+export function dlcMatches(dlc: number, length: number, meaning: CaptureLayout['dlcMeaning']): boolean {
 	const asCode = dlc <= 15 && dlcToLength(dlc) === length;
 	if (meaning === 'code') return asCode;
 	if (meaning === 'bytes') return dlc === length;
@@ -238,7 +241,7 @@ export function createRowParser(layout: CaptureLayout): RowParser {
 				out.data[length++] = field.length === 2 ? a * 16 + b : a;
 			}
 		}
-		if (!FD_LENGTHS.has(length)) {
+		if (!isPayloadLength(length)) {
 			return `${length} data bytes is not a CAN payload length (0–8, 12, 16, 20, 24, 32, 48 or 64)`;
 		}
 		if (dlc >= 0 && !dlcMatches(dlc, length, layout.dlcMeaning)) {

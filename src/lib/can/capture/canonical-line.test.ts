@@ -1,0 +1,84 @@
+import { describe, expect, it } from 'vitest';
+import { seededRandom } from '../testing/seeded-random';
+import { readCanonicalLine } from './canonical-line';
+import { ingestCapture } from './ingest';
+import { createParsedRow } from './row-parser';
+
+/** Everything an import produces, in comparable form. */
+async function importBoth(text: string | string[]) {
+	const routes = await Promise.all(
+		[true, false].map(async (canonicalFastPath) => {
+			const { store, ...report } = await ingestCapture(text, { canonicalFastPath });
+			const frames = Array.from({ length: store.count }, (_, i) => [store.time[i], store.id[i], store.flags[i], Array.from(store.payload(i))]);
+			return { report, frames };
+		})
+	);
+	return { fast: routes[0], general: routes[1] };
+}
+
+// The reference for the fast path is the general route (papaparse + the row parser), which the
+// ingest tests check against the capture CSV contract of shared/design.md.
+describe('canonical fast path gives exactly what the general route gives', () => {
+	const awkward = [
+		'time,id,extended,dlc,data',
+		'0.000000,100,0,8,11 22 33 44 55 66 77 88',
+		'0.001000,7FF,0,2,aBcD', // unspaced, mixed case
+		'',
+		'0.002000,0x101,0,1,01', // 0x prefix: general route
+		'0.003000,18FEF100,1,8,FF FF FF FF FF FF FF FF,bus0', // extra column
+		'0.004000,800,0,1,00', // 12-bit ID marked standard: bad row
+		'0.005000,100,0,9,00 01 02 03 04 05 06 07 08 09 0a 0b', // CAN FD code 9 = 12 bytes
+		'0.006000,100,0,12,00 01 02 03 04 05 06 07 08 09 0a 0b', // byte count
+		'0.007000,100,0,3,00 01', // DLC mismatch: bad row
+		'0.008000,100,0,3,0 1 2', // one-digit bytes: general route
+		'0.009000,100,0,2,11  22', // double space: general route
+		'0.0100,100,2,1,00', // bad flag
+		' 0.011000,100,0,1,00', // leading blank: general route
+		'0.012000,100,0,8', // missing data column
+		'0.012500,100,1,0,', // empty payload, extended small ID
+		'0.013000,100,0,1,00 ', // trailing blank
+		'0.0005,100,0,1,7f' // earlier than the row before
+	];
+
+	it.each([
+		['LF', awkward.join('\n') + '\n'],
+		['CRLF', awkward.join('\r\n') + '\r\n'],
+		['no final newline', awkward.join('\n')]
+	])('on awkward rows (%s)', async (_name, text) => {
+		const { fast, general } = await importBoth(text);
+		expect(fast).toEqual(general);
+		expect(general.report.badRowCount).toBe(4);
+		expect(general.report.frameCount).toBe(awkward.length - 1 - 1 - 4);
+	});
+
+	it('on random rows split into uneven chunks, good and bad mixed', async () => {
+		const rand = seededRandom(0xfa57);
+		const lines = ['time,id,extended,dlc,data'];
+		for (let i = 0; i < 3000; i++) {
+			const bytes = Array.from(rand.bytes(rand.pick([0, 1, 8, 12])), (b) => b.toString(16).padStart(2, '0'));
+			const extended = rand.int(0, 1);
+			const id = rand.int(0, extended ? 0x1fffffff : 0x7ff).toString(16);
+			const line = `${(i / 1000).toFixed(rand.int(0, 7))},${id},${extended},${rand.pick([bytes.length, bytes.length > 8 ? 9 : 3])},${bytes.join(rand.pick([' ', '']))}`;
+			lines.push(rand.int(0, 20) === 0 ? line.replace(',', rand.pick([';', ',x', ', '])) : line);
+		}
+		const text = lines.join('\n') + '\n';
+		const chunks: string[] = [];
+		for (let at = 0; at < text.length; ) {
+			const size = rand.int(1, 5000);
+			chunks.push(text.slice(at, at + size));
+			at += size;
+		}
+		const { fast, general } = await importBoth(chunks);
+		expect(fast).toEqual(general);
+		expect(general.report.badRowCount).toBeGreaterThan(0);
+		expect(general.report.frameCount).toBeGreaterThan(1500);
+	});
+
+	it('reads a line in place between other text', () => {
+		const text = 'junk\n1.500000,1a0,0,3,01 02 ff\nmore';
+		const out = createParsedRow();
+		const start = text.indexOf('\n') + 1;
+		expect(readCanonicalLine(text, start, text.lastIndexOf('\n'), out, 'either')).toBe(true);
+		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([1.5, 0x1a0, false, 3, 1, 2, 255]);
+	});
+});
