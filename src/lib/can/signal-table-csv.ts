@@ -73,7 +73,7 @@ export interface SignalTableOptions {
 
 // ---------------------------------------------------------------- writing
 
-function labelsText(labels: Record<string, string>): string {
+export function labelsText(labels: Record<string, string>): string {
 	const escape = (s: string) => s.replace(/[\\;=]/g, (c) => `\\${c}`);
 	return Object.entries(labels)
 		.sort(([a], [b]) => Number(a) - Number(b))
@@ -149,7 +149,7 @@ interface Cell {
 
 const BOOLEAN_WORDS: Record<string, boolean> = { '1': true, '0': false, true: true, false: false, yes: true, no: false };
 
-function readLabels(text: string): Cell {
+export function readLabels(text: string): Cell {
 	const labels: Record<string, string> = {};
 	// Split on separators that are not escaped with a backslash.
 	const parts = text.match(/(?:\\.|[^;\\])+/g) ?? [];
@@ -158,7 +158,7 @@ function readLabels(text: string): Cell {
 		if (eq < 0) return { ok: false, message: `"${part}" is not raw=name (write labels like 0=Off;1=On)` };
 		const raw = part.slice(0, eq).trim();
 		if (!/^-?\d+$/.test(raw)) return { ok: false, message: `label key "${raw}" must be a whole raw value` };
-		labels[String(Number(raw))] = part.slice(eq + 1).replace(/\\(.)/g, '$1').trim();
+		labels[String(Number(raw))] = part.slice(eq + 1).replace(/\\(.)/g, '$1');
 	}
 	return { ok: true, value: labels };
 }
@@ -169,7 +169,7 @@ function readCell(spec: ColumnSpec, raw: string): Cell {
 	if (text === '') return { ok: true, value: spec.kind === 'nullableNumber' ? null : undefined };
 	switch (spec.kind) {
 		case 'text':
-			return { ok: true, value: text };
+			return { ok: true, value: raw }; // verbatim: the writer quotes edge spaces, so they survive
 		case 'id':
 			return { ok: true, value: /^0x/i.test(text) ? text : /^\d+$/.test(text) ? Number(text) : text };
 		case 'number':
@@ -182,7 +182,7 @@ function readCell(spec: ColumnSpec, raw: string): Cell {
 			return b === undefined ? { ok: false, message: `expected 1 or 0, got "${text}"` } : { ok: true, value: b };
 		}
 		case 'labels':
-			return readLabels(text);
+			return readLabels(raw);
 	}
 }
 

@@ -5,6 +5,7 @@
  */
 import { fieldBitPositions } from '$lib/can/bits';
 import { signalSchema, type Frame, type Signal } from '$lib/can/map';
+import { labelsText, readLabels } from '$lib/can/signal-table-csv';
 
 export type SignalField = keyof Signal;
 
@@ -28,27 +29,14 @@ const KINDS: Record<SignalField, Kind> = {
 	comment: 'text'
 };
 
-/** Value labels as one line, `0=Off;1=On` (the same notation as the CSV signal table). */
+/** Value labels as one line, `0=Off;1=On` — the CSV signal table's notation, from its own module. */
 export function formatLabels(labels: Signal['labels']): string {
-	return Object.entries(labels)
-		.sort(([a], [b]) => Number(a) - Number(b))
-		.map(([raw, text]) => `${raw}=${text}`)
-		.join(';');
+	return labelsText(labels);
 }
 
 export function parseLabels(text: string): { ok: true; labels: Record<string, string> } | { ok: false; message: string } {
-	const labels: Record<string, string> = {};
-	for (const part of text.split(';')) {
-		if (part.trim() === '') continue;
-		const at = part.indexOf('=');
-		const raw = at < 0 ? '' : part.slice(0, at).trim();
-		if (!/^-?\d+$/.test(raw)) {
-			return { ok: false, message: `"${part.trim()}" should be raw=text with a whole-number raw value, e.g. 0=Off;1=On` };
-		}
-		if (raw in labels) return { ok: false, message: `raw value ${raw} has two labels` };
-		labels[String(Number(raw))] = part.slice(at + 1).trim();
-	}
-	return { ok: true, labels };
+	const read = readLabels(text);
+	return read.ok ? { ok: true, labels: read.value as Record<string, string> } : { ok: false, message: read.message ?? 'not raw=text pairs' };
 }
 
 export function fieldText(signal: Signal, field: SignalField): string {
