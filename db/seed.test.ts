@@ -21,6 +21,16 @@ describe('demo seed', () => {
 				.map((a) => ({ email: a.email, role: a.role, slug: demoWorkspace.slug }))
 				.sort((a, b) => a.email.localeCompare(b.email))
 		);
+		// The two demo maps: club racer r1 with an unpublished draft change, generator set r1.
+		const maps = await db
+			.selectFrom('maps')
+			.select(['name', 'draft_version', (eb) => eb.selectFrom('map_revisions').select((r) => r.fn.max('number').as('n')).whereRef('map_revisions.map_id', '=', 'maps.id').as('latest')])
+			.orderBy('name')
+			.execute();
+		expect(maps).toEqual([
+			{ name: 'Club racer engine controller', draft_version: 2, latest: 1 },
+			{ name: 'Generator set engine (J1939)', draft_version: 1, latest: 1 }
+		]);
 		// Reserved test domain only (RFC 2606), never a real mailbox.
 		expect(demoAccounts.every((a) => a.email.endsWith('@framewright.test'))).toBe(true);
 	});
