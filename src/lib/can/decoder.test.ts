@@ -153,6 +153,12 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			const { channelStart, channelCount } = compiled.frames[f];
 			const expected = decodeFrame(map.frames[f], data).map((r) => (r.present ? r.value : Number.NaN));
 			expect(Array.from(out.subarray(channelStart, channelStart + channelCount))).toEqual(expected);
+			// Column-major output: signal k at 1 + k·3 (stride 3), through the dispatcher and the frame itself.
+			for (const decode of [compiled.decodeAt.bind(null, f), compiled.frames[f].decode]) {
+				const strided = new Float64Array(3 * channelCount + 1).fill(-1);
+				decode(data, 0, data.length, strided, 1, undefined, 3);
+				expect(Array.from({ length: channelCount }, (_, k) => strided[1 + 3 * k])).toEqual(expected);
+			}
 		}
 	});
 

@@ -29,9 +29,10 @@ export interface CompiledFrame {
 	channelStart: number;
 	channelCount: number;
 	/**
-	 * Physical value of signal k → out[outOffset + k]; NaN when absent (other mux page, bits past
-	 * the received `length`) or, on J1939 frames, when an unsigned raw value is "not available"/"error"
-	 * (SAE J1939-71). status[outOffset + k] gets the matching SIGNAL_STATUS code.
+	 * Physical value of signal k → out[outOffset + k·stride]; NaN when absent (other mux page, bits
+	 * past the received `length`) or, on J1939 frames, when an unsigned raw value is "not available"/
+	 * "error" (SAE J1939-71). status[outOffset + k·stride] gets the matching SIGNAL_STATUS code.
+	 * `stride` (default 1) lets a caller decode straight into column-major tables.
 	 */
 	decode(
 		data: Uint8Array,
@@ -39,7 +40,8 @@ export interface CompiledFrame {
 		length: number,
 		out: Float64Array,
 		outOffset: number,
-		status?: Uint8Array
+		status?: Uint8Array,
+		stride?: number
 	): void;
 }
 
@@ -62,7 +64,8 @@ export interface CompiledMap {
 		length: number,
 		out: Float64Array,
 		outOffset: number,
-		status?: Uint8Array
+		status?: Uint8Array,
+		stride?: number
 	): void;
 }
 
@@ -173,7 +176,7 @@ interface FramePlan {
 
 /**
  * Straight-line statements decoding one frame from `d` at `b` (received length `len`, DataView `v`)
- * into out[o + k] and st[o + k]. `layouts` is the expression naming this frame's layout array.
+ * into out[o + k·s] and st[o + k·s]. `layouts` is the expression naming this frame's layout array.
  * The generated text contains only numbers computed here, never strings from the map.
  */
 function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string): string[] {
@@ -181,6 +184,7 @@ function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string)
 	const muxRead = muxPlan && Number.isFinite(muxPlan.needBytes) ? readerSource(muxPlan, `${layouts}[${muxAt}]`) : null;
 	lines.push(`const sel = ${muxRead ? `len >= ${muxPlan!.needBytes} ? ${muxRead} : NaN` : 'NaN'};`);
 	plans.forEach((plan, k) => {
+		const at = k === 0 ? 'o' : `o + ${k} * s`;
 		const conditions: string[] = [];
 		if (!Number.isFinite(plan.needBytes)) conditions.push('false');
 		else if (plan.needBytes > 0) conditions.push(`len >= ${plan.needBytes}`);
@@ -189,9 +193,9 @@ function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string)
 		const scaled = `r * ${num(plan.scale)} + ${num(plan.offset)}`;
 		const read = readerSource(plan, `${layouts}[${k}]`);
 		const valid = plan.j1939
-			? `{ const r = ${read}; const c = J[S(r, ${plan.layout.length})]; out[o + ${k}] = c === 0 ? ${scaled} : NaN; if (st) st[o + ${k}] = c; }`
-			: `{ const r = ${Number.isFinite(plan.needBytes) ? read : 'NaN'}; out[o + ${k}] = ${scaled}; if (st) st[o + ${k}] = 0; }`;
-		lines.push(`if (${present}) ${valid} else { out[o + ${k}] = NaN; if (st) st[o + ${k}] = 1; }`);
+			? `{ const r = ${read}; const c = J[S(r, ${plan.layout.length})]; out[${at}] = c === 0 ? ${scaled} : NaN; if (st) st[${at}] = c; }`
+			: `{ const r = ${Number.isFinite(plan.needBytes) ? read : 'NaN'}; out[${at}] = ${scaled}; if (st) st[${at}] = 0; }`;
+		lines.push(`if (${present}) ${valid} else { out[${at}] = NaN; if (st) st[${at}] = 1; }`);
 	});
 	return lines;
 }
@@ -208,7 +212,7 @@ const helperValues = (viewOf: (d: Uint8Array) => DataView, layouts: unknown) =>
 function generateDecode(framePlan: FramePlan, viewOf: (d: Uint8Array) => DataView): DecodeFn | null {
 	const body = ['const v = viewOf(d);', ...decodeStatements(framePlan, 'L')].join('\n');
 	try {
-		const factory = new Function(...GENERATED_HELPERS, `return function decode(d, b, len, out, o, st) {\n${body}\n};`);
+		const factory = new Function(...GENERATED_HELPERS, `return function decode(d, b, len, out, o, st, s = 1) {\n${body}\n};`);
 		return factory(...helperValues(viewOf, framePlan.plans.map((p) => p.layout))) as DecodeFn;
 	} catch {
 		return null;
@@ -220,21 +224,22 @@ function loopDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, viewOf: (d:
 	const readers = plans.map(genericReader);
 	const muxReader = muxPlan ? readers[plans.indexOf(muxPlan)] : null;
 	const count = plans.length;
-	return (data, offset, length, out, outOffset, status) => {
+	return (data, offset, length, out, outOffset, status, stride = 1) => {
 		const view = viewOf(data);
 		// NaN never equals a muxValue: a missing multiplexer hides every multiplexed signal.
 		const selected = muxPlan && muxReader && muxPlan.needBytes <= length ? muxReader(data, view, offset) : Number.NaN;
 		for (let k = 0; k < count; k++) {
 			const plan = plans[k];
+			const at = outOffset + k * stride;
 			if (plan.needBytes > length || (plan.muxValue !== null && plan.muxValue !== selected)) {
-				out[outOffset + k] = Number.NaN;
-				if (status) status[outOffset + k] = SIGNAL_STATUS.absent;
+				out[at] = Number.NaN;
+				if (status) status[at] = SIGNAL_STATUS.absent;
 				continue;
 			}
 			const raw = readers[k](data, view, offset);
 			const code: SignalStatus = plan.j1939 ? J1939_STATUS_CODE[j1939ValueStatus(raw, plan.layout.length)] : SIGNAL_STATUS.valid;
-			out[outOffset + k] = code === SIGNAL_STATUS.valid ? raw * plan.scale + plan.offset : Number.NaN;
-			if (status) status[outOffset + k] = code;
+			out[at] = code === SIGNAL_STATUS.valid ? raw * plan.scale + plan.offset : Number.NaN;
+			if (status) status[at] = code;
 		}
 	};
 }
@@ -292,7 +297,7 @@ function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], view
 		caseOf[f] = cases.length;
 		budget -= framePlan.plans.length;
 		if (budget < 0) {
-			cases.push(`case ${cases.length}: D[${f}](d, b, len, out, o, st); return;`);
+			cases.push(`case ${cases.length}: D[${f}](d, b, len, out, o, st, s); return;`);
 			return;
 		}
 		caseByKey.set(key, cases.length);
@@ -301,7 +306,7 @@ function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], view
 	});
 	const body = `const v = viewOf(d);\nswitch (C[f]) {\n${cases.join('\n')}\n}`;
 	try {
-		const factory = new Function('D', 'C', ...GENERATED_HELPERS, `return function decodeAt(f, d, b, len, out, o, st) {\n${body}\n};`);
+		const factory = new Function('D', 'C', ...GENERATED_HELPERS, `return function decodeAt(f, d, b, len, out, o, st, s = 1) {\n${body}\n};`);
 		return factory(frames.map((fr) => fr.decode), caseOf, ...helperValues(viewOf, layouts)) as DispatchFn;
 	} catch {
 		return null;
@@ -309,8 +314,8 @@ function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], view
 }
 
 function loopDispatch(frames: CompiledFrame[]): DispatchFn {
-	return (frameIndex, data, offset, length, out, outOffset, status) => {
-		frames[frameIndex]?.decode(data, offset, length, out, outOffset, status);
+	return (frameIndex, data, offset, length, out, outOffset, status, stride) => {
+		frames[frameIndex]?.decode(data, offset, length, out, outOffset, status, stride);
 	};
 }
 

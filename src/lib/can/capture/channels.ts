@@ -13,7 +13,7 @@ export interface Channel {
 	 * that are present in every received frame share one array.
 	 */
 	time: Float64Array;
-	/** Physical values (raw × scale + offset). */
+	/** Physical values (raw × scale + offset); may be a view into a buffer shared with sibling channels. */
 	value: Float64Array;
 	count: number;
 	/** null when the channel has no samples. */
@@ -39,11 +39,11 @@ interface ColumnSummary {
 	error: number;
 }
 
-/** Statistics of column k of a row-major table (`width` values a row, `rows` rows). */
-function summariseColumn(table: Float64Array, status: Uint8Array, rows: number, width: number, k: number, lo: number, hi: number): ColumnSummary {
+/** Statistics of one decoded column (NaN = absent or flagged); `status` only for J1939 frames. */
+function summarise(values: Float64Array, status: Uint8Array | null, lo: number, hi: number): ColumnSummary {
 	const s: ColumnSummary = { count: 0, min: Infinity, max: -Infinity, sum: 0, last: NaN, outOfRange: 0, notAvailable: 0, error: 0 };
-	for (let j = 0, at = k; j < rows; j++, at += width) {
-		const v = table[at];
+	for (let j = 0; j < values.length; j++) {
+		const v = values[j];
 		if (v === v) {
 			s.count++;
 			if (v < s.min) s.min = v;
@@ -51,19 +51,20 @@ function summariseColumn(table: Float64Array, status: Uint8Array, rows: number, 
 			s.sum += v;
 			s.last = v;
 			if (v < lo || v > hi) s.outOfRange++;
-		} else if (status[at] === SIGNAL_STATUS.notAvailable) s.notAvailable++;
-		else if (status[at] === SIGNAL_STATUS.error) s.error++;
+		} else if (status?.[j] === SIGNAL_STATUS.notAvailable) s.notAvailable++;
+		else if (status?.[j] === SIGNAL_STATUS.error) s.error++;
 	}
 	return s;
 }
 
 /**
- * Three steps, so nothing ever grows or is copied twice:
+ * Three steps, so nothing grows and a signal present in every frame is never copied:
  *  1. resolve each received frame's definition once and count frames per definition;
- *  2. decode every frame into its definition's row-major table (one row per received frame, one
- *     column per signal): each decode writes one contiguous row, and one time array per definition;
- *  3. per signal, read its column into exactly sized arrays and compute the statistics, then drop the
- *     table. A signal present in every frame of its definition shares that definition's time array.
+ *  2. decode every frame straight into its definition's column-major table (one column per signal,
+ *     one row per received frame; the decoder writes with stride = rows) and one time array;
+ *  3. per signal: a column without gaps becomes the channel as it is (a view of the table) and
+ *     shares the definition's time array; a column with gaps (mux pages, short payloads) is
+ *     compacted into arrays of its own.
  */
 export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channel[] {
 	const { time, id, flags, length, dataOffset, data } = store;
@@ -77,40 +78,39 @@ export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channe
 		if (f >= 0) rows[f]++;
 	}
 
-	const width = Uint32Array.from(frames, (frame) => frame.channelCount);
 	const frameTime = frames.map((_, f) => new Float64Array(rows[f]));
-	const table: (Float64Array | null)[] = frames.map((_, f) => new Float64Array(rows[f] * width[f]));
-	const tableStatus: (Uint8Array | null)[] = frames.map((_, f) => new Uint8Array(rows[f] * width[f]));
+	const table = frames.map((frame, f) => new Float64Array(rows[f] * frame.channelCount));
+	// Statuses tell "not available" from "error" from absent; only J1939 frames can flag values.
+	const tableStatus = frames.map((frame, f) => (frame.frame.j1939 ? new Uint8Array(rows[f] * frame.channelCount) : undefined));
 	const row = new Uint32Array(frames.length);
 	for (let i = 0; i < n; i++) {
 		const f = frameOf[i];
 		if (f < 0) continue;
 		const j = row[f]++;
 		frameTime[f][j] = time[i];
-		compiled.decodeAt(f, data, dataOffset[i], length[i], table[f]!, j * width[f], tableStatus[f]!);
+		compiled.decodeAt(f, data, dataOffset[i], length[i], table[f], j, tableStatus[f], rows[f]);
 	}
 
 	const channels: Channel[] = [];
 	frames.forEach((frame, f) => {
-		const values = table[f]!;
-		const status = tableStatus[f]!;
+		const m = rows[f];
 		for (let k = 0; k < frame.channelCount; k++) {
 			const info = compiled.channels[frame.channelStart + k];
-			const s = summariseColumn(values, status, rows[f], width[f], k, info.min ?? -Infinity, info.max ?? Infinity);
-			const value = new Float64Array(s.count);
+			const column = table[f].subarray(k * m, (k + 1) * m);
+			const status = tableStatus[f]?.subarray(k * m, (k + 1) * m) ?? null;
+			const s = summarise(column, status, info.min ?? -Infinity, info.max ?? Infinity);
+			let value = column;
 			let channelTime = frameTime[f];
-			if (s.count < rows[f]) {
-				// Absent in some frames (other mux page, short payload): keep only the present samples.
+			if (s.count < m) {
+				value = new Float64Array(s.count);
 				channelTime = new Float64Array(s.count);
-				for (let j = 0, at = k, m = 0; j < rows[f]; j++, at += width[f]) {
-					const v = values[at];
+				for (let j = 0, at = 0; j < m; j++) {
+					const v = column[j];
 					if (v === v) {
-						channelTime[m] = frameTime[f][j];
-						value[m++] = v;
+						channelTime[at] = frameTime[f][j];
+						value[at++] = v;
 					}
 				}
-			} else {
-				for (let j = 0, at = k; j < rows[f]; j++, at += width[f]) value[j] = values[at];
 			}
 			channels.push({
 				info,
@@ -126,8 +126,6 @@ export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channe
 				errorCount: s.error
 			});
 		}
-		table[f] = null; // this definition's table is read: let it go before the next one's columns
-		tableStatus[f] = null;
 	});
 	return channels;
 }
