@@ -294,7 +294,7 @@ async function main() {
 	const phaseAt = process.argv.indexOf('--phase');
 	if (phaseAt >= 0) {
 		const [phase, path] = process.argv.slice(phaseAt + 1);
-		const run = { decode: phaseDecode, ingest: () => phaseIngest(path, true), 'ingest-general': () => phaseIngest(path, false), papaparse: () => phasePapaparse(path), 'papaparse-whole': () => phasePapaparseWhole(path) }[phase];
+		const run = { idle: async () => ({ rssMb: peakRssMb() }), decode: phaseDecode, ingest: () => phaseIngest(path, true), 'ingest-general': () => phaseIngest(path, false), papaparse: () => phasePapaparse(path), 'papaparse-whole': () => phasePapaparseWhole(path) }[phase];
 		if (!run) throw new Error(`unknown phase ${phase}`);
 		console.log(JSON.stringify(await run()));
 		return;
@@ -339,6 +339,7 @@ async function main() {
 		console.log('\n(c) peak resident memory (each its own process)');
 		console.log(`  ingest + decode, streamed (aim < 400 MB): ${mb(ingest.rssMb)}; general route: ${mb(general.rssMb)}`);
 		console.log(`  papaparse alone, streamed: ${mb(papa.rssMb)}; papaparse one call on the whole text: ${mb(whole.rssMb)}`);
+		console.log(`  for scale: a bench process that only starts (Node + tsx + imports): ${mb(runPhase<{ rssMb: number }>('idle').rssMb)}`);
 	} finally {
 		rmSync(dir, { recursive: true, force: true });
 	}
