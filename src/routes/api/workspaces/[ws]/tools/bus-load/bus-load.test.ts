@@ -1,0 +1,106 @@
+// The bus-load route run as the server runs it: a freshly migrated in-memory database, the demo
+// fixture map (invented data) published as r1, hand-built request events.
+import { readFileSync } from 'node:fs';
+import type { RequestEvent } from '@sveltejs/kit';
+import { describe, expect, it } from 'vitest';
+import { mapBusLoad } from '$lib/can/busload';
+import { parseMap } from '$lib/can/map-json';
+import { createMap, saveDraft } from '$lib/server/db/maps';
+import { loadSnapshot, publishRevision } from '$lib/server/db/revisions';
+import { createWorkspace } from '$lib/server/db/workspaces';
+import type { SessionUser } from '$lib/server/guard';
+import { createTestServices, createUser, makeEvent, type TestServices } from '$lib/server/test-support';
+import type { BusLoadResponse } from './bus-load-response';
+import { GET } from './+server';
+
+const ROUTE = '/api/workspaces/[ws]/tools/bus-load';
+const fixture = parseMap(readFileSync(new URL('../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url), 'utf8'));
+if (!fixture.ok) throw new Error('the club racer fixture must parse');
+const clubRacer = fixture.map;
+
+interface World {
+	services: TestServices;
+	slug: string;
+	workspaceId: string;
+	mapId: string;
+	viewer: SessionUser;
+	outsider: SessionUser;
+}
+
+async function buildWorld(): Promise<World> {
+	const services = await createTestServices();
+	const { db } = services;
+	const owner = await createUser(db, 'owner@example.test');
+	const viewer = await createUser(db, 'viewer@example.test');
+	const outsider = await createUser(db, 'outsider@example.test');
+	const ws = await createWorkspace(db, { name: 'Bus load team', ownerId: owner.id });
+	await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at: new Date().toISOString() }).execute();
+	const map = await createMap(db, { workspaceId: ws.id, map: clubRacer, actorId: owner.id, source: 'json' });
+	await publishRevision(db, { workspaceId: ws.id, mapId: map.id, version: 1, actorId: owner.id, note: 'r1' });
+	// The draft drops the fastest frame, so r1 and the draft have different loads.
+	const draft = { ...structuredClone(clubRacer), frames: clubRacer.frames.slice(1) };
+	await saveDraft(db, { workspaceId: ws.id, mapId: map.id, version: 1, draft, actorId: owner.id });
+	return { services, slug: ws.slug, workspaceId: ws.id, mapId: map.id, viewer, outsider };
+}
+
+function get(w: World, user: SessionUser | null, query: string): Promise<Response> {
+	const path = `/api/workspaces/${w.slug}/tools/bus-load${query}`;
+	return GET(makeEvent<RequestEvent>({ services: w.services, user, routeId: ROUTE, params: { ws: w.slug }, path }) as never);
+}
+
+describe('GET /api/workspaces/[ws]/tools/bus-load', () => {
+	it('gives a viewer exactly mapBusLoad of the loaded revision', async () => {
+		const w = await buildWorld();
+		const response = await get(w, w.viewer, `?mapId=${w.mapId}&rev=r1`);
+		expect(response.status).toBe(200);
+		const body = (await response.json()) as BusLoadResponse;
+		const r1 = await loadSnapshot(w.services.db, w.workspaceId, w.mapId, 1);
+		expect(body.busLoad).toEqual(mapBusLoad(r1.map));
+		expect(body.label).toBe('r1');
+		expect(body.frames.map((f) => f.cycleMs)).toEqual(clubRacer.frames.map((f) => f.cycleMs));
+	});
+
+	it('reads the draft when asked, and applies a bit-rate override', async () => {
+		const w = await buildWorld();
+		const draft = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=draft`)).json()) as BusLoadResponse;
+		const r1 = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=1`)).json()) as BusLoadResponse;
+		expect(draft.label).toBe('draft');
+		expect(draft.busLoad.frames).toHaveLength(clubRacer.frames.length - 1);
+		expect(draft.busLoad.worstCasePercent).toBeLessThan(r1.busLoad.worstCasePercent);
+		const at250k = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=1&bitrate=250000`)).json()) as BusLoadResponse;
+		// Half the bit rate carries the same bits: twice the share (arithmetic of percent of capacity).
+		expect(at250k.busLoad.bitrate).toBe(250_000);
+		expect(at250k.busLoad.nominalPercent).toBeCloseTo(2 * r1.busLoad.nominalPercent, 9);
+	});
+
+	it.each([
+		['', 'mapId'],
+		['?mapId=', 'mapId'],
+		['?mapId=x&rev=r0', 'rev'],
+		['?mapId=x&rev=latest', 'rev'],
+		['?mapId=x&bitrate=fast', 'bitrate'],
+		['?mapId=x&bitrate=999', 'bitrate'],
+		['?mapId=x&bitrate=9000000', 'bitrate']
+	])('refuses %s with 400 naming %s', async (query, path) => {
+		const w = await buildWorld();
+		const response = await get(w, w.viewer, query);
+		expect(response.status).toBe(400);
+		const body = (await response.json()) as { error: string; issues: { path: string; message: string }[] };
+		expect(body.issues.map((i) => i.path)).toContain(path);
+		expect(body.issues.every((i) => i.message.length > 0)).toBe(true);
+	});
+
+	it('answers 404 for a revision or map that does not exist', async () => {
+		const w = await buildWorld();
+		expect((await get(w, w.viewer, `?mapId=${w.mapId}&rev=7`)).status).toBe(404);
+		expect((await get(w, w.viewer, `?mapId=not-a-map&rev=1`)).status).toBe(404);
+	});
+
+	it('hides the workspace from a non-member (404) and asks a signed-out visitor to sign in (401)', async () => {
+		const w = await buildWorld();
+		const outsider = await get(w, w.outsider, `?mapId=${w.mapId}&rev=1`);
+		expect(outsider.status).toBe(404);
+		expect(await outsider.json()).not.toHaveProperty('busLoad');
+		expect((await get(w, null, `?mapId=${w.mapId}&rev=1`)).status).toBe(401);
+	});
+});
