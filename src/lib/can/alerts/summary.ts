@@ -1,0 +1,31 @@
+/** Per-rule totals of replayed alert events, for the summary beside the timeline. */
+import type { AlertEvent } from './evaluate';
+import type { AlertSeverity } from './rule';
+
+export interface AlertRuleSummary {
+	rule: string;
+	severity: AlertSeverity;
+	count: number;
+	/** Sum of event durations in seconds (latched time included: it counts as active). */
+	totalActiveS: number;
+	latchedCount: number;
+	/** Events still active (or latched) at the end of the recording. */
+	openCount: number;
+}
+
+/** One summary per rule, in the order each rule first appears among the events. */
+export function summarizeAlertEvents(events: readonly AlertEvent[]): AlertRuleSummary[] {
+	const byRule = new Map<string, AlertRuleSummary>();
+	for (const event of events) {
+		let summary = byRule.get(event.rule);
+		if (!summary) {
+			summary = { rule: event.rule, severity: event.severity, count: 0, totalActiveS: 0, latchedCount: 0, openCount: 0 };
+			byRule.set(event.rule, summary);
+		}
+		summary.count++;
+		summary.totalActiveS += event.duration;
+		if (event.latched) summary.latchedCount++;
+		if (event.end === null) summary.openCount++;
+	}
+	return [...byRule.values()];
+}
