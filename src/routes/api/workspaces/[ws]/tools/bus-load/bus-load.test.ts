@@ -43,7 +43,7 @@ async function buildWorld(): Promise<World> {
 	return { services, slug: ws.slug, workspaceId: ws.id, mapId: map.id, viewer, outsider };
 }
 
-function get(w: World, user: SessionUser | null, query: string): Promise<Response> {
+async function get(w: World, user: SessionUser | null, query: string): Promise<Response> {
 	const path = `/api/workspaces/${w.slug}/tools/bus-load${query}`;
 	return GET(makeEvent<RequestEvent>({ services: w.services, user, routeId: ROUTE, params: { ws: w.slug }, path }) as never);
 }
