@@ -172,6 +172,18 @@ describe('samples and recording end', () => {
 		expect(events.map((e) => [e.start, e.end, e.peak])).toEqual([[1, 4, 110]]);
 	});
 
+	it('of samples sharing a time stamp, the last present one is the value held', () => {
+		const samples = channel([
+			[0, 90],
+			[1, 110],
+			[1, 95],
+			[2, 105],
+			[2, NaN],
+			[3, 90]
+		]);
+		expect(run(rule(), samples).events.map((e) => [e.start, e.end, e.peak])).toEqual([[2, 3, 105]]);
+	});
+
 	it('endTime extends the recording past the last sample, so a delay can still run out', () => {
 		const samples = everySecond([90, 110]);
 		expect(run(rule({ onDelayS: 3 }), samples).events).toEqual([]);

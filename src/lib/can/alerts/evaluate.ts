@@ -8,7 +8,8 @@
  * acknowledges it; a non-latching rule goes straight back to normal when the value returns.
  *
  * Timing model: each sample's value holds until the next sample (sample-and-hold); NaN samples are
- * absent and change nothing. The on-delay runs from the first sample beyond the setpoint and the
+ * absent and change nothing; of samples sharing a time stamp the last present one is the value held
+ * (the others were held for no time at all). The on-delay runs from the first sample beyond the setpoint and the
  * alert activates once the condition has held that long; a sample that breaks the condition at that
  * very instant wins. The off-delay works the same way for the return condition (back past the
  * setpoint by more than the deadband).
@@ -67,6 +68,12 @@ function checkSeries(time: Float64Array, value: Float64Array): void {
 			throw new RangeError(`sample ${i}: time ${time[i]} is earlier than the previous sample (${time[i - 1]}); samples must be in time order`);
 		}
 	}
+}
+
+/** Whether a later present sample has the same time as sample `i` (and so replaces its value). */
+function supersededAtSameTime(time: Float64Array, value: Float64Array, i: number): boolean {
+	for (let j = i + 1; j < time.length && time[j] === time[i]; j++) if (value[j] === value[j]) return true;
+	return false;
 }
 
 /** Index of the first sample with time > t (or ≥ t when `inclusive` is false), by binary search. */
@@ -178,17 +185,16 @@ export function evaluateAlertRule(
 	for (let i = 0; i < time.length && time[i] <= endTime; i++) {
 		const t = time[i];
 		const v = value[i];
+		if (v !== v || supersededAtSameTime(time, value, i)) continue;
 		while (a < acks.length && acks[a] < t) {
 			fireDelay(acks[a], true);
 			acknowledge(acks[a++]);
 		}
 		fireDelay(t, false);
-		if (v === v) {
-			// While normal we watch for the activation condition, while active for the return condition.
-			const holds = processActive ? isReturned(rule, v) : isBeyond(rule, v);
-			if (!holds) holdingSince = null;
-			else if (holdingSince === null) holdingSince = t;
-		}
+		// While normal we watch for the activation condition, while active for the return condition.
+		const holds = processActive ? isReturned(rule, v) : isBeyond(rule, v);
+		if (!holds) holdingSince = null;
+		else if (holdingSince === null) holdingSince = t;
 		fireDelay(t, true);
 		while (a < acks.length && acks[a] === t) acknowledge(acks[a++]);
 	}
