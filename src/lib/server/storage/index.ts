@@ -1,0 +1,3 @@
+/** Blob storage: the interface callers depend on, and the local filesystem implementation. */
+export * from './storage';
+export { createLocalStorage, DEFAULT_MAX_BYTES, DEFAULT_STORAGE_ROOT, type LocalStorageOptions } from './local';

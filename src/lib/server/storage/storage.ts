@@ -1,0 +1,96 @@
+/**
+ * The one small interface every blob store implements (captures, their compact stored form):
+ * the local filesystem by default; object storage can implement the same contract.
+ */
+import { z } from 'zod';
+
+/**
+ * Keys are `/`-separated segments of letters, digits, `.`, `_` and `-`, each starting with a letter
+ * or digit, so no key can climb out of the store (`..`), be absolute, or hide as a dot file.
+ */
+export const storageKeySchema = z
+	.string()
+	.min(1, 'the storage key is empty')
+	.max(512, 'the storage key is longer than 512 characters')
+	.regex(
+		/^[A-Za-z0-9][A-Za-z0-9._-]*(\/[A-Za-z0-9][A-Za-z0-9._-]*)*$/,
+		'the storage key must be "/"-separated parts of letters, digits, ".", "_" and "-", each starting with a letter or digit'
+	);
+export type StorageKey = z.infer<typeof storageKeySchema>;
+
+export type ByteSource = ReadableStream<Uint8Array> | AsyncIterable<Uint8Array>;
+
+export interface PutOptions {
+	/** Refuse a stream longer than this many bytes (the store's own limit when absent). */
+	maxBytes?: number;
+	/** Called after each chunk is written, for progress reports. */
+	onProgress?: (bytesWritten: number) => void;
+}
+
+export interface BlobStorage {
+	/** Streams `source` to `key`; the key appears only when the whole stream arrived (nothing on failure). */
+	put(key: string, source: ByteSource, options?: PutOptions): Promise<{ size: number }>;
+	/** The stored bytes as a stream; StorageNotFoundError when there is no such key. */
+	get(key: string): Promise<ReadableStream<Uint8Array>>;
+	getBytes(key: string): Promise<Uint8Array>;
+	/** Removes the key; removing a missing key is not an error. */
+	delete(key: string): Promise<void>;
+	exists(key: string): Promise<boolean>;
+}
+
+export class StorageKeyError extends Error {
+	override name = 'StorageKeyError';
+}
+
+export class StorageNotFoundError extends Error {
+	override name = 'StorageNotFoundError';
+}
+
+/** The stream was longer than allowed; nothing was kept. */
+export class StorageLimitError extends Error {
+	override name = 'StorageLimitError';
+	constructor(readonly maxBytes: number) {
+		super(`the upload is larger than the limit of ${formatBytes(maxBytes)}; nothing was stored`);
+	}
+}
+
+export function formatBytes(n: number): string {
+	const units = ['bytes', 'KiB', 'MiB', 'GiB', 'TiB'];
+	let value = n;
+	let u = 0;
+	while (value >= 1024 && u < units.length - 1) {
+		value /= 1024;
+		u++;
+	}
+	return u === 0 ? `${n} bytes` : `${Number(value.toPrecision(3))} ${units[u]}`;
+}
+
+/** The key, checked; StorageKeyError names what is wrong. */
+export function checkStorageKey(key: unknown): StorageKey {
+	const parsed = storageKeySchema.safeParse(key);
+	if (parsed.success) return parsed.data;
+	throw new StorageKeyError(`bad storage key ${JSON.stringify(key)}: ${parsed.error.issues.map((i) => i.message).join('; ')}`);
+}
+
+/** Reads any byte source chunk by chunk; cancels a web stream that is left early (limit, error). */
+export async function* byteChunks(source: ByteSource): AsyncGenerator<Uint8Array> {
+	if (typeof (source as ReadableStream).getReader !== 'function') {
+		yield* source as AsyncIterable<Uint8Array>;
+		return;
+	}
+	const reader = (source as ReadableStream<Uint8Array>).getReader();
+	let finished = false;
+	try {
+		for (;;) {
+			const { done, value } = await reader.read();
+			if (done) {
+				finished = true;
+				return;
+			}
+			yield value;
+		}
+	} finally {
+		if (!finished) await reader.cancel().catch(() => {});
+		reader.releaseLock();
+	}
+}
