@@ -18,7 +18,8 @@ export const DEFAULT_ALERT_MESSAGE = '{name}: {value} {unit}';
 /** Longest delay accepted: a day, far beyond any sensible alert but finite. */
 const MAX_DELAY_S = 86_400;
 
-const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be a finite number`);
+// zod 4 numbers already refuse NaN and ±Infinity.
+const finite = (what: string) => z.number({ error: `${what} must be a finite number` });
 const delay = (what: string) =>
 	z
 		.number({ error: `${what} must be a number of seconds` })
@@ -60,9 +61,8 @@ const ruleBase = z.strictObject({
 		.describe('the channel: a signal of a frame of the map, by name'),
 	severity: alertSeveritySchema,
 	deadband: z
-		.number({ error: 'deadband must be a number' })
+		.number({ error: 'deadband must be a finite number' })
 		.min(0, 'deadband must be 0 or more (in the signal unit)')
-		.refine(Number.isFinite, 'deadband must be a finite number')
 		.default(0)
 		.describe('hysteresis in the signal unit: how far back past the setpoint the value must go to return'),
 	onDelayS: delay('on-delay').describe('seconds the condition must hold before the alert activates'),
