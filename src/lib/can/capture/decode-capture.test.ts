@@ -143,7 +143,10 @@ describe('decodeCapture J1939 pass', () => {
 			[0, 110, 3, 1],
 			[0, 190, 16, 2]
 		]);
-		expect(scan.transportMessages).toEqual([{ time: 1.1, pgn: 0xfeca, sourceAddress: 0, length: 10 }]);
+		// The reassembled bytes are the two packets' payloads after their sequence numbers, cut at the announced 10 bytes (J1939-21).
+		expect(scan.transportMessages).toEqual([
+			{ time: 1.1, pgn: 0xfeca, sourceAddress: 0, length: 10, data: new Uint8Array([0x04, 0xff, 0x6e, 0x00, 0x03, 0x01, 0xbe, 0x00, 0x10, 0x02]) }
+		]);
 		expect(scan.transportProblems).toEqual([]);
 	});
 

@@ -37,7 +37,8 @@ export interface J1939Scan {
 	/** DM1 messages in time order (the first MAX_LISTED). */
 	dm1: Dm1Message[];
 	troubleCodes: ActiveTroubleCode[];
-	transportMessages: { time: number; pgn: number; sourceAddress: number; length: number }[];
+	/** Reassembled messages with their bytes (at most 1785 each, SAE J1939-21), so a view can show them. */
+	transportMessages: { time: number; pgn: number; sourceAddress: number; length: number; data: Uint8Array }[];
 	transportProblems: TransportProblem[];
 }
 
@@ -78,7 +79,13 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 		const message = reassembler.push(id, time, payload);
 		if (message) {
 			if (scan.transportMessages.length < MAX_LISTED) {
-				scan.transportMessages.push({ time: message.time, pgn: message.pgn, sourceAddress: message.sourceAddress, length: message.data.length });
+				scan.transportMessages.push({
+					time: message.time,
+					pgn: message.pgn,
+					sourceAddress: message.sourceAddress,
+					length: message.data.length,
+					data: message.data
+				});
 			}
 			if (message.pgn === PGN_DM1) recordDm1(message.time, message.sourceAddress, message.data, true);
 		}
