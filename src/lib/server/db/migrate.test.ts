@@ -25,6 +25,8 @@ describe('migrations', () => {
 				'User',
 				'VerificationToken',
 				'audit_log',
+				'capture_decodes',
+				'captures',
 				'invitations',
 				'mailbox_messages',
 				'map_revisions',

@@ -135,6 +135,49 @@ export interface ShareLinkTable {
 	revoked_at: string | null;
 }
 
+export type CaptureStatus = 'uploaded' | 'processing' | 'ready' | 'failed';
+
+export interface CaptureTable {
+	id: string;
+	workspace_id: string;
+	/** What people call it (the file name unless renamed). */
+	name: string;
+	file_name: string;
+	size_bytes: number;
+	uploaded_by: string | null;
+	uploaded_at: string;
+	status: CaptureStatus;
+	/** JSON `{ layout, notes, sampleRows }`: the importer's guess from the first bytes. */
+	detected_json: string | null;
+	/** JSON CaptureLayout the capture was (or is being) processed with. */
+	layout_json: string | null;
+	/** JSON import report (frame and line counts, bad rows, warnings). */
+	report_json: string | null;
+	frame_count: number | null;
+	duration_s: number | null;
+	/** Storage key of the uploaded CSV. */
+	raw_key: string;
+	/** Storage key of the compact FrameStore bytes, once processed. */
+	store_key: string | null;
+	/** 0…1 while processing (bytes read / size). */
+	progress: Generated<number>;
+	error: string | null;
+	processed_at: string | null;
+}
+
+export interface CaptureDecodeTable {
+	id: string;
+	capture_id: string;
+	/** null once the map is deleted; `map_name` keeps what it was called. */
+	map_id: string | null;
+	map_name: string;
+	/** Revision number, or null for the draft (then `draft_version` says which). */
+	revision: number | null;
+	draft_version: number | null;
+	decoded_by: string | null;
+	decoded_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -149,6 +192,8 @@ export interface Database {
 	maps: MapTable;
 	map_revisions: MapRevisionTable;
 	share_links: ShareLinkTable;
+	captures: CaptureTable;
+	capture_decodes: CaptureDecodeTable;
 }
 
 export type User = Selectable<UserTable>;
@@ -166,3 +211,8 @@ export type NewMailboxMessage = Insertable<MailboxMessageTable>;
 export type MapRow = Selectable<MapTable>;
 export type MapRevisionRow = Selectable<MapRevisionTable>;
 export type ShareLinkRow = Selectable<ShareLinkTable>;
+export type CaptureRow = Selectable<CaptureTable>;
+export type NewCaptureRow = Insertable<CaptureTable>;
+export type CaptureUpdate = Updateable<CaptureTable>;
+export type CaptureDecodeRow = Selectable<CaptureDecodeTable>;
+export type NewCaptureDecodeRow = Insertable<CaptureDecodeTable>;
