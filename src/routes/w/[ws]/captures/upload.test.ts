@@ -83,7 +83,7 @@ describe('uploadCapture', () => {
 		const failing = new FakeRequest();
 		const lost = uploadCapture('/u', file(), { createRequest: () => failing });
 		failing.onerror?.();
-		await expect(lost).rejects.toThrow(/could not be reached/);
+		await expect(lost).rejects.toThrow(/stopped before the server answered.*size limit/);
 
 		const cancelled = new FakeRequest();
 		const controller = new AbortController();

@@ -89,8 +89,14 @@ export function uploadCapture(url: string, file: Blob & { name: string }, option
 				reject(uploadError(request.status, request.responseText, file.name));
 			}
 		};
+		// A server refusing an oversized body early may close the connection before the browser reads its 413.
 		request.onerror = () =>
-			reject(new ApiError(0, `The upload of ${file.name} stopped: the server could not be reached. Check your connection and try again.`));
+			reject(
+				new ApiError(
+					0,
+					`The upload of ${file.name} stopped before the server answered. Check your connection and try again; a very large file may be over this workspace's capture size limit.`
+				)
+			);
 		request.onabort = () => reject(new ApiError(0, `The upload of ${file.name} was cancelled.`));
 		request.send(file);
 	});
