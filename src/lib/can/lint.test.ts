@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { lintMap, type LintCode } from './lint';
+import clubRacerJson from '../../../fixtures/club-racer-ecu.map.json';
 import { canMapSchema, type FrameInput, type SignalInput } from './map';
+import { parseMap } from './map-json';
 
 const mapOf = (frames: FrameInput[]) => canMapSchema.parse({ format: 'framewright-map@1', name: 'lint test', frames });
 const sig = (name: string, startBit: number, length: number, extra: Partial<SignalInput> = {}): SignalInput => ({ name, startBit, length, ...extra });
@@ -73,5 +75,39 @@ describe('lintMap', () => {
 			['zero-scale', 'error'],
 			['label-out-of-range', 'warning']
 		]);
+	});
+
+	describe('alert rules', () => {
+		const withRules = (alertRules: unknown[]) =>
+			canMapSchema.parse({ format: 'framewright-map@1', name: 'lint test', frames: [frame([sig('temp', 0, 8, { offset: -40, unit: '°C' })])], alertRules });
+		const common = { id: 'r', name: 'Hot', channel: { frame: 'F', signal: 'temp' }, severity: 'advisory' };
+		const rule = (extra: Record<string, unknown>) => ({ ...common, condition: 'above', setpoint: 100, ...extra });
+
+		it('finds nothing wrong with a rule on an existing channel within range', () => {
+			expect(lintMap(withRules([rule({})]))).toEqual([]);
+		});
+
+		it.each([
+			['alert-unknown-frame', rule({ channel: { frame: 'Nope', signal: 'temp' } }), 'alertRules[0].channel.frame', 'error'],
+			['alert-unknown-signal', rule({ channel: { frame: 'F', signal: 'nope' } }), 'alertRules[0].channel.signal', 'error'],
+			// An 8-bit unsigned field with offset −40 carries −40…215 (raw 0…255).
+			['alert-setpoint-out-of-range', rule({ setpoint: 300 }), 'alertRules[0].setpoint', 'warning'],
+			['alert-band-inverted', { ...common, condition: 'outside', low: 90, high: 10 }, 'alertRules[0].low', 'error']
+		])('reports %s at %s, prefixed and with a map-relative path', (code, bad, path, severity) => {
+			const problems = lintMap(withRules([bad]));
+			expect(problems.map((p) => [p.code, p.path, p.severity])).toEqual([[code, path, severity]]);
+			expect(problems[0]).toMatchObject({ frameIndex: null, signalIndex: null });
+		});
+
+		it('points at the right rule in a list', () => {
+			const problems = lintMap(withRules([rule({}), rule({ id: 'r2', name: 'hot' })]));
+			expect(problems.map((p) => [p.code, p.path])).toEqual([['alert-duplicate-rule-name', 'alertRules[1].name']]);
+		});
+
+		it('the demo fixture map, rules included, lints clean', () => {
+			const parsed = parseMap(clubRacerJson);
+			expect(parsed.ok && parsed.map.alertRules.length).toBe(2);
+			expect(parsed.ok && lintMap(parsed.map)).toEqual([]);
+		});
 	});
 });

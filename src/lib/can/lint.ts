@@ -3,6 +3,7 @@
  * payload, duplicates, identifier ranges, multiplexing mistakes. Errors make decoding wrong or
  * ambiguous; warnings are legal but probably unintended.
  */
+import { validateAlertRules, type AlertRuleProblemCode } from './alerts/validate';
 import { fieldBitPositions, fieldLayout } from './bits';
 import { rawBounds } from './codec';
 import { j1939Pgn } from './j1939';
@@ -36,7 +37,8 @@ export type LintCode =
 	| 'nested-multiplexer'
 	| 'mux-value-out-of-range'
 	| 'label-out-of-range'
-	| 'limit-unreachable';
+	| 'limit-unreachable'
+	| `alert-${AlertRuleProblemCode}`;
 
 type Report = (problem: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>, field?: string) => void;
 
@@ -187,5 +189,9 @@ export function lintMap(map: CanMap): LintProblem[] {
 
 		lintFrameSignals(frame, f, problems);
 	});
+	// Alert rules are checked against the map by the alert module; their paths are made map-relative.
+	for (const p of validateAlertRules(map.alertRules, map)) {
+		problems.push({ severity: p.severity, code: `alert-${p.code}`, message: p.message, frameIndex: null, signalIndex: null, path: `alertRules${p.path}` });
+	}
 	return problems;
 }

@@ -93,4 +93,36 @@ describe('diffMaps', () => {
 			['0x100#2', 'added', 'A copy']
 		]);
 	});
+
+	describe('alert rules', () => {
+		const hot = { id: 'hot', name: 'Hot', channel: { frame: 'A', signal: 'S1' }, severity: 'advisory', condition: 'above', setpoint: 100 } as const;
+		const withRules = (rules: unknown[]) => canMapSchema.parse({ ...structuredClone(base), alertRules: rules });
+
+		it('are matched by id: a renamed rule with a new setpoint is changed, field by field', () => {
+			const diff = diffMaps(withRules([hot]), withRules([{ ...hot, name: 'Very hot', setpoint: 110 }]));
+			expect(diff.identical).toBe(false);
+			expect(diff.alertRules).toEqual([
+				{ id: 'hot', name: 'Very hot', status: 'changed', changes: [{ field: 'name', from: 'Hot', to: 'Very hot' }, { field: 'setpoint', from: 100, to: 110 }] }
+			]);
+		});
+
+		it('finds added and removed rules, and a condition change with fields that appear or vanish', () => {
+			const { setpoint: _unused, ...common } = hot;
+			const band = { ...common, condition: 'outside', low: 10, high: 90 };
+			const cold = { ...hot, id: 'cold', name: 'Cold', condition: 'below', setpoint: 5 };
+			const diff = diffMaps(withRules([hot, cold]), withRules([band, { ...hot, id: 'new', name: 'New' }]));
+			expect(diff.alertRules.map((r) => [r.id, r.status])).toEqual([['hot', 'changed'], ['cold', 'removed'], ['new', 'added']]);
+			expect(diff.alertRules[0].changes).toEqual([
+				{ field: 'condition', from: 'above', to: 'outside' },
+				{ field: 'setpoint', from: 100, to: undefined },
+				{ field: 'low', from: undefined, to: 10 },
+				{ field: 'high', from: undefined, to: 90 }
+			]);
+		});
+
+		it('equal rules (channel compared by content) leave the maps identical', () => {
+			const diff = diffMaps(withRules([hot]), withRules([structuredClone(hot)]));
+			expect(diff).toMatchObject({ identical: true, alertRules: [] });
+		});
+	});
 });

@@ -2,7 +2,9 @@
  * Field-by-field differences between two maps: frames are matched by (ID, standard/extended),
  * signals within a frame by name — the identities a receiving device and a person reading the
  * map use. A duplicate (a lint error, but legal in a draft) is matched to its n-th counterpart.
+ * Alert rules are matched by their id, so a renamed rule shows as changed, not removed and added.
  */
+import type { AlertRule } from './alerts/rule';
 import type { CanMap, Frame, Signal } from './map';
 import { formatCanId } from './map-json';
 
@@ -28,10 +30,20 @@ export interface FrameDiff {
 	signals: SignalDiff[];
 }
 
+export interface AlertRuleDiff {
+	id: string;
+	/** The rule's name (the new one when it changed). */
+	name: string;
+	status: 'added' | 'removed' | 'changed';
+	changes: FieldChange[];
+}
+
 export interface MapDiff {
 	/** Map-level fields (name, bitrate). */
 	changes: FieldChange[];
 	frames: FrameDiff[];
+	/** Only rules that differ. */
+	alertRules: AlertRuleDiff[];
 	/** True when nothing at all differs. */
 	identical: boolean;
 }
@@ -54,6 +66,21 @@ const SIGNAL_FIELDS = [
 	'spn',
 	'comment'
 ] as const satisfies readonly (keyof Signal)[];
+/** Every field of every rule condition; a field the other condition lacks compares as absent (undefined). */
+const ALERT_RULE_FIELDS = [
+	'name',
+	'channel',
+	'severity',
+	'condition',
+	'setpoint',
+	'low',
+	'high',
+	'deadband',
+	'onDelayS',
+	'offDelayS',
+	'latching',
+	'message'
+] as const;
 
 /** Structural equality for the JSON-like values a map holds (labels compare by content, not key order). */
 function sameValue(a: unknown, b: unknown): boolean {
@@ -110,6 +137,23 @@ function diffSignals(a: readonly Signal[], b: readonly Signal[]): SignalDiff[] {
 	return out;
 }
 
+function diffAlertRules(a: readonly AlertRule[], b: readonly AlertRule[]): AlertRuleDiff[] {
+	const before = keyed(a, (r) => r.id);
+	const after = keyed(b, (r) => r.id);
+	const out: AlertRuleDiff[] = [];
+	for (const key of mergedKeys(before, after)) {
+		const from = before.get(key);
+		const to = after.get(key);
+		if (!from && to) out.push({ id: to.id, name: to.name, status: 'added', changes: [] });
+		else if (from && !to) out.push({ id: from.id, name: from.name, status: 'removed', changes: [] });
+		else if (from && to) {
+			const changes = fieldChanges<Record<string, unknown>, string>(from, to, ALERT_RULE_FIELDS);
+			if (changes.length > 0) out.push({ id: to.id, name: to.name, status: 'changed', changes });
+		}
+	}
+	return out;
+}
+
 export function diffMaps(a: CanMap, b: CanMap): MapDiff {
 	const identity = (f: Frame) => formatCanId(f.id, f.extended);
 	const before = keyed(a.frames, identity);
@@ -124,5 +168,6 @@ export function diffMaps(a: CanMap, b: CanMap): MapDiff {
 		return { key, status: changes.length + signals.length > 0 ? 'changed' : 'same', name: to.name, changes, signals };
 	});
 	const changes = fieldChanges(a, b, MAP_FIELDS);
-	return { changes, frames, identical: changes.length === 0 && frames.every((f) => f.status === 'same') };
+	const alertRules = diffAlertRules(a.alertRules, b.alertRules);
+	return { changes, frames, alertRules, identical: changes.length === 0 && alertRules.length === 0 && frames.every((f) => f.status === 'same') };
 }

@@ -133,4 +133,28 @@ describe('JSON Schema', () => {
 		expect(frame.properties.id.anyOf.map((s: { type: string }) => s.type)).toEqual(['integer', 'string']);
 		expect(frame.properties.length.enum).toEqual([0, 1, 2, 3, 4, 5, 6, 7, 8, 12, 16, 20, 24, 32, 48, 64]);
 	});
+
+	it('makes alert rules optional, and a rule a choice of condition with its own setpoint fields', () => {
+		const schema = mapJsonSchema() as any;
+		expect(schema.properties.alertRules.type).toBe('array');
+		const variants = schema.properties.alertRules.items.oneOf ?? schema.properties.alertRules.items.anyOf;
+		expect(variants.map((v: { properties: { condition: { const: string } } }) => v.properties.condition.const)).toEqual(['above', 'below', 'outside']);
+		expect(variants[2].required).toEqual(expect.arrayContaining(['channel', 'severity', 'low', 'high']));
+	});
+});
+
+describe('alert rules in a map file', () => {
+	it('a file without alertRules still parses, with none', () => {
+		const parsed = parseMap(demoText);
+		expect(parsed.ok && parsed.map.alertRules).toEqual([]);
+	});
+
+	it('reports a bad rule by its JSON path and survives a serialize round trip when good', () => {
+		const rule = { id: 'hot', name: 'Hot', channel: { frame: 'EngineFast', signal: 'engineSpeed' }, severity: 'critical', condition: 'above', setpoint: 7000, latching: true };
+		const good = parseMap({ ...JSON.parse(demoText), alertRules: [rule] });
+		expect(good.ok).toBe(true);
+		if (good.ok) expect(parseMap(serializeMap(good.map))).toEqual(good);
+		const bad = parseMap({ ...JSON.parse(demoText), alertRules: [rule, { ...rule, id: 'x', severity: 'urgent', onDelayS: -1 }] });
+		expect(bad.ok ? [] : bad.problems.map((p) => p.path)).toEqual(['alertRules[1].severity', 'alertRules[1].onDelayS']);
+	});
 });

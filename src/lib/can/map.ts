@@ -4,6 +4,7 @@
  * Structural checks that need the whole map (overlaps, duplicates) live in lint.ts.
  */
 import { z } from 'zod';
+import { alertRuleSchema } from './alerts/rule';
 
 export const MAP_FORMAT = 'framewright-map@1';
 
@@ -88,7 +89,9 @@ export const canMapSchema = z.strictObject({
 	format: z.literal(MAP_FORMAT),
 	name: z.string().trim().min(1, 'a map needs a name').max(200),
 	bitrate: z.number().int().min(1000).max(8_000_000).default(500_000),
-	frames: z.array(frameSchema).default([])
+	frames: z.array(frameSchema).default([]),
+	// Versioned with the map (part of every revision and export); optional so older files stay valid.
+	alertRules: z.array(alertRuleSchema).default([]).describe('alert rules on this map\'s channels, replayed over captures')
 });
 export type CanMap = z.output<typeof canMapSchema>;
 export type CanMapInput = z.input<typeof canMapSchema>;

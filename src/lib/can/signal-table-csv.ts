@@ -3,6 +3,8 @@
  * map can be written in any spreadsheet. Our own column names; labels as `0=Off;1=On`.
  * A frame without signals is one row with the signal columns left blank. On the second and later
  * rows of a frame, a blank frame column means "as above"; a filled one must agree with it.
+ * Alert rules are not part of the table: writing leaves them out and reading gives a map without
+ * any (the import help says so); the JSON format carries them.
  */
 import type { z } from 'zod';
 import { readCsvRecords, writeCsvRecord, type CsvRecord } from './csv-records';

@@ -40,7 +40,7 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 		map = parsed.map;
 		source = 'csv';
 	} else {
-		map = { format: MAP_FORMAT, name: body.name!, bitrate: 500_000, frames: [] };
+		map = { format: MAP_FORMAT, name: body.name!, bitrate: 500_000, frames: [], alertRules: [] };
 	}
 	const created = await createMap(event.locals.services.db, { workspaceId: workspace.id, map, actorId: user.id, source });
 	return json({ map: created }, { status: 201 });
