@@ -3,34 +3,27 @@
  * shared requestJson so every failure arrives as an ApiError with a readable message.
  */
 import { requestJson } from '$lib/api/client';
+// Type-only: the shapes the server routes answer with, defined once beside the code that builds them.
+import type { FrameDetail, FrameRow } from '$lib/server/captures/frame-views';
 
-/** GET …/captures/[id]/series — one channel, min/max-decimated to the pixels shown. */
+export type { FrameDetail, FrameRow };
+
+/**
+ * GET …/captures/[id]/series — one channel, min/max-decimated to the pixels shown (the fields the
+ * plot reads of the route's SeriesResponse; null stands for a non-finite float value).
+ */
 export interface SeriesResponse {
 	channel: { index: number; frameName: string; signalName: string; unit: string };
+	/** Seconds from the capture's first frame. */
 	time: number[];
-	value: number[];
+	value: (number | null)[];
 	decimated: boolean;
-}
-
-export interface FrameRow {
-	index: number;
-	time: number;
-	id: number;
-	extended: boolean;
-	length: number;
-	dataHex: string;
 }
 
 /** GET …/captures/[id]/frames — one page of raw frames in capture order. */
 export interface FramesResponse {
 	total: number;
 	frames: FrameRow[];
-}
-
-/** GET …/captures/[id]/frames/[index] — one frame with the decode's signals. */
-export interface FrameDetailResponse {
-	frame: FrameRow;
-	signals: { name: string; raw: number | string; value: number | null; unit: string; label: string | null }[];
 }
 
 export interface DefineFrameResponse {
@@ -61,8 +54,8 @@ export function fetchFrames(slug: string, captureId: string, query: { offset: nu
 	return requestJson<FramesResponse>(fetch, 'GET', `${base(slug, captureId)}/frames?${params}`);
 }
 
-export function fetchFrameDetail(slug: string, captureId: string, index: number, decodeId: string): Promise<FrameDetailResponse> {
-	return requestJson<FrameDetailResponse>(fetch, 'GET', `${base(slug, captureId)}/frames/${index}?decode=${encodeURIComponent(decodeId)}`);
+export function fetchFrameDetail(slug: string, captureId: string, index: number, decodeId: string): Promise<FrameDetail> {
+	return requestJson<FrameDetail>(fetch, 'GET', `${base(slug, captureId)}/frames/${index}?decode=${encodeURIComponent(decodeId)}`);
 }
 
 export function defineFrame(slug: string, captureId: string, body: { decode: string; id: number; extended: boolean }): Promise<DefineFrameResponse> {

@@ -66,7 +66,7 @@ describe('unionBounds / valueExtent', () => {
 		expect(unionBounds([null])).toBeNull();
 	});
 	it('ignores NaN and infinities, which JSON sends as null for float signals', () => {
-		expect(valueExtent([3, NaN, -2, Infinity, 7])).toEqual({ min: -2, max: 7 });
+		expect(valueExtent([3, NaN, null, -2, Infinity, 7])).toEqual({ min: -2, max: 7 });
 		expect(valueExtent([])).toBeNull();
 	});
 });

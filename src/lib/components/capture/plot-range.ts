@@ -86,12 +86,12 @@ export function visibleMarkerSpans(markers: readonly PlotMarker[], range: TimeRa
 }
 
 /** Smallest and largest finite value of a fetched series, for the screen-reader summary. */
-export function valueExtent(values: ArrayLike<number>): { min: number; max: number } | null {
+export function valueExtent(values: ArrayLike<number | null>): { min: number; max: number } | null {
 	let min = Infinity;
 	let max = -Infinity;
 	for (let i = 0; i < values.length; i++) {
 		const v = values[i];
-		if (!Number.isFinite(v)) continue;
+		if (v === null || !Number.isFinite(v)) continue;
 		if (v < min) min = v;
 		if (v > max) max = v;
 	}
