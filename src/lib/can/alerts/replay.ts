@@ -48,6 +48,8 @@ export interface AlertReplay {
 	events: ReplayedEvent[];
 	/** One per rule, in rule order, zero counts included. */
 	summary: AlertRuleSummary[];
+	/** End of the recording the rules ran over (seconds from its first frame): where open events stop. */
+	endTime: number;
 }
 
 export class UnknownRuleError extends Error {
@@ -87,5 +89,5 @@ export function replayAlertRules(
 	const summary = map.alertRules.map(
 		(rule) => byRule.get(rule.id) ?? { rule: rule.id, severity: rule.severity, count: 0, totalActiveS: 0, latchedCount: 0, openCount: 0 }
 	);
-	return { rules, events, summary };
+	return { rules, events, summary, endTime };
 }

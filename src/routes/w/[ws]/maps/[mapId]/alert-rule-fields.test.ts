@@ -37,7 +37,7 @@ describe('alert rule table helpers', () => {
 		const band = editRuleField({ ...rule, deadband: 1 }, 'condition', 'outside');
 		expect(band).toMatchObject({ ok: true, rule: { condition: 'outside', high: 100, deadband: 1 } });
 		expect(band.ok && 'setpoint' in band.rule).toBe(false);
-		if (!band.ok) return;
+		if (!band.ok || band.rule.condition !== 'outside') throw new Error('expected a band');
 		expect(band.rule.low).toBeLessThan(100);
 		expect(editRuleField(band.rule, 'condition', 'below')).toMatchObject({ ok: true, rule: { condition: 'below', setpoint: band.rule.low, deadband: 1 } });
 	});
