@@ -6,6 +6,7 @@ import { createMap, findMapForWorkspace, saveDraft } from '../src/lib/server/db/
 import { publishRevision } from '../src/lib/server/db/revisions';
 import { parseMap } from '../src/lib/can/map-json';
 import type { CanMap } from '../src/lib/can/map';
+import type { BlobStorage } from '../src/lib/server/storage/storage';
 import clubRacerMapJson from '../fixtures/club-racer-ecu.map.json';
 import gensetMapJson from '../fixtures/genset-j1939.map.json';
 
@@ -28,7 +29,12 @@ export async function countUsers(db: Kysely<Database>): Promise<number> {
 }
 
 /** Adds whatever part of the demo data is missing; running it again changes nothing. */
-export async function seedDemo(db: Kysely<Database>): Promise<{ created: string[] }> {
+export interface SeedOptions {
+	/** Where the demo captures go; without it they are not seeded. */
+	storage?: BlobStorage;
+}
+
+export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}): Promise<{ created: string[] }> {
 	const { created, workspaceId, calibratorId } = await seedPeople(db);
 	// The map repositories open their own transactions, so maps are added after the people.
 	created.push(...(await seedDemoMaps(db, workspaceId, calibratorId)));

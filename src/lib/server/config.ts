@@ -29,7 +29,8 @@ const envSchema = z.object({
 	SESSION_MAX_AGE_DAYS: positiveInt(30),
 	SIGNIN_LINKS_PER_HOUR: positiveInt(5),
 	SIGNIN_LINK_MAX_AGE_MINUTES: positiveInt(60),
-	INVITATION_MAX_AGE_DAYS: positiveInt(7)
+	INVITATION_MAX_AGE_DAYS: positiveInt(7),
+	CAPTURE_MAX_BYTES: positiveInt(1024 ** 3)
 });
 
 export interface AppConfig {
@@ -42,6 +43,8 @@ export interface AppConfig {
 	signinLinksPerHour: number;
 	signinLinkMaxAgeSeconds: number;
 	invitationMaxAgeMs: number;
+	/** Largest capture upload in bytes (default 1 GiB). */
+	captureMaxBytes: number;
 }
 
 export function loadConfig(env: Record<string, string | undefined> = process.env): AppConfig {
@@ -63,6 +66,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
 		sessionMaxAgeSeconds: e.SESSION_MAX_AGE_DAYS * 24 * 60 * 60,
 		signinLinksPerHour: e.SIGNIN_LINKS_PER_HOUR,
 		signinLinkMaxAgeSeconds: e.SIGNIN_LINK_MAX_AGE_MINUTES * 60,
-		invitationMaxAgeMs: e.INVITATION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000
+		invitationMaxAgeMs: e.INVITATION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000,
+		captureMaxBytes: e.CAPTURE_MAX_BYTES
 	};
 }

@@ -3,6 +3,7 @@ import { loadConfig, type AppConfig } from './config';
 import { getDatabase, type DB } from './db';
 import { createSendMail, type SendMail } from './mail/send';
 import { startStandInSmtp, type StandInSmtp } from './mail/standin-smtp';
+import { storageFromEnv, type BlobStorage } from './storage';
 import { countUsers, seedDemo } from '../../../db/seed';
 
 /** Process-wide dependencies handed to requests through `event.locals.services`. */
@@ -11,6 +12,8 @@ export interface Services {
 	config: AppConfig;
 	sendMail: SendMail;
 	secret?: string;
+	/** Capture files and their processed frame stores (local folder or S3). */
+	storage: BlobStorage;
 }
 
 async function startStandIn(db: DB, port: number): Promise<StandInSmtp> {
@@ -26,6 +29,8 @@ async function startStandIn(db: DB, port: number): Promise<StandInSmtp> {
 async function createServices(): Promise<Services> {
 	const config = loadConfig();
 	const db = await getDatabase();
+	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
+	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
 	let sendMail: SendMail;
 	if (config.smtp) {
 		sendMail = createSendMail(config.smtp, config.mailFrom);
@@ -35,13 +40,13 @@ async function createServices(): Promise<Services> {
 		sendMail = createSendMail({ host: '127.0.0.1', port: standIn.port, plain: true }, config.mailFrom);
 	}
 	// Demo data only on a brand-new demo database, never on one people already use.
-	if (config.demoMode && (await countUsers(db)) === 0) await seedDemo(db);
+	if (config.demoMode && (await countUsers(db)) === 0) await seedDemo(db, { storage });
 	let secret = process.env.AUTH_SECRET;
 	if (!secret && config.demoMode) {
 		// scripts/serve.js persists a secret; this covers `vite dev`, where sessions may end on restart.
 		secret = randomBytes(32).toString('base64url');
 	}
-	return { db, config, sendMail, secret };
+	return { db, config, sendMail, secret, storage };
 }
 
 // Kept on globalThis so Vite's module reloading in development does not start a second SMTP server.

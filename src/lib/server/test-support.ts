@@ -1,11 +1,15 @@
 // Helpers for server tests: a real, freshly migrated in-memory SQLite database and hand-built
 // SvelteKit request events, so route handlers run exactly as in the server (no mocks of Kysely).
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase, migrateToLatest, type DB } from './db';
 import type { SessionUser } from './guard';
 import type { OutgoingMail } from './mail/send';
 import type { Services } from './services';
+import { createLocalStorage } from './storage';
 
 export async function createTestDatabase(): Promise<DB> {
 	const db = createDatabase(':memory:');
@@ -16,16 +20,22 @@ export async function createTestDatabase(): Promise<DB> {
 export interface TestServices extends Services {
 	/** Every message the app asked to send, in order. */
 	outbox: OutgoingMail[];
+	/** The temporary folder of `storage`. */
+	storageRoot: string;
 }
 
 export async function createTestServices(env: Record<string, string> = {}): Promise<TestServices> {
 	const db = await createTestDatabase();
 	const config: AppConfig = loadConfig({ FRAMEWRIGHT_DEMO: '1', ...env });
 	const outbox: OutgoingMail[] = [];
+	// Each test's own store in a fresh temporary folder (the OS cleans the temp folder).
+	const storageRoot = mkdtempSync(join(tmpdir(), 'fw-test-storage-'));
 	return {
 		db,
 		config,
 		outbox,
+		storage: createLocalStorage({ root: storageRoot, maxBytes: 4 * config.captureMaxBytes }),
+		storageRoot,
 		secret: 'test-secret-0123456789abcdef0123456789abcdef',
 		sendMail: async (message) => {
 			outbox.push(message);
