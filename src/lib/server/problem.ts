@@ -11,7 +11,7 @@ export interface Issue {
 /** An expected failure with an HTTP status, reported to API clients as `{ error, issues? }`. */
 export class Problem extends Error {
 	constructor(
-		readonly status: 400 | 401 | 403 | 404 | 409 | 410 | 422,
+		readonly status: 400 | 401 | 403 | 404 | 409 | 410 | 413 | 415 | 422,
 		message: string,
 		readonly issues?: Issue[],
 		/** More fields for the JSON body, e.g. `currentVersion` on a stale save. */

@@ -1,0 +1,383 @@
+// The capture upload/process/delete API run as the server runs it: real route handlers, a freshly
+// migrated in-memory database and a temporary storage folder, the parse in a real worker thread.
+// Expected frames are written out by hand below (invented demo data) and each CSV variant of
+// shared/design.md is rendered from them; the check is that every variant reads back to them.
+import { readdir } from 'node:fs/promises';
+import { join } from 'node:path';
+import { isMainThread, threadId as mainThreadId } from 'node:worker_threads';
+import type { RequestEvent } from '@sveltejs/kit';
+import { describe, expect, it } from 'vitest';
+import { CANONICAL_LAYOUT, type CaptureLayout } from '$lib/can/capture/layout';
+import * as listRoute from '../../../routes/api/workspaces/[ws]/captures/+server';
+import * as captureRoute from '../../../routes/api/workspaces/[ws]/captures/[id]/+server';
+import * as processRoute from '../../../routes/api/workspaces/[ws]/captures/[id]/process/+server';
+import * as statusRoute from '../../../routes/api/workspaces/[ws]/captures/[id]/status/+server';
+import { load as listLoad } from '../../../routes/w/[ws]/captures/+page.server';
+import { load as captureLoad } from '../../../routes/w/[ws]/captures/[id]/+page.server';
+import { createMap } from '../db/maps';
+import { publishRevision } from '../db/revisions';
+import { createWorkspace } from '../db/workspaces';
+import type { SessionUser } from '../guard';
+import type { Role } from '../roles';
+import { createTestServices, createUser, makeEvent, outcome, type TestServices } from '../test-support';
+import { findCaptureRow, type CaptureDetail, type CaptureSummary } from './captures-db';
+import { parseInWorker, processingDone } from './processing';
+import type { DetectedLayout } from './schemas';
+import { loadFrameStore } from './store';
+
+type Handler = (event: RequestEvent) => Promise<Response>;
+type Actor = Role | 'outsider';
+
+interface World {
+	services: TestServices;
+	slug: string;
+	workspaceId: string;
+	users: Record<Actor, SessionUser>;
+}
+
+async function buildWorld(env: Record<string, string> = {}): Promise<World> {
+	const services = await createTestServices(env);
+	const { db } = services;
+	const users = {
+		owner: await createUser(db, 'owner@example.test', 'Owner'),
+		editor: await createUser(db, 'editor@example.test', 'Editor'),
+		viewer: await createUser(db, 'viewer@example.test', 'Viewer'),
+		outsider: await createUser(db, 'outsider@example.test')
+	};
+	const ws = await createWorkspace(db, { name: 'Capture test team', ownerId: users.owner.id });
+	const now = new Date().toISOString();
+	for (const role of ['editor', 'viewer'] as const) {
+		await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: users[role].id, role, joined_at: now }).execute();
+	}
+	return { services, slug: ws.slug, workspaceId: ws.id, users };
+}
+
+function eventFor(w: World, routeId: string, actor: Actor, init: { method?: string; params?: Record<string, string>; query?: string; body?: unknown } = {}) {
+	const params = { ws: w.slug, ...init.params };
+	const path = routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name as keyof typeof params] ?? name) + (init.query ?? '');
+	return makeEvent<RequestEvent>({ services: w.services, user: w.users[actor], routeId, params, path, method: init.method ?? 'GET', body: init.body });
+}
+
+/** POSTs raw bytes as a browser upload would (Content-Length set unless `streamed`). */
+async function upload(w: World, actor: Actor, name: string, content: string | Uint8Array, options: { streamed?: boolean } = {}) {
+	const event = eventFor(w, '/api/workspaces/[ws]/captures', actor, { method: 'POST', query: `?name=${encodeURIComponent(name)}` });
+	const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
+	const headers = new Headers({ 'content-type': 'text/csv' });
+	let body: BodyInit = bytes;
+	if (options.streamed) {
+		// No Content-Length: the limit must be enforced while streaming. Sent in 700-byte pieces.
+		body = new ReadableStream<Uint8Array>({
+			start(controller) {
+				for (let at = 0; at < bytes.length; at += 700) controller.enqueue(bytes.slice(at, at + 700));
+				controller.close();
+			}
+		});
+	} else headers.set('content-length', String(bytes.byteLength));
+	(event as { request: Request }).request = new Request(event.url, { method: 'POST', body, headers, duplex: 'half' } as RequestInit);
+	return (listRoute.POST as unknown as Handler)(event);
+}
+
+async function uploaded(w: World, name: string, content: string, actor: Actor = 'viewer') {
+	const response = await upload(w, actor, name, content);
+	const body = await response.json();
+	expect(response.status, JSON.stringify(body)).toBe(201);
+	return body as { capture: CaptureSummary; detected: DetectedLayout };
+}
+
+async function process(w: World, id: string, layout: CaptureLayout, actor: Actor = 'viewer') {
+	const response = await (processRoute.POST as unknown as Handler)(
+		eventFor(w, '/api/workspaces/[ws]/captures/[id]/process', actor, { method: 'POST', params: { id }, body: { layout } })
+	);
+	await processingDone(id);
+	return response;
+}
+
+async function detail(w: World, id: string, actor: Actor = 'viewer') {
+	const response = await (captureRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, { params: { id } }));
+	return { status: response.status, body: (await response.json()) as CaptureDetail };
+}
+
+/** Uploads, confirms the detected layout unchanged, processes, and returns the detail. */
+async function uploadAndProcess(w: World, name: string, content: string) {
+	const { capture, detected } = await uploaded(w, name, content);
+	const started = await process(w, capture.id, detected.layout);
+	expect(started.status).toBe(202);
+	const { body } = await detail(w, capture.id);
+	return { ...body, detected };
+}
+
+/** Every file under the test store (temporary files included). */
+async function storedFiles(w: World): Promise<string[]> {
+	const entries = await readdir(w.services.storageRoot, { recursive: true, withFileTypes: true });
+	return entries.filter((e) => e.isFile()).map((e) => join(e.parentPath, e.name));
+}
+
+// ------------------------------------------------------------------ the expected frames
+
+interface Frame {
+	time: number;
+	id: number;
+	extended: boolean;
+	data: number[];
+}
+
+// Invented demo frames: a standard, an extended (above 0x7FF, so inferable) and a standard ID.
+const FRAMES: Frame[] = [
+	{ time: 0, id: 0x123, extended: false, data: [0x11, 0x22, 0x33, 0x44, 0x55, 0x66, 0x77, 0x88] },
+	{ time: 0.01, id: 0x18feee00, extended: true, data: [0x28, 0x00, 0xff, 0x10, 0x00, 0x00, 0x00, 0x01] },
+	{ time: 0.0205, id: 0x7ff, extended: false, data: [0xde, 0xad, 0xbe, 0xef, 0x00, 0x01, 0x02, 0x03] }
+];
+
+const hex = (n: number, width = 2) => n.toString(16).toUpperCase().padStart(width, '0');
+
+interface Variant {
+	name: string;
+	header: string | null;
+	delimiter: string;
+	row: (f: Frame) => string[];
+}
+
+const bytesSpaced = (f: Frame) => f.data.map((b) => hex(b)).join(' ');
+const EPOCH = 1_767_225_600; // 2026-01-01T00:00:00Z in Unix seconds
+
+// The variants shared/design.md names for the importer.
+const VARIANTS: Variant[] = [
+	{ name: 'canonical', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{
+		name: 'separate byte columns',
+		header: 'time,id,extended,dlc,d0,d1,d2,d3,d4,d5,d6,d7',
+		delimiter: ',',
+		row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', ...f.data.map((b) => hex(b))]
+	},
+	{ name: 'millisecond times', header: 'time_ms,id,extended,dlc,data', delimiter: ',', row: (f) => [(f.time * 1e3).toFixed(3), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{ name: 'microsecond times', header: 'timestamp_us,id,extended,dlc,data', delimiter: ',', row: (f) => [String(Math.round(f.time * 1e6)), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{ name: 'epoch times', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [(EPOCH + f.time).toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{ name: '0x prefixes, unspaced data', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), `0x${hex(f.id, 3)}`, f.extended ? '1' : '0', '8', f.data.map((b) => hex(b)).join('')] },
+	{ name: 'missing extended flag', header: 'time,id,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), hex(f.id, 3), '8', bytesSpaced(f)] },
+	{ name: 'semicolon delimiter', header: 'time;id;extended;dlc;data', delimiter: ';', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{ name: 'tab delimiter, no header', header: null, delimiter: '\t', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] }
+];
+
+const render = (v: Variant) => [...(v.header ? [v.header] : []), ...FRAMES.map((f) => v.row(f).join(v.delimiter))].join('\n') + '\n';
+
+// ------------------------------------------------------------------ tests
+
+describe('capture upload and processing', () => {
+	it.each(VARIANTS)('reads the $name variant back to the same frames', async (variant) => {
+		const w = await buildWorld();
+		const result = await uploadAndProcess(w, `${variant.name}.csv`, render(variant));
+		expect(result.capture.status).toBe('ready');
+		expect(result.capture.progress).toBe(1);
+		expect(result.capture.frameCount).toBe(FRAMES.length);
+		expect(result.capture.durationS).toBeCloseTo(0.0205, 6);
+		expect(result.report?.badRowCount).toBe(0);
+		expect(result.layout).toEqual(result.detected.layout);
+		const row = (await findCaptureRow(w.services.db, w.workspaceId, result.capture.id))!;
+		const store = await loadFrameStore(w.services, row);
+		expect(store.count).toBe(FRAMES.length);
+		// Epoch seconds near 1.8e9 carry about 0.24 µs of resolution in a float64 (IEEE 754: ulp = 2^-22).
+		const digits = variant.name === 'epoch times' ? 6 : 9;
+		FRAMES.forEach((f, i) => {
+			expect(store.time[i]).toBeCloseTo(f.time, digits);
+			expect(store.id[i]).toBe(f.id);
+			expect(store.isExtended(i)).toBe(f.extended);
+			expect([...store.payload(i)]).toEqual(f.data);
+		});
+		if (variant.name === 'epoch times') expect(store.origin).toEqual({ timeOrigin: EPOCH, epoch: true });
+	});
+
+	it('answers 201 with the detected layout, notes and preview rows, status uploaded', async () => {
+		const w = await buildWorld();
+		const { capture, detected } = await uploaded(w, 'session.csv', render(VARIANTS[0]));
+		expect(capture).toMatchObject({ name: 'session.csv', fileName: 'session.csv', status: 'uploaded', progress: 0, frameCount: null, uploadedBy: { email: 'viewer@example.test' }, lastDecode: null });
+		expect(capture.sizeBytes).toBe(new TextEncoder().encode(render(VARIANTS[0])).byteLength);
+		expect(detected.layout).toEqual(CANONICAL_LAYOUT);
+		expect(detected.notes.length).toBeGreaterThan(0);
+		expect(detected.sampleRows[0]).toEqual(['time', 'id', 'extended', 'dlc', 'data']);
+		expect(detected.sampleRows).toHaveLength(1 + FRAMES.length);
+		const status = await (statusRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]/status', 'viewer', { params: { id: capture.id } }));
+		expect(await status.json()).toEqual({ status: 'uploaded', progress: 0, error: null });
+	});
+
+	it('lists a truncated last row as bad by its line and keeps the others', async () => {
+		const w = await buildWorld();
+		const text = render(VARIANTS[0]).trimEnd();
+		const cut = text.slice(0, text.length - 7); // the last row ends mid-way through its data
+		const result = await uploadAndProcess(w, 'cut.csv', cut);
+		expect(result.capture.status).toBe('ready');
+		expect(result.capture.frameCount).toBe(FRAMES.length - 1);
+		expect(result.report?.badRowCount).toBe(1);
+		expect(result.report?.badRows[0].line).toBe(4); // header is line 1
+	});
+
+	it('lists rows with bad hex by line number; good rows survive', async () => {
+		const w = await buildWorld();
+		const lines = render(VARIANTS[0]).trimEnd().split('\n');
+		lines.splice(2, 0, '0.005000,1G3,0,8,11 22 33 44 55 66 77 88', '0.006000,124,0,8,11 22 ZZ 44 55 66 77 88');
+		const result = await uploadAndProcess(w, 'bad-hex.csv', lines.join('\n') + '\n');
+		expect(result.capture.frameCount).toBe(FRAMES.length);
+		expect(result.report?.badRows.map((b) => b.line)).toEqual([3, 4]);
+		expect(result.report?.badRows[1].reason).toMatch(/hex/);
+		expect(result.report?.warnings.join(' ')).toMatch(/2 row\(s\) could not be read/);
+	});
+
+	it('processes a header-only file to zero frames with a clear warning, not a crash', async () => {
+		const w = await buildWorld();
+		const result = await uploadAndProcess(w, 'header.csv', 'time,id,extended,dlc,data\n');
+		expect(result.capture.status).toBe('ready');
+		expect(result.capture.frameCount).toBe(0);
+		expect(result.report?.warnings).toContain('The capture has no frames (header only or empty).');
+	});
+
+	it('refuses a binary file with 415 and stores nothing', async () => {
+		const w = await buildWorld();
+		const binary = Uint8Array.from({ length: 20_000 }, (_, i) => (i * 7919) & 0xff);
+		const response = await upload(w, 'viewer', 'logger.bin', binary);
+		expect(response.status).toBe(415);
+		expect((await response.json()).error).toMatch(/binary data.*Nothing was stored/);
+		expect(await storedFiles(w)).toEqual([]);
+		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
+	});
+
+	it('refuses text without capture columns (415) and an empty file (400), storing nothing', async () => {
+		const w = await buildWorld();
+		const prose = await upload(w, 'viewer', 'notes.txt', 'Dear team,\nthe car ran well today.\n');
+		expect(prose.status).toBe(415);
+		expect((await prose.json()).error).toMatch(/not a capture Framewright can read/);
+		const empty = await upload(w, 'viewer', 'empty.csv', '');
+		expect(empty.status).toBe(400);
+		expect((await empty.json()).error).toBe('The file is empty; there is nothing to upload.');
+		expect(await storedFiles(w)).toEqual([]);
+	});
+
+	it('refuses a file over the size limit with 413, up front and while streaming, storing nothing', async () => {
+		const w = await buildWorld({ CAPTURE_MAX_BYTES: '1000' });
+		const big = render(VARIANTS[0]).repeat(20);
+		expect(big.length).toBeGreaterThan(1000);
+		for (const streamed of [false, true]) {
+			const response = await upload(w, 'viewer', 'big.csv', big, { streamed });
+			expect(response.status).toBe(413);
+			expect(await response.json()).toEqual({ error: 'The file is larger than the upload limit of 1000 bytes; nothing was stored.', maxBytes: 1000 });
+		}
+		expect(await storedFiles(w)).toEqual([]);
+		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
+		// At the limit is fine.
+		const small = render(VARIANTS[0]);
+		expect((await upload(w, 'viewer', 'small.csv', small, { streamed: true })).status).toBe(201);
+	});
+
+	it('refuses a missing file name and a bad layout with the field named', async () => {
+		const w = await buildWorld();
+		const event = eventFor(w, '/api/workspaces/[ws]/captures', 'viewer', { method: 'POST', body: 'time,id\n' });
+		const noName = await (listRoute.POST as unknown as Handler)(event);
+		expect(noName.status).toBe(400);
+		expect((await noName.json()).issues[0]).toEqual({ path: 'name', message: 'give the file name as ?name=' });
+		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		const bad = await process(w, capture.id, { ...CANONICAL_LAYOUT, dataColumn: null });
+		expect(bad.status).toBe(400);
+		expect((await bad.json()).issues[0].path).toBe('layout.dataColumn');
+		expect((await detail(w, capture.id)).body.capture.status).toBe('uploaded');
+	});
+
+	it('reports a confirmed layout that reads no row; a processed capture is never parsed again', async () => {
+		const w = await buildWorld();
+		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		// Columns that do not exist in the file: every row is bad, the capture is ready with zero frames
+		// and the report says why — the file is never half-processed.
+		const result = await process(w, capture.id, { ...CANONICAL_LAYOUT, dataColumn: 9 });
+		expect(result.status).toBe(202);
+		const { body } = await detail(w, capture.id);
+		expect(body.capture.frameCount).toBe(0);
+		expect(body.report?.badRowCount).toBe(FRAMES.length);
+		expect(body.report?.warnings[0]).toBe('No row could be read as a frame.');
+		// A processed capture is never parsed again.
+		const again = await process(w, capture.id, CANONICAL_LAYOUT);
+		expect(again.status).toBe(409);
+	});
+
+	it('marks a capture failed with a readable error when its file cannot be read, and allows a retry', async () => {
+		const w = await buildWorld();
+		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		const row = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		const raw = await w.services.storage.getBytes(row.raw_key);
+		await w.services.storage.delete(row.raw_key);
+		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
+		const failed = (await detail(w, capture.id)).body.capture;
+		expect(failed.status).toBe('failed');
+		expect(failed.error).toMatch(/^Processing failed: nothing is stored under ".*raw\.csv"\. The uploaded file is kept; try again/);
+		expect(await storedFiles(w)).toEqual([]); // no half-written frame store
+		async function* again() {
+			yield raw;
+		}
+		await w.services.storage.put(row.raw_key, again());
+		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
+		expect((await detail(w, capture.id)).body.capture).toMatchObject({ status: 'ready', frameCount: FRAMES.length, error: null });
+	});
+
+	it('parses in a worker thread, not the main thread', async () => {
+		expect(isMainThread).toBe(true);
+		async function* source() {
+			yield new TextEncoder().encode(render(VARIANTS[0]));
+		}
+		const outcome = await parseInWorker(source(), CANONICAL_LAYOUT);
+		expect(outcome.threadId).toBeGreaterThan(0);
+		expect(outcome.threadId).not.toBe(mainThreadId);
+		expect(outcome.frameCount).toBe(FRAMES.length);
+	});
+});
+
+describe('capture roles', () => {
+	it('lets viewers upload and list; a non-member gets 404 everywhere', async () => {
+		const w = await buildWorld();
+		const { capture } = await uploaded(w, 'mine.csv', render(VARIANTS[0]), 'viewer');
+		const list = await (listRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures', 'viewer'));
+		expect(((await list.json()) as { captures: CaptureSummary[] }).captures.map((c) => c.id)).toEqual([capture.id]);
+		expect((await upload(w, 'outsider', 'x.csv', render(VARIANTS[0]))).status).toBe(404);
+		expect((await (listRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures', 'outsider'))).status).toBe(404);
+		expect((await detail(w, capture.id, 'outsider')).status).toBe(404);
+		expect((await process(w, capture.id, CANONICAL_LAYOUT, 'outsider')).status).toBe(404);
+	});
+
+	it('deletes: the uploader their own, the owner any, others 403; blobs go too', async () => {
+		const w = await buildWorld();
+		const del = (id: string, actor: Actor) =>
+			(captureRoute.DELETE as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, { method: 'DELETE', params: { id } }));
+		const a = (await uploadAndProcess(w, 'a.csv', render(VARIANTS[0]))).capture; // by the viewer
+		const b = (await uploaded(w, 'b.csv', render(VARIANTS[0]), 'editor')).capture;
+		expect((await storedFiles(w)).length).toBe(3); // a: raw + frame store, b: raw
+
+		const refused = await del(b.id, 'viewer');
+		expect(refused.status).toBe(403);
+		expect((await refused.json()).error).toBe('Only a workspace owner or the person who uploaded this capture can delete it.');
+		expect((await del(a.id, 'editor')).status).toBe(403);
+		expect((await del(a.id, 'outsider')).status).toBe(404);
+
+		expect((await del(a.id, 'viewer')).status).toBe(204);
+		expect((await storedFiles(w)).length).toBe(1);
+		expect((await del(b.id, 'owner')).status).toBe(204);
+		expect(await storedFiles(w)).toEqual([]);
+		expect((await detail(w, a.id)).status).toBe(404);
+	});
+});
+
+describe('capture page loads', () => {
+	it('list and detail loads return the API shapes plus maps with revision numbers', async () => {
+		const w = await buildWorld();
+		const map = await createMap(w.services.db, {
+			workspaceId: w.workspaceId,
+			map: { format: 'framewright-map@1', name: 'Test map', bitrate: 500_000, frames: [] },
+			actorId: w.users.editor.id,
+			source: 'blank'
+		});
+		await publishRevision(w.services.db, { workspaceId: w.workspaceId, mapId: map.id, version: 1, actorId: w.users.editor.id, note: 'first' });
+		const result = await uploadAndProcess(w, 'a.csv', render(VARIANTS[0]));
+		const list = (await listLoad(eventFor(w, '/w/[ws]/captures', 'viewer') as never)) as { captures: CaptureSummary[] };
+		expect(list.captures).toEqual([result.capture]);
+		const page = (await captureLoad(eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: result.capture.id } }) as never)) as CaptureDetail & { maps: unknown };
+		expect(page.capture).toEqual(result.capture);
+		expect(page.report).toEqual(result.report);
+		expect(page.maps).toEqual([{ id: map.id, name: 'Test map', revisions: [1] }]);
+		const missing = await outcome(() => captureLoad(eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: 'nope' } }) as never));
+		expect(missing).toEqual({ kind: 'error', status: 404, message: 'Capture not found.' });
+	});
+});
