@@ -11,6 +11,9 @@ env.DATABASE_PATH ||= 'data/framewright.db';
 // adapter-node assumes https without ORIGIN, which would make SvelteKit refuse local form posts.
 env.ORIGIN ||= `http://localhost:${env.PORT}`;
 env.AUTH_TRUST_HOST ||= 'true';
+// Capture uploads stream far past adapter-node's 512 KB default; the upload route enforces its own
+// limit (CAPTURE_MAX_BYTES) while streaming, so the adapter's is lifted.
+env.BODY_SIZE_LIMIT ||= 'Infinity';
 if (!env.SMTP_HOST) {
 	// No real mail server: demo mode, with the stand-in SMTP server and the /dev/mailbox page.
 	env.FRAMEWRIGHT_DEMO ||= '1';
@@ -29,6 +32,8 @@ if (!env.AUTH_SECRET) {
 
 const buildDir = resolve(env.FW_BUILD_DIR || 'build');
 const entry = join(buildDir, 'index.js');
+// The capture worker thread's bundle, written by `npm run build` (scripts/build-capture-worker.ts).
+env.FW_CAPTURE_WORKER ||= join(buildDir, 'capture-worker.mjs');
 if (!existsSync(entry)) {
 	console.error(`No production build at ${entry}. Run \`npm run build\` first (or \`npm run demo\`).`);
 	process.exit(1);

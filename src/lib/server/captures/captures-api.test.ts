@@ -63,7 +63,7 @@ async function upload(w: World, actor: Actor, name: string, content: string | Ui
 	const event = eventFor(w, '/api/workspaces/[ws]/captures', actor, { method: 'POST', query: `?name=${encodeURIComponent(name)}` });
 	const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
 	const headers = new Headers({ 'content-type': 'text/csv' });
-	let body: BodyInit = bytes;
+	let body: BodyInit = bytes as Uint8Array<ArrayBuffer>;
 	if (options.streamed) {
 		// No Content-Length: the limit must be enforced while streaming. Sent in 700-byte pieces.
 		body = new ReadableStream<Uint8Array>({
@@ -365,7 +365,7 @@ describe('capture page loads', () => {
 		const w = await buildWorld();
 		const map = await createMap(w.services.db, {
 			workspaceId: w.workspaceId,
-			map: { format: 'framewright-map@1', name: 'Test map', bitrate: 500_000, frames: [] },
+			map: { format: 'framewright-map@1', name: 'Test map', bitrate: 500_000, frames: [], alertRules: [] },
 			actorId: w.users.editor.id,
 			source: 'blank'
 		});

@@ -38,7 +38,7 @@ export function captureWorkerPath(): Promise<string> {
 	const configured = process.env.FW_CAPTURE_WORKER;
 	if (configured) {
 		if (!existsSync(configured)) return Promise.reject(new Error(`FW_CAPTURE_WORKER points at ${configured}, which does not exist; run \`npm run build\`.`));
-		return Promise.resolve(configured);
+		return Promise.resolve(resolve(configured)); // a Worker needs an absolute path
 	}
 	if (existsSync(join(sourceFolder(), SOURCE_NAME))) {
 		onDemand ??= (async () => {
