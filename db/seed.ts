@@ -1,3 +1,5 @@
+import { readFile } from 'node:fs/promises';
+import { resolve } from 'node:path';
 import type { Kysely } from 'kysely';
 import type { Database } from '../src/lib/server/db/schema';
 import type { Role } from '../src/lib/server/roles';
@@ -7,6 +9,7 @@ import { publishRevision } from '../src/lib/server/db/revisions';
 import { parseMap } from '../src/lib/can/map-json';
 import type { CanMap } from '../src/lib/can/map';
 import type { BlobStorage } from '../src/lib/server/storage/storage';
+import { importCaptureInProcess } from '../src/lib/server/captures/processing';
 import clubRacerMapJson from '../fixtures/club-racer-ecu.map.json';
 import gensetMapJson from '../fixtures/genset-j1939.map.json';
 
@@ -38,6 +41,7 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
 	const { created, workspaceId, calibratorId } = await seedPeople(db);
 	// The map repositories open their own transactions, so maps are added after the people.
 	created.push(...(await seedDemoMaps(db, workspaceId, calibratorId)));
+	if (options.storage) created.push(...(await seedDemoCaptures(db, options.storage, workspaceId)));
 	return { created };
 }
 
@@ -74,6 +78,21 @@ async function seedDemoMaps(db: Kysely<Database>, workspaceId: string, actorId: 
 	await publishRevision(db, { workspaceId, mapId: gen.id, version: 1, actorId, note: 'Generator set engine broadcast as installed on the demo unit.' });
 	const found = await findMapForWorkspace(db, workspaceId, club.id);
 	return [`map ${found?.name ?? club.name} (r1 + draft)`, `map ${gen.name} (r1)`];
+}
+
+/** The two demo captures, uploaded by the tuner and processed, only while the workspace has none. */
+async function seedDemoCaptures(db: Kysely<Database>, storage: BlobStorage, workspaceId: string): Promise<string[]> {
+	const existing = await db.selectFrom('captures').select('id').where('workspace_id', '=', workspaceId).executeTakeFirst();
+	if (existing) return [];
+	const tuner = await db.selectFrom('User').select('id').where('email', '=', 'tuner@framewright.test').executeTakeFirst();
+	const created: string[] = [];
+	for (const fileName of ['club-racer-session.csv', 'genset-idle.csv']) {
+		// Read from the project folder, where the server, the CLI and the tests all run.
+		const text = await readFile(resolve('fixtures', fileName), 'utf8');
+		await importCaptureInProcess({ db, storage }, { workspaceId, actorId: tuner?.id ?? null, fileName, text });
+		created.push(`capture ${fileName} (processed)`);
+	}
+	return created;
 }
 
 async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; workspaceId: string; calibratorId: string }> {

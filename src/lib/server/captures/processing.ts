@@ -13,9 +13,10 @@ import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { byteChunks } from '../storage/storage';
-import { requireCaptureRow, requireCaptureSummary, updateCapture, type CaptureSummary } from './captures-db';
+import { insertCapture, requireCaptureRow, requireCaptureSummary, updateCapture, type CaptureSummary } from './captures-db';
 import type { CaptureReport } from './schemas';
 import { captureKeys, forgetFrameStore } from './store';
+import { DETECTION_BYTES, detectFromHead } from './upload';
 import { captureWorkerPath } from './worker-bundle';
 import type { FromWorker, ToWorker } from './worker-protocol';
 
@@ -129,6 +130,61 @@ export async function startProcessing(
 	return requireCaptureSummary(services.db, input.workspaceId, row.id);
 }
 
+/** Stores the frame store, then marks the row ready with its report (the row never points at a missing store). */
+async function saveOutcome(services: ProcessingServices, captureId: string, storeKey: string, outcome: Omit<ParseOutcome, 'threadId'>): Promise<void> {
+	await services.storage.put(storeKey, single(outcome.store));
+	forgetFrameStore(storeKey);
+	await updateCapture(services.db, captureId, {
+		status: 'ready',
+		progress: 1,
+		report_json: JSON.stringify(outcome.report),
+		frame_count: outcome.frameCount,
+		duration_s: outcome.durationS,
+		store_key: storeKey,
+		error: null,
+		processed_at: new Date().toISOString()
+	});
+}
+
+/**
+ * Uploads and processes a capture in this thread, with its detected layout: for the demo seed,
+ * where a few thousand frames are not worth a worker and no request is waiting.
+ */
+export async function importCaptureInProcess(
+	services: ProcessingServices,
+	input: { workspaceId: string; actorId: string | null; fileName: string; text: string }
+): Promise<string> {
+	const bytes = new TextEncoder().encode(input.text);
+	const id = crypto.randomUUID();
+	const keys = captureKeys(input.workspaceId, id);
+	const detected = detectFromHead(bytes.subarray(0, DETECTION_BYTES), bytes.byteLength <= DETECTION_BYTES);
+	await services.storage.put(keys.raw, single(bytes));
+	await insertCapture(services.db, {
+		id,
+		workspace_id: input.workspaceId,
+		name: input.fileName,
+		file_name: input.fileName,
+		size_bytes: bytes.byteLength,
+		uploaded_by: input.actorId,
+		uploaded_at: new Date().toISOString(),
+		status: 'processing',
+		detected_json: JSON.stringify(detected),
+		layout_json: JSON.stringify(detected.layout),
+		report_json: null,
+		frame_count: null,
+		duration_s: null,
+		raw_key: keys.raw,
+		store_key: null,
+		error: null,
+		processed_at: null
+	});
+	const { store, ...report } = await ingestCapture(input.text, { layout: detected.layout });
+	let durationS = 0;
+	for (const t of store.time) if (t > durationS) durationS = t;
+	await saveOutcome(services, id, keys.store, { report: reportOf(report), frameCount: report.frameCount, durationS, store: store.toBytes() });
+	return id;
+}
+
 /** Parses in the worker and stores the result; any failure is written to the row, never thrown. */
 async function runProcessing(services: ProcessingServices, row: CaptureRow, layout: CaptureLayout): Promise<void> {
 	const storeKey = captureKeys(row.workspace_id, row.id).store;
@@ -145,19 +201,8 @@ async function runProcessing(services: ProcessingServices, row: CaptureRow, layo
 	try {
 		const source = byteChunks(await services.storage.get(row.raw_key));
 		const outcome = await parseInWorker(source, layout, onProgress);
-		await services.storage.put(storeKey, single(outcome.store));
 		await writing;
-		forgetFrameStore(storeKey);
-		await updateCapture(services.db, row.id, {
-			status: 'ready',
-			progress: 1,
-			report_json: JSON.stringify(outcome.report),
-			frame_count: outcome.frameCount,
-			duration_s: outcome.durationS,
-			store_key: storeKey,
-			error: null,
-			processed_at: new Date().toISOString()
-		});
+		await saveOutcome(services, row.id, storeKey, outcome);
 	} catch (error) {
 		await writing;
 		await services.storage.delete(storeKey).catch(() => {});
