@@ -1,0 +1,161 @@
+import { readFileSync } from 'node:fs';
+import { expect, test, type Locator } from '@playwright/test';
+import { signIn } from './helpers';
+
+const slug = 'quillmoor-club-racing';
+const capturePath = 'fixtures/club-racer-session.csv';
+
+// ---- The reference: the fixture read by hand, independently of the app's importer and decoder. ----
+
+interface FixtureSignal {
+	name: string;
+	startBit: number;
+	length: number;
+	byteOrder: 'little' | 'big';
+	valueType?: string;
+	scale: number;
+	offset: number;
+	multiplexer?: boolean;
+	muxValue?: number | null;
+}
+interface FixtureFrame {
+	name: string;
+	id: string;
+	signals: FixtureSignal[];
+}
+const map = JSON.parse(readFileSync('fixtures/club-racer-ecu.map.json', 'utf8')) as { name: string; frames: FixtureFrame[] };
+
+/** Rows of the canonical capture CSV (design.md: time,id,extended,dlc,data) as (id, payload bytes). */
+const rows = readFileSync(capturePath, 'utf8')
+	.trim()
+	.split('\n')
+	.slice(1)
+	.map((line) => {
+		const [, id, , , data] = line.split(',');
+		const bytes = Uint8Array.from(data.trim().split(/\s+/), (h) => Number.parseInt(h, 16));
+		return { id: Number.parseInt(id, 16), view: new DataView(bytes.buffer) };
+	});
+
+/**
+ * A byte-aligned unsigned signal read with DataView (the reference implementation of byte order):
+ * little-endian starts at byte startBit/8; a big-endian field's startBit is its least significant
+ * bit, in its last byte (design.md bit numbering), so it starts length/8 − 1 bytes earlier.
+ */
+function readByteAligned(view: DataView, s: FixtureSignal): number {
+	if (s.startBit % 8 !== 0 || ![8, 16].includes(s.length) || (s.valueType ?? 'unsigned') !== 'unsigned') {
+		throw new Error(`${s.name} is not a byte-aligned unsigned 8/16-bit signal; the reference reads only those`);
+	}
+	const bytes = s.length / 8;
+	const first = s.byteOrder === 'little' ? s.startBit / 8 : s.startBit / 8 - (bytes - 1);
+	const raw = bytes === 1 ? view.getUint8(first) : view.getUint16(first, s.byteOrder === 'little');
+	return raw * s.scale + s.offset;
+}
+
+function frameOf(name: string): FixtureFrame {
+	const frame = map.frames.find((f) => f.name === name);
+	if (!frame) throw new Error(`no frame ${name} in the fixture map`);
+	return frame;
+}
+
+function referenceRange(frameName: string, signalName: string) {
+	const frame = frameOf(frameName);
+	const signal = frame.signals.find((s) => s.name === signalName)!;
+	const values = rows.filter((r) => r.id === Number(frame.id)).map((r) => readByteAligned(r.view, signal));
+	return { min: Math.min(...values), max: Math.max(...values), count: values.length };
+}
+
+/** Decoded samples in the whole capture: each mapped frame gives its plain signals, plus those of its multiplexer page. */
+function referenceSampleCount(): number {
+	let total = 0;
+	for (const row of rows) {
+		const frame = map.frames.find((f) => Number(f.id) === row.id);
+		if (!frame) continue;
+		const mux = frame.signals.find((s) => s.multiplexer);
+		const page = mux ? readByteAligned(row.view, mux) : null;
+		total += frame.signals.filter((s) => s.muxValue === null || s.muxValue === undefined || s.muxValue === page).length;
+	}
+	return total;
+}
+
+/** Min and max cells of a channel row in the Channels tables. */
+async function shownRange(row: Locator) {
+	const cells = row.getByRole('cell');
+	// Columns after the signal name: unit, count, min, max, mean, last, map range, out of range.
+	return {
+		count: Number(await cells.nth(1).innerText()),
+		min: Number(await cells.nth(2).innerText()),
+		max: Number(await cells.nth(3).innerText())
+	};
+}
+
+test('a viewer takes the demo capture from upload to checked, plotted and exported channels', async ({ page }) => {
+	test.setTimeout(120_000);
+	await signIn(page, 'tuner@framewright.test');
+	await page.goto(`/w/${slug}/captures`);
+	await expect(page.getByRole('heading', { level: 1, name: 'Captures' })).toBeVisible();
+
+	// Upload one file: the page moves on to its layout confirmation.
+	await page.getByLabel('Choose capture files').setInputFiles(capturePath);
+	await expect(page.getByRole('heading', { name: 'Confirm the layout' })).toBeVisible({ timeout: 30_000 });
+	// The canonical layout is recognised: each column's role is shown above the first rows.
+	const preview = page.getByRole('table', { name: /First \d+ rows of the file/ });
+	for (const role of ['time (s)', 'ID (hex)', 'extended flag', 'data (hex bytes)']) {
+		await expect(preview.getByRole('columnheader', { name: role })).toBeVisible();
+	}
+	await expect(preview.getByText('0x5F0 · 8 B · 15 14 03 E8 03 E8 03 6F').first()).toBeVisible();
+	await page.getByRole('button', { name: 'Process capture' }).click();
+
+	// Processing reads every data line of the fixture into a frame.
+	await expect(page.getByRole('heading', { name: 'Import report' })).toBeVisible({ timeout: 60_000 });
+	await expect(page.getByText(`${rows.length} frames read from`)).toBeVisible();
+	await expect(page.getByText('no bad rows.')).toBeVisible();
+
+	// Decode with the demo map's latest revision (the one marked latest in the list).
+	const decodePanel = page.getByRole('region', { name: 'Decode', exact: true });
+	await decodePanel.getByLabel('Map').selectOption({ label: map.name });
+	const revision = decodePanel.getByLabel('Revision');
+	const latest = (await revision.locator('option', { hasText: '(latest)' }).innerText()).split(' ')[0];
+	expect(latest).toMatch(/^r\d+$/);
+	await revision.selectOption({ label: `${latest} (latest)` });
+	await decodePanel.getByRole('button', { name: 'Decode' }).click();
+	await expect(page.getByText(`Showing the decode with ${map.name} ${latest}`)).toBeVisible({ timeout: 30_000 });
+	await expect(decodePanel.getByRole('row', { name: new RegExp(`${map.name}.*${latest}`) })).toBeVisible();
+
+	// Channel statistics equal the reference computed from the fixture bytes with DataView.
+	for (const [frameName, signalName] of [
+		['EngineCore', 'EngineSpeed'],
+		['EngineTemperatures', 'CoolantTemp'],
+		['Pressures', 'OilPressure']
+	] as const) {
+		const expected = referenceRange(frameName, signalName);
+		const table = page.getByRole('table', { name: new RegExp(`^${frameName} `) });
+		const shown = await shownRange(table.getByRole('row', { name: new RegExp(`^${signalName}\\b`) }));
+		expect(shown.count).toBe(expected.count);
+		// Six significant digits are shown; scale 0.1 values compare to that precision.
+		expect(shown.min).toBeCloseTo(expected.min, 6);
+		expect(shown.max).toBeCloseTo(expected.max, 6);
+	}
+
+	// Plot two channels on one time axis.
+	const picker = page.getByLabel('Add a channel');
+	await picker.selectOption({ label: 'EngineSpeed (rpm)' });
+	await picker.selectOption({ label: 'OilPressure (kPa)' });
+	await expect(page.getByRole('list', { name: 'Plotted channels' }).getByRole('listitem')).toHaveCount(2);
+	await expect(page.locator('canvas').first()).toBeVisible({ timeout: 20_000 });
+	expect(await page.locator('canvas').count()).toBeGreaterThanOrEqual(2);
+
+	// An ID the map does not define: its frame count matches the fixture, and its bit activity opens.
+	const unknownId = 0x5f8;
+	expect(map.frames.some((f) => Number(f.id) === unknownId)).toBe(false);
+	const unknownRow = page.getByRole('region', { name: 'Unknown IDs' }).getByRole('row', { name: /^0x5F8\b/ });
+	await expect(unknownRow.getByRole('cell').first()).toHaveText(rows.filter((r) => r.id === unknownId).length.toLocaleString('en'));
+	await page.getByRole('button', { name: 'Bit activity of 0x5F8' }).click();
+	await expect(page.getByRole('table', { name: /^Bit activity of 0x5F8/ })).toBeVisible();
+
+	// Download the decoded channels (long form): its header, and one row per decoded sample.
+	const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Decoded channels, long form (CSV)' }).click()]);
+	expect(download.suggestedFilename()).toContain(latest);
+	const csv = readFileSync((await download.path())!, 'utf8').trimEnd().split(/\r?\n/);
+	expect(csv[0]).toBe('time,frame,signal,value,unit');
+	expect(csv.length - 1).toBe(referenceSampleCount());
+});
