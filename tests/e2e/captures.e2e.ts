@@ -159,3 +159,26 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 	expect(csv[0]).toBe('time,frame,signal,value,unit');
 	expect(csv.length - 1).toBe(referenceSampleCount());
 });
+
+test('several files at once: each gets its own progress, refusals say why, good files wait for layout confirmation', async ({ page }) => {
+	await signIn(page, 'tuner@framewright.test');
+	await page.goto(`/w/${slug}/captures`);
+	// Bytes no capture CSV contains (the PNG signature, then NUL bytes), and an empty file.
+	const binary = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 0x0d, 0x49, 0x48, 0x44, 0x52]);
+	await page.getByLabel('Choose capture files').setInputFiles([
+		{ name: 'photo.png', mimeType: 'image/png', buffer: binary },
+		{ name: 'empty.csv', mimeType: 'text/csv', buffer: Buffer.alloc(0) },
+		{ name: 'genset-idle.csv', mimeType: 'text/csv', buffer: readFileSync('fixtures/genset-idle.csv') }
+	]);
+	const uploads = page.getByRole('list', { name: 'Uploads' });
+	await expect(uploads.getByRole('link', { name: 'Confirm the layout of genset-idle.csv' })).toBeVisible({ timeout: 30_000 });
+	// Several files stay on the list page; each refusal names its file.
+	await expect(page).toHaveURL(new RegExp(`/w/${slug}/captures$`));
+	await expect(uploads.getByRole('alert').filter({ hasText: 'photo.png' })).toContainText(/not a capture/i);
+	await expect(uploads.getByRole('alert').filter({ hasText: 'empty.csv' })).toContainText(/empty/i);
+	await expect(uploads.getByRole('listitem')).toHaveCount(3);
+
+	// The accepted file is listed, waiting for its layout to be confirmed.
+	const listed = page.getByRole('table', { name: /Captures in this workspace/ }).getByRole('row', { name: /genset-idle/ }).first();
+	await expect(listed).toContainText('Layout to confirm');
+});
