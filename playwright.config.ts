@@ -11,6 +11,8 @@ const baseURL = `http://localhost:${PORT}`;
 // A database file that cannot exist yet: every run starts from an empty, freshly migrated database.
 // (Workers re-evaluate this file, but only the main process starts the web server.)
 const databasePath = join(tmpdir(), `framewright-e2e-${process.pid}-${Date.now()}.db`);
+// Likewise an empty capture store beside it, never the developer's data/storage.
+const storageRoot = `${databasePath}.storage`;
 
 export default defineConfig({
 	testDir: 'tests/e2e',
@@ -52,6 +54,7 @@ export default defineConfig({
 			PORT: String(PORT),
 			ORIGIN: baseURL,
 			DATABASE_PATH: databasePath,
+			STORAGE_ROOT: storageRoot,
 			FRAMEWRIGHT_DEMO: '1',
 			SMTP_HOST: '',
 			STANDIN_SMTP_PORT: String(STANDIN_SMTP_PORT),
