@@ -4,6 +4,7 @@ import { getDatabase, type DB } from './db';
 import { createSendMail, type SendMail } from './mail/send';
 import { startStandInSmtp, type StandInSmtp } from './mail/standin-smtp';
 import { storageFromEnv, type BlobStorage } from './storage';
+import { failInterruptedProcessing } from './captures/processing';
 import { countUsers, seedDemo } from '../../../db/seed';
 
 /** Process-wide dependencies handed to requests through `event.locals.services`. */
@@ -31,6 +32,7 @@ async function createServices(): Promise<Services> {
 	const db = await getDatabase();
 	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
 	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
+	await failInterruptedProcessing(db);
 	let sendMail: SendMail;
 	if (config.smtp) {
 		sendMail = createSendMail(config.smtp, config.mailFrom);

@@ -21,7 +21,7 @@ import type { SessionUser } from '../guard';
 import type { Role } from '../roles';
 import { createTestServices, createUser, makeEvent, outcome, type TestServices } from '../test-support';
 import { findCaptureRow, type CaptureDetail, type CaptureSummary } from './captures-db';
-import { parseInWorker, processingDone } from './processing';
+import { failInterruptedProcessing, INTERRUPTED_MESSAGE, parseInWorker, processingDone } from './processing';
 import type { DetectedLayout } from './schemas';
 import { loadFrameStore } from './store';
 
@@ -312,6 +312,16 @@ describe('capture upload and processing', () => {
 		await w.services.storage.put(row.raw_key, again());
 		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
 		expect((await detail(w, capture.id)).body.capture).toMatchObject({ status: 'ready', frameCount: FRAMES.length, error: null });
+	});
+
+	it('marks a capture cut off by a server restart as failed, so it can be processed again', async () => {
+		const w = await buildWorld();
+		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		await w.services.db.updateTable('captures').set({ status: 'processing', progress: 0.4 }).where('id', '=', capture.id).execute();
+		expect(await failInterruptedProcessing(w.services.db)).toBe(1);
+		expect((await detail(w, capture.id)).body.capture).toMatchObject({ status: 'failed', progress: 0, error: INTERRUPTED_MESSAGE });
+		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
+		expect((await detail(w, capture.id)).body.capture.status).toBe('ready');
 	});
 
 	it('parses in a worker thread, not the main thread', async () => {

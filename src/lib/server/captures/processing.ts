@@ -106,6 +106,21 @@ export function processingDone(captureId: string): Promise<void> {
 	return running.get(captureId) ?? Promise.resolve();
 }
 
+export const INTERRUPTED_MESSAGE = 'Processing was interrupted when the server stopped; process the capture again.';
+
+/**
+ * At server start no worker of this process can be running, so a capture still marked
+ * 'processing' was cut off by a restart: it is marked failed (and can be processed again).
+ */
+export async function failInterruptedProcessing(db: ProcessingServices['db']): Promise<number> {
+	const result = await db
+		.updateTable('captures')
+		.set({ status: 'failed', progress: 0, error: INTERRUPTED_MESSAGE, store_key: null })
+		.where('status', '=', 'processing')
+		.executeTakeFirst();
+	return Number(result.numUpdatedRows);
+}
+
 /** Marks the capture 'processing' with the confirmed layout and starts the worker; returns at once. */
 export async function startProcessing(
 	services: ProcessingServices,
