@@ -17,6 +17,7 @@ interface FixtureSignal {
 	offset: number;
 	multiplexer?: boolean;
 	muxValue?: number | null;
+	max?: number | null;
 }
 interface FixtureFrame {
 	name: string;
@@ -158,6 +159,20 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 	const csv = readFileSync((await download.path())!, 'utf8').trimEnd().split(/\r?\n/);
 	expect(csv[0]).toBe('time,frame,signal,value,unit');
 	expect(csv.length - 1).toBe(referenceSampleCount());
+
+	// Switch revision and compare: the seeded draft raises CoolantTemp's max above r1's (the fixture's 105 °C),
+	// and changes nothing about EngineSpeed.
+	expect(frameOf('EngineTemperatures').signals.find((s) => s.name === 'CoolantTemp')).toMatchObject({ max: 105 });
+	await revision.selectOption('1');
+	await decodePanel.getByRole('button', { name: 'Decode' }).click();
+	await expect(page.getByText(`Showing the decode with ${map.name} r1`)).toBeVisible();
+	await revision.selectOption('draft');
+	await decodePanel.getByRole('button', { name: 'Decode' }).click();
+	await expect(page.getByText(`Showing the decode with ${map.name} draft`)).toBeVisible();
+	await decodePanel.getByRole('button', { name: `Compare with ${map.name} r1` }).first().click();
+	const comparison = page.getByRole('table', { name: 'Channel statistics of two decodes side by side' });
+	await expect(comparison.getByRole('row', { name: /^EngineTemperatures\.CoolantTemp\b/ })).toContainText('≠ differs');
+	await expect(comparison.getByRole('row', { name: /^EngineCore\.EngineSpeed\b/ })).toContainText('same');
 });
 
 test('several files at once: each gets its own progress, refusals say why, good files wait for layout confirmation', async ({ page }) => {
