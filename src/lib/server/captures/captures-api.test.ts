@@ -334,6 +334,20 @@ describe('capture upload and processing', () => {
 		expect(outcome.threadId).not.toBe(mainThreadId);
 		expect(outcome.frameCount).toBe(FRAMES.length);
 	});
+
+	it('reports progress as the worker takes each chunk, ending at the full size', async () => {
+		const text = render(VARIANTS[0]);
+		const bytes = new TextEncoder().encode(text + Array.from({ length: 2000 }, (_, i) => `${(0.03 + i / 1000).toFixed(6)},321,0,2,AB CD`).join('\n') + '\n');
+		async function* source() {
+			for (let at = 0; at < bytes.length; at += 1000) yield bytes.subarray(at, at + 1000);
+		}
+		const seen: number[] = [];
+		const outcome = await parseInWorker(source(), CANONICAL_LAYOUT, (n) => seen.push(n));
+		expect(outcome.frameCount).toBe(FRAMES.length + 2000);
+		expect(seen.length).toBe(Math.ceil(bytes.length / 1000));
+		expect(seen.every((n, i) => i === 0 || n > seen[i - 1])).toBe(true);
+		expect(seen.at(-1)).toBe(bytes.length);
+	});
 });
 
 describe('capture roles', () => {
