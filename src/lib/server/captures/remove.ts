@@ -4,6 +4,7 @@ import { Problem } from '../problem';
 import type { Role } from '../roles';
 import type { Services } from '../services';
 import { deleteCaptureRow, requireCaptureRow } from './captures-db';
+import { forgetCaptureDecodes } from './decoding';
 import { processingDone } from './processing';
 import { captureKeys, forgetFrameStore } from './store';
 
@@ -24,5 +25,6 @@ export async function deleteCapture(
 	});
 	const keys = captureKeys(row.workspace_id, row.id);
 	forgetFrameStore(row.store_key);
+	forgetCaptureDecodes(services, row.id);
 	for (const key of new Set([row.raw_key, keys.store, ...(row.store_key ? [row.store_key] : [])])) await services.storage.delete(key);
 }
