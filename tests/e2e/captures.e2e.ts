@@ -197,3 +197,29 @@ test('several files at once: each gets its own progress, refusals say why, good 
 	const listed = page.getByRole('table', { name: /Captures in this workspace/ }).getByRole('row', { name: /genset-idle/ }).first();
 	await expect(listed).toContainText('Layout to confirm');
 });
+
+test('a variant layout is shown column by column and can be corrected before processing', async ({ page }) => {
+	await signIn(page, 'tuner@framewright.test');
+	await page.goto(`/w/${slug}/captures`);
+	// Semicolons, millisecond times, no extended or DLC column, one column per payload byte (design.md's variants).
+	const variant = ['Timestamp_ms;CAN_ID;D0;D1;D2', '1000;100;11;22;33', '1010;100;11;22;34', '1020;7E8;AA;BB;CC', ''].join('\n');
+	await page.getByLabel('Choose capture files').setInputFiles({ name: 'variant.csv', mimeType: 'text/csv', buffer: Buffer.from(variant) });
+	await expect(page.getByRole('heading', { name: 'Confirm the layout' })).toBeVisible({ timeout: 30_000 });
+
+	const preview = page.getByRole('table', { name: /First \d+ rows of the file/ });
+	for (const role of ['time (ms)', 'ID (hex)', 'byte 0', 'byte 1', 'byte 2']) {
+		await expect(preview.getByRole('columnheader', { name: role })).toBeVisible();
+	}
+	const line3 = preview.getByRole('row', { name: /^3 / });
+	await expect(line3).toContainText('0.010000 s · 0x100 · 3 B · 11 22 34');
+
+	// A wrong unit shows at once in the preview (10 ms apart becomes 10 s apart); putting it right restores it.
+	await page.getByLabel('Time unit').selectOption('s');
+	await expect(line3).toContainText('10.000000 s');
+	await page.getByLabel('Time unit').selectOption('ms');
+	await expect(line3).toContainText('0.010000 s');
+
+	await page.getByRole('button', { name: 'Process capture' }).click();
+	await expect(page.getByRole('heading', { name: 'Import report' })).toBeVisible({ timeout: 30_000 });
+	await expect(page.getByText('3 frames read from')).toBeVisible();
+});
