@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { crc15, crc15Bytes } from './crc15';
+import { crc15, crc15Bytes, crc15Step, crc15UpdateByte } from './crc15';
 
 const ascii = (s: string) => Uint8Array.from(s, (c) => c.charCodeAt(0));
 const bitsOf = (bytes: Uint8Array) =>
@@ -35,5 +35,19 @@ describe('crc15 (ISO 11898-1 CRC-15, polynomial 0x4599)', () => {
 		const crc = crc15(bits);
 		const withCrc = [...bits, ...Array.from({ length: 15 }, (_, i) => (crc >> (14 - i)) & 1)];
 		expect(crc15(withCrc)).toBe(0);
+	});
+
+	it('the byte-wise table step equals eight bit steps, for every byte and many registers', () => {
+		// The ISO 11898-1 shift register (crc15Step) is the reference for the table-driven path.
+		let seed = 777;
+		const rand = () => (seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) >>> 17; // 15 bits
+		for (let t = 0; t < 64; t++) {
+			const register = t === 0 ? 0 : t === 1 ? 0x7fff : rand();
+			for (let byte = 0; byte < 256; byte++) {
+				let bitwise = register;
+				for (let b = 7; b >= 0; b--) bitwise = crc15Step(bitwise, (byte >> b) & 1);
+				expect(crc15UpdateByte(register, byte)).toBe(bitwise);
+			}
+		}
 	});
 });

@@ -21,11 +21,24 @@ export function crc15(bits: ArrayLike<number>): number {
 	return crc;
 }
 
+/**
+ * The register after shifting in the 8 bits of `b` (MSB first) starting from `b << 7`, i.e. the
+ * usual byte-wise table of an unreflected CRC, built from crc15Step itself so both paths agree.
+ */
+const CRC15_TABLE = Uint16Array.from({ length: 256 }, (_, b) => {
+	let crc = b << 7;
+	for (let k = 0; k < 8; k++) crc = crc15Step(crc, 0);
+	return crc;
+});
+
+/** Eight crc15Step calls in one: shifts `byte` into the register, most significant bit first. */
+export function crc15UpdateByte(crc: number, byte: number): number {
+	return ((crc << 8) & 0x7fff) ^ CRC15_TABLE[((crc >> 7) ^ byte) & 0xff];
+}
+
 /** CRC-15 over whole bytes, most significant bit of each byte first. */
 export function crc15Bytes(bytes: ArrayLike<number>): number {
 	let crc = 0;
-	for (let i = 0; i < bytes.length; i++) {
-		for (let b = 7; b >= 0; b--) crc = crc15Step(crc, (bytes[i] >> b) & 1);
-	}
+	for (let i = 0; i < bytes.length; i++) crc = crc15UpdateByte(crc, bytes[i]);
 	return crc;
 }
