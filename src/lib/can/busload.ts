@@ -7,6 +7,7 @@ import type { CanMap } from './map';
 import {
 	CLASSICAL_MAX_LENGTH,
 	frameBits,
+	frameStuffBitsAt,
 	interFrameBits,
 	nominalFrameBits,
 	worstCaseFrameBits
@@ -91,6 +92,20 @@ export function mapBusLoad(map: CanMap, bitrate: number = map.bitrate): MapBusLo
 export function frameBusBits(id: number, extended: boolean, data: Uint8Array): number {
 	const { bits, stuffBits } = frameBits(id, extended, data);
 	return bits + stuffBits + interFrameBits;
+}
+
+/**
+ * frameBusBits of the frame whose payload is `bytes[offset … offset + length)`, e.g. a capture's
+ * payload pool: the same count without a payload view per frame.
+ */
+export function frameBusBitsAt(
+	id: number,
+	extended: boolean,
+	bytes: Uint8Array,
+	offset: number,
+	length: number
+): number {
+	return nominalFrameBits(length, extended) + frameStuffBitsAt(id, extended, bytes, offset, length) + interFrameBits;
 }
 
 /** Most windows captureBusLoad will produce, so a typo in the window size cannot exhaust memory. */

@@ -4,11 +4,13 @@ import {
 	countStuffBits,
 	frameBits,
 	frameBitSequence,
+	frameStuffBitsAt,
 	interFrameBits,
 	maxStuffBits,
 	nominalFrameBits,
 	worstCaseFrameBits
 } from './frame-bits';
+import { referenceFrameBits } from './testing/reference-frame-bits';
 
 /** Deterministic pseudo-random bytes (LCG, Numerical Recipes constants) so failures reproduce. */
 function lcg(seed: number) {
@@ -204,5 +206,60 @@ describe('maxStuffBits (exact worst-case stuffing, compared with the Davis et al
 			const data = Uint8Array.from({ length: 4 }, () => (rand() < 128 ? 0x0f : rand()));
 			expect(frameBits(0x2aa, false, data).stuffBits).toBeLessThanOrEqual(exact);
 		}
+	});
+});
+
+describe('byte-wise fast path against the bit-by-bit reference', () => {
+	it('frameBits equals the reference and the bit sequence on thousands of random frames, 0–8 bytes', () => {
+		const rand = lcg(31337);
+		for (let t = 0; t < 6000; t++) {
+			const extended = t % 2 === 1;
+			const n = t % 9;
+			// A third of the payloads are long runs of equal bits, where stuffing is busiest.
+			const data = Uint8Array.from({ length: n }, () => (t % 3 === 0 ? (rand() < 128 ? 0x00 : 0xff) : rand()));
+			const id = randomId(rand, extended);
+			const fast = frameBits(id, extended, data);
+			expect(fast).toEqual(referenceFrameBits(id, extended, data));
+			const seq = frameBitSequence(id, extended, data);
+			expect(fast.stuffBits).toBe(countStuffBits(seq.bits, seq.stuffedLength));
+		}
+	});
+
+	it('covers the extreme identifiers and payloads', () => {
+		const ids = { false: [0, 1, 0x400, 0x7fe, 0x7ff], true: [0, 1, 0x3ffff, 0x40000, 0x1ffffffe, 0x1fffffff] };
+		for (const extended of [false, true]) {
+			for (const id of ids[`${extended}`]) {
+				for (let n = 0; n <= 8; n++) {
+					for (const fill of [0x00, 0xff, 0x55, 0x0f, 0xf0]) {
+						const data = new Uint8Array(n).fill(fill);
+						expect(frameBits(id, extended, data)).toEqual(referenceFrameBits(id, extended, data));
+					}
+				}
+			}
+		}
+	});
+
+	it('frameStuffBitsAt reads a payload by offset from a pool with the same result', () => {
+		const rand = lcg(5);
+		const pool = Uint8Array.from({ length: 4096 }, rand);
+		for (let t = 0; t < 2000; t++) {
+			const extended = t % 2 === 0;
+			const n = t % 9;
+			const offset = (rand() * 16 + (rand() >> 4)) % (pool.length - 8); // 0…4087, any alignment
+			const id = randomId(rand, extended);
+			const data = pool.slice(offset, offset + n);
+			expect(frameStuffBitsAt(id, extended, pool, offset, n)).toBe(referenceFrameBits(id, extended, data).stuffBits);
+		}
+		expect(() => frameStuffBitsAt(0x100, false, pool, 4090, 8)).toThrow(/outside a pool of 4096 bytes/);
+		expect(() => frameStuffBitsAt(0x800, false, pool, 0, 8)).toThrow(/0…0x7FF/);
+		expect(() => frameStuffBitsAt(0x100, false, pool, 0, 9)).toThrow(/0–8 data bytes/);
+	});
+
+	it('the reference itself gives the hand-checked layout of a known frame', () => {
+		// Cross-check of the reference against frameBitSequence's ISO 11898-1 field-order test above.
+		const seq = frameBitSequence(0x123, false, Uint8Array.of(0xaa));
+		const ref = referenceFrameBits(0x123, false, Uint8Array.of(0xaa));
+		expect(ref.bits).toBe(44 + 8);
+		expect(ref.crc).toBe(referenceCrc(seq.bits.subarray(0, seq.stuffedLength - 15)));
 	});
 });

@@ -2,7 +2,7 @@
  * Bit-level layout of classical CAN data frames (ISO 11898-1): the exact bit sequence, its CRC,
  * the stuff bits it needs, and the worst-case stuffed length for bus load and timing analysis.
  */
-import { crc15, crc15Step, CRC15_POLY } from './crc15';
+import { crc15, crc15Step, crc15UpdateByte, CRC15_POLY } from './crc15';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from './map';
 
 /**
@@ -30,7 +30,7 @@ export interface FrameBitSequence {
 	crc: number;
 }
 
-function checkFrame(id: number, extended: boolean, data: Uint8Array): void {
+function checkFrame(id: number, extended: boolean, length: number): void {
 	const max = extended ? MAX_EXTENDED_ID : MAX_STANDARD_ID;
 	if (!Number.isInteger(id) || id < 0 || id > max) {
 		const kind = extended
@@ -38,9 +38,9 @@ function checkFrame(id: number, extended: boolean, data: Uint8Array): void {
 			: 'a standard (11-bit) ID must be 0…0x7FF';
 		throw new RangeError(`${kind}, got ${id}`);
 	}
-	if (data.length > CLASSICAL_MAX_LENGTH) {
+	if (length > CLASSICAL_MAX_LENGTH) {
 		throw new RangeError(
-			`classical CAN frames carry 0–8 data bytes, got ${data.length} (CAN FD frames are not modelled here)`
+			`classical CAN frames carry 0–8 data bytes, got ${length} (CAN FD frames are not modelled here)`
 		);
 	}
 }
@@ -52,7 +52,7 @@ function checkFrame(id: number, extended: boolean, data: Uint8Array): void {
  * then CRC delimiter, ACK slot, ACK delimiter and 7 EOF bits, all recessive.
  */
 export function frameBitSequence(id: number, extended: boolean, data: Uint8Array): FrameBitSequence {
-	checkFrame(id, extended, data);
+	checkFrame(id, extended, data.length);
 	// Every field is at most 18 bits wide (the 29-bit ID goes out in 11 + 18), so 32-bit shifts are
 	// exact; one scratch buffer and no closures keep this cheap enough to run for every frame of a
 	// capture (bus load over time).
@@ -145,12 +145,120 @@ export interface FrameBits {
 
 /** Bit count, stuff bits and CRC-15 of one classical data frame (ISO 11898-1). */
 export function frameBits(id: number, extended: boolean, data: Uint8Array): FrameBits {
-	const seq = frameBitSequence(id, extended, data);
-	return {
-		bits: seq.bits.length,
-		stuffBits: countStuffBits(seq.bits, seq.stuffedLength),
-		crc: seq.crc
-	};
+	checkFrame(id, extended, data.length);
+	const packed = stuffBitsAndCrc(id, extended, data, 0, data.length);
+	return { bits: nominalFrameBits(data.length, extended), stuffBits: packed >>> 15, crc: packed & 0x7fff };
+}
+
+/**
+ * Stuff bits of the frame whose payload is `bytes[offset … offset + length)` — the same count as
+ * frameBits, without a payload view or any allocation, for running over every frame of a capture
+ * straight from its payload pool.
+ */
+export function frameStuffBitsAt(
+	id: number,
+	extended: boolean,
+	bytes: Uint8Array,
+	offset: number,
+	length: number
+): number {
+	checkFrame(id, extended, length);
+	if (!Number.isInteger(offset) || offset < 0 || offset + length > bytes.length) {
+		throw new RangeError(`payload bytes ${offset}…${offset + length} lie outside a pool of ${bytes.length} bytes`);
+	}
+	return stuffBitsAndCrc(id, extended, bytes, offset, length) >>> 15;
+}
+
+/*
+ * Byte-wise path. The stretch SOF … data is 19 + 8n bits (base) or 39 + 8n (extended); putting
+ * 5 or 1 pad bits in front makes it whole bytes with the payload byte-aligned, so the CRC can use
+ * crc15UpdateByte and the stuffing rule a table of (run state, byte) — one lookup per byte each.
+ * The pad is chosen per use so that it changes nothing:
+ * - CRC: zeros. With the register initialised to 0, leading zeros leave it at 0 (ISO 11898-1 CRC).
+ * - stuffing: "10101" (base) or "1" (extended) from the state "last 0, run 1" — no run reaches 5,
+ *   and it ends on a recessive bit, so the dominant SOF starts a fresh run as on an idle bus.
+ * The 15 CRC bits close the stuffed stretch: one byte, then 7 bits padded with the complement of
+ * the last one, which can neither complete a run nor follow a stuff bit into one.
+ */
+
+/** Stuffing state = last << 2 | (run − 1), run 1…4 (a run of 5 is stuffed at once): 8 states. */
+const STUFF_START = 0; // last 0, run 1
+const STUFF_PAD_BASE = 0b10101000;
+const STUFF_PAD_EXTENDED = 0b10000000;
+
+/** STUFF_TABLE[state << 8 | byte] = new state << 2 | stuff bits inserted in that byte (0–2). */
+const STUFF_TABLE = (() => {
+	const table = new Uint8Array(8 << 8);
+	for (let state = 0; state < 8; state++) {
+		for (let byte = 0; byte < 256; byte++) {
+			let last = state >> 2;
+			let run = (state & 3) + 1;
+			let stuffed = 0;
+			for (let b = 7; b >= 0; b--) {
+				const r = advance(last, run, (byte >> b) & 1);
+				({ last, run } = r);
+				stuffed += r.stuffed;
+			}
+			table[(state << 8) | byte] = (((last << 2) | (run - 1)) << 2) | stuffed;
+		}
+	}
+	return table;
+})();
+
+/** Scratch for the padded header: 3 bytes base format, 5 extended. */
+const headerBytes = new Uint8Array(5);
+
+/**
+ * Writes SOF … DLC, with zero pad bits in front, into headerBytes; returns how many bytes.
+ * Storing into a Uint8Array keeps the low 8 bits, so wider shifts need no mask.
+ */
+function putHeader(id: number, extended: boolean, length: number): number {
+	// DLC: for 0–8 bytes the code equals the length (ISO 11898-1).
+	if (extended) {
+		const base = id >>> 18;
+		const ext = id & 0x3ffff;
+		// [pad, SOF, base 10…5] [base 4…0, SRR=1, IDE=1, ext 17] [ext 16…9] [ext 8…1] [ext 0, RTR, r1, r0, DLC]
+		headerBytes[0] = base >>> 5;
+		headerBytes[1] = ((base & 0x1f) << 3) | 0b110 | (ext >>> 17);
+		headerBytes[2] = ext >>> 9;
+		headerBytes[3] = ext >>> 1;
+		headerBytes[4] = ((ext & 1) << 7) | length;
+		return 5;
+	}
+	// [pad×5, SOF, ID 10, ID 9] [ID 8…1] [ID 0, RTR, IDE, r0, DLC]
+	headerBytes[0] = id >>> 9;
+	headerBytes[1] = id >>> 1;
+	headerBytes[2] = ((id & 1) << 7) | length;
+	return 3;
+}
+
+/** (stuff bits << 15) | CRC-15 of a checked classical frame; see the comment above for the method. */
+function stuffBitsAndCrc(id: number, extended: boolean, bytes: Uint8Array, offset: number, length: number): number {
+	const headerLength = putHeader(id, extended, length);
+	let crc = 0;
+	let stuff = 0;
+	// The first header byte carries the pad: zeros for the CRC, the stuffing pad for the run count.
+	let v = STUFF_TABLE[(STUFF_START << 8) | headerBytes[0] | (extended ? STUFF_PAD_EXTENDED : STUFF_PAD_BASE)];
+	crc = crc15UpdateByte(crc, headerBytes[0]);
+	stuff += v & 3;
+	for (let k = 1; k < headerLength; k++) {
+		const byte = headerBytes[k];
+		crc = crc15UpdateByte(crc, byte);
+		v = STUFF_TABLE[((v >> 2) << 8) | byte];
+		stuff += v & 3;
+	}
+	for (let k = offset, end = offset + length; k < end; k++) {
+		const byte = bytes[k];
+		crc = crc15UpdateByte(crc, byte);
+		v = STUFF_TABLE[((v >> 2) << 8) | byte];
+		stuff += v & 3;
+	}
+	// CRC sequence: bits 14…7, then 6…0 followed by the complement of bit 0 (adds no stuff bit).
+	v = STUFF_TABLE[((v >> 2) << 8) | (crc >>> 7)];
+	stuff += v & 3;
+	v = STUFF_TABLE[((v >> 2) << 8) | ((crc & 0x7f) << 1) | ((crc & 1) ^ 1)];
+	stuff += v & 3;
+	return (stuff << 15) | crc;
 }
 
 /**
