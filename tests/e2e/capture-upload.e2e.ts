@@ -22,10 +22,9 @@ test('a viewer uploads a 2 MB capture, it is processed in the worker, and refusa
 	const seeded = await page.request.get(api);
 	expect(seeded.status()).toBe(200);
 	const { captures } = (await seeded.json()) as { captures: { name: string; status: string }[] };
-	expect(captures.map((c) => [c.name, c.status]).sort()).toEqual([
-		['club-racer-session.csv', 'ready'],
-		['genset-idle.csv', 'ready']
-	]);
+	// The seed's two captures are processed (other journeys may have uploaded more by now).
+	const ready = captures.filter((c) => c.status === 'ready').map((c) => c.name);
+	expect(ready).toEqual(expect.arrayContaining(['club-racer-session.csv', 'genset-idle.csv']));
 
 	const frameCount = 50_000;
 	const text = generatedCapture(frameCount);

@@ -16,10 +16,17 @@ export async function openNewestMail(page: Page, email: string, subject: RegExp)
 
 /** Signs in the way a person does: asks for a link, reads it in the mailbox, follows it. Returns the link. */
 export async function signIn(page: Page, email: string, callbackUrl?: string): Promise<string> {
+	// Count this address's sign-in mails first, so an old (used) link is never followed by mistake.
+	const signInMails = async () => {
+		await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
+		return page.getByRole('link', { name: /sign-in link/i }).count();
+	};
+	const before = await signInMails();
 	await page.goto(callbackUrl ? `/signin?callbackUrl=${encodeURIComponent(callbackUrl)}` : '/signin');
 	await page.getByLabel('E-mail address').fill(email);
 	await page.getByRole('button', { name: 'E-mail me a sign-in link' }).click();
 	await expect(page.getByRole('heading', { name: 'Check your inbox' })).toBeVisible();
+	await expect.poll(signInMails, { message: `no new sign-in mail reached ${email}` }).toBeGreaterThan(before);
 
 	await openNewestMail(page, email, /sign-in link/i);
 	const link = page.getByRole('region', { name: 'Links in this message' }).getByRole('link').first();
