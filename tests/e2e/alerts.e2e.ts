@@ -1,5 +1,5 @@
-import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
+import { readFixtureRows } from './fixture-rows';
 import { signIn } from './helpers';
 
 const slug = 'quillmoor-club-racing';
@@ -9,14 +9,7 @@ const capturePath = 'fixtures/club-racer-session.csv';
 // ---- The reference: the fixture read by hand, independently of the app's importer, decoder and alert engine. ----
 
 /** (time from the first frame, payload) per row of the canonical capture CSV (design.md). */
-const rows = readFileSync(capturePath, 'utf8')
-	.trim()
-	.split('\n')
-	.slice(1)
-	.map((line) => {
-		const [time, id, , , data] = line.split(',');
-		return { time: Number(time), id: Number.parseInt(id, 16), view: new DataView(Uint8Array.from(data.trim().split(/\s+/), (h) => Number.parseInt(h, 16)).buffer) };
-	});
+const rows = readFixtureRows(capturePath);
 const t0 = rows[0].time;
 const recordingEnd = rows[rows.length - 1].time - t0;
 

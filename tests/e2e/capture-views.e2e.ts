@@ -6,6 +6,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
+import { readFixtureRows } from './fixture-rows';
 import { signIn } from './helpers';
 
 const slug = 'quillmoor-club-racing';
@@ -13,15 +14,7 @@ const capturePath = 'fixtures/genset-idle.csv';
 const mapName = 'Generator set engine (J1939)';
 
 // ---- The reference reading of the fixture (canonical layout, design.md: time,id,extended,dlc,data) ----
-const rows = readFileSync(capturePath, 'utf8')
-	.trim()
-	.split('\n')
-	.slice(1)
-	.map((line) => {
-		const [time, id, , , data] = line.split(',');
-		const bytes = Uint8Array.from(data.trim().split(/\s+/), (h) => Number.parseInt(h, 16));
-		return { time: Number(time), id: Number.parseInt(id, 16), bytes, view: new DataView(bytes.buffer) };
-	});
+const rows = readFixtureRows(capturePath);
 const t0 = rows[0].time;
 const relative = (t: number) => Number((t - t0).toFixed(6));
 

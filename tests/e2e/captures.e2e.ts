@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { expect, test, type Locator } from '@playwright/test';
+import { readFixtureRows } from './fixture-rows';
 import { signIn } from './helpers';
 
 const slug = 'quillmoor-club-racing';
@@ -27,15 +28,7 @@ interface FixtureFrame {
 const map = JSON.parse(readFileSync('fixtures/club-racer-ecu.map.json', 'utf8')) as { name: string; frames: FixtureFrame[] };
 
 /** Rows of the canonical capture CSV (design.md: time,id,extended,dlc,data) as (id, payload bytes). */
-const rows = readFileSync(capturePath, 'utf8')
-	.trim()
-	.split('\n')
-	.slice(1)
-	.map((line) => {
-		const [, id, , , data] = line.split(',');
-		const bytes = Uint8Array.from(data.trim().split(/\s+/), (h) => Number.parseInt(h, 16));
-		return { id: Number.parseInt(id, 16), view: new DataView(bytes.buffer) };
-	});
+const rows = readFixtureRows(capturePath);
 
 /**
  * A byte-aligned unsigned signal read with DataView (the reference implementation of byte order):

@@ -12,6 +12,7 @@ import type { Channel } from './channels';
 import { upperBound } from './decimate';
 import { FLAG_EXTENDED, type FrameStore } from './frame-store';
 import { CANONICAL_HEADER } from './layout';
+import { slugPart } from '../../slug';
 
 /** What an export needs of a channel (a decoded `Channel` fits). Times must be non-decreasing. */
 export type ExportChannel = Pick<Channel, 'info' | 'time' | 'value'>;
@@ -201,15 +202,7 @@ export type CaptureExportKind = 'long' | 'wide' | 'frames';
 
 /** A file-name-safe part: letters, digits and dashes only (names may hold any character). */
 function fileNamePart(name: string): string {
-	const part = name
-		.normalize('NFKD')
-		.replace(/[\u0300-\u036f]/g, '')
-		.toLowerCase()
-		.replace(/[^a-z0-9]+/g, '-')
-		.replace(/^-+|-+$/g, '')
-		.slice(0, 48)
-		.replace(/-+$/, '');
-	return part || 'capture';
+	return slugPart(name, 'capture');
 }
 
 /**

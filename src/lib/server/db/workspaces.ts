@@ -3,6 +3,7 @@ import type { Role } from '../roles';
 import { appendAudit } from './audit';
 import type { DB } from './connection';
 import type { Workspace } from './schema';
+import { slugPart } from '../../slug';
 
 export interface WorkspaceSummary {
 	id: string;
@@ -13,15 +14,7 @@ export interface WorkspaceSummary {
 
 /** URL-safe slug: lowercase ASCII letters, digits and single hyphens. */
 export function slugify(name: string): string {
-	const slug = name
-		.normalize('NFKD')
-		.replace(/[\u0300-\u036f]/g, '')
-		.toLowerCase()
-		.replace(/[^a-z0-9]+/g, '-')
-		.replace(/^-+|-+$/g, '')
-		.slice(0, 48)
-		.replace(/-+$/, '');
-	return slug || 'workspace';
+	return slugPart(name, 'workspace');
 }
 
 async function uniqueSlug(db: DB, name: string): Promise<string> {
