@@ -36,3 +36,12 @@ export async function signIn(page: Page, email: string, callbackUrl?: string): P
 	await expect(page.getByRole('button', { name: /account menu/i })).toBeVisible();
 	return href;
 }
+
+/** Creates a blank map from a workspace's maps list, as an editor does; returns the new map page's path. */
+export async function createBlankMap(page: Page, workspace: string, mapName: string): Promise<string> {
+	await page.goto(`/w/${workspace}/maps`);
+	await page.getByLabel('Map name').fill(mapName);
+	await page.getByRole('button', { name: 'Create blank map' }).click();
+	await expect(page.getByRole('heading', { level: 1, name: mapName })).toBeVisible();
+	return new URL(page.url()).pathname;
+}

@@ -1,5 +1,5 @@
 import { expect, test, type Locator, type Page } from '@playwright/test';
-import { signIn } from './helpers';
+import { createBlankMap, signIn } from './helpers';
 
 // The demo seed (demo mode, empty database) makes these accounts members of this workspace.
 const WORKSPACE = 'quillmoor-club-racing';
@@ -56,11 +56,7 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	await signIn(editor, EDITOR);
 
 	// Create a blank map from the maps list.
-	await editor.goto(`/w/${WORKSPACE}/maps`);
-	await editor.getByLabel('Map name').fill(mapName);
-	await editor.getByRole('button', { name: 'Create blank map' }).click();
-	await expect(editor.getByRole('heading', { level: 1, name: mapName })).toBeVisible();
-	const mapPath = new URL(editor.url()).pathname;
+	const mapPath = await createBlankMap(editor, WORKSPACE, mapName);
 
 	// Add a frame in the frames table and edit it with the keyboard only.
 	await editor.getByRole('button', { name: 'Add frame' }).click();

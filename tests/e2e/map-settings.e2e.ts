@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { createBlankMap, signIn } from './helpers';
 
 // Demo seed accounts (demo mode, empty database): members of this workspace.
 const WORKSPACE = 'quillmoor-club-racing';
@@ -11,11 +11,7 @@ test('an editor renames a map and sets its bit rate but cannot delete it; the ow
 	const editorContext = await browser.newContext();
 	const editor = await editorContext.newPage();
 	await signIn(editor, EDITOR);
-	await editor.goto(`/w/${WORKSPACE}/maps`);
-	await editor.getByLabel('Map name').fill(mapName);
-	await editor.getByRole('button', { name: 'Create blank map' }).click();
-	await expect(editor.getByRole('heading', { level: 1, name: mapName })).toBeVisible();
-	const mapPath = new URL(editor.url()).pathname;
+	const mapPath = await createBlankMap(editor, WORKSPACE, mapName);
 
 	const settings = editor.getByRole('region', { name: 'Map settings' });
 	await settings.getByLabel('Map name').fill(`${mapName} v2`);
