@@ -16,7 +16,15 @@
  * same after dropping the cache (re-decoded from the stored frames, not the CSV).
  * Peak memory is the process's maximum resident set (worker thread included: one process).
  */
-import { createReadStream, mkdtempSync, openSync, rmSync, statSync, writeSync, closeSync } from 'node:fs';
+import {
+	createReadStream,
+	mkdtempSync,
+	openSync,
+	rmSync,
+	statSync,
+	writeSync,
+	closeSync
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
@@ -28,7 +36,12 @@ import { createMap } from '../src/lib/server/db/maps';
 import { publishRevision } from '../src/lib/server/db/revisions';
 import { createWorkspace } from '../src/lib/server/db/workspaces';
 import { createLocalStorage } from '../src/lib/server/storage';
-import { createTestServices, createUser, makeEvent, type TestServices } from '../src/lib/server/test-support';
+import {
+	createTestServices,
+	createUser,
+	makeEvent,
+	type TestServices
+} from '../src/lib/server/test-support';
 import { POST as uploadRoute } from '../src/routes/api/workspaces/[ws]/captures/+server';
 import { POST as processRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/process/+server';
 import { GET as statusRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/status/+server';
@@ -51,7 +64,12 @@ const signals: SignalInput[] = [
 const map = canMapSchema.parse({
 	format: 'framewright-map@1',
 	name: 'capture bench',
-	frames: Array.from({ length: KNOWN_IDS }, (_, k) => ({ name: `F${k}`, id: FIRST_ID + k, cycleMs: 3, signals }))
+	frames: Array.from({ length: KNOWN_IDS }, (_, k) => ({
+		name: `F${k}`,
+		id: FIRST_ID + k,
+		cycleMs: 3,
+		signals
+	}))
 });
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
@@ -92,48 +110,102 @@ async function main() {
 		const { db } = services;
 		const user = await createUser(db, 'bench@example.test');
 		const ws = await createWorkspace(db, { name: 'Bench', ownerId: user.id });
-		const created = await createMap(db, { workspaceId: ws.id, map, actorId: user.id, source: 'json' });
-		await publishRevision(db, { workspaceId: ws.id, mapId: created.id, version: 1, actorId: user.id, note: 'bench' });
+		const created = await createMap(db, {
+			workspaceId: ws.id,
+			map,
+			actorId: user.id,
+			source: 'json'
+		});
+		await publishRevision(db, {
+			workspaceId: ws.id,
+			mapId: created.id,
+			version: 1,
+			actorId: user.id,
+			note: 'bench'
+		});
 
-		const event = (routeId: string, params: Record<string, string>, init: { query?: string; body?: unknown; request?: Request } = {}) => {
-			const base = makeEvent<RequestEvent>({ services, user, routeId, params: { ws: ws.slug, ...params }, body: init.body, path: routeId.replace(/\[(\w+)\]/g, (_, n: string) => ({ ws: ws.slug, ...params })[n] ?? n) + (init.query ?? '') });
+		const event = (
+			routeId: string,
+			params: Record<string, string>,
+			init: { query?: string; body?: unknown; request?: Request } = {}
+		) => {
+			const base = makeEvent<RequestEvent>({
+				services,
+				user,
+				routeId,
+				params: { ws: ws.slug, ...params },
+				body: init.body,
+				path:
+					routeId.replace(/\[(\w+)\]/g, (_, n: string) => ({ ws: ws.slug, ...params })[n] ?? n) +
+					(init.query ?? '')
+			});
 			return (init.request ? { ...base, request: init.request } : base) as never;
 		};
 		const API = '/api/workspaces/[ws]/captures';
 		const expectOk = async (response: Response, what: string) => {
-			if (response.status >= 300) throw new Error(`${what} answered ${response.status}: ${await response.text()}`);
+			if (response.status >= 300)
+				throw new Error(`${what} answered ${response.status}: ${await response.text()}`);
 			return response.json();
 		};
 
-		console.log(`\nFramewright capture benchmark: ${FRAMES.toLocaleString('en')} frames, ${(size / 2 ** 20).toFixed(1)} MB CSV, ${KNOWN_IDS} defined IDs × ${signals.length} signals + ${UNKNOWN_IDS} unknown IDs (route handlers in this process)`);
+		console.log(
+			`\nFramewright capture benchmark: ${FRAMES.toLocaleString('en')} frames, ${(size / 2 ** 20).toFixed(1)} MB CSV, ${KNOWN_IDS} defined IDs × ${signals.length} signals + ${UNKNOWN_IDS} unknown IDs (route handlers in this process)`
+		);
 		const start = performance.now();
-		const body = Readable.toWeb(createReadStream(path, { highWaterMark: 1 << 20 })) as ReadableStream<Uint8Array>;
-		const request = new Request(`http://localhost/api/workspaces/${ws.slug}/captures?name=bench-capture.csv`, {
-			method: 'POST',
-			body,
-			headers: { 'content-length': String(size), 'content-type': 'text/csv' },
-			duplex: 'half'
-		} as RequestInit);
-		const uploaded = await expectOk(await uploadRoute(event(API, {}, { query: '?name=bench-capture.csv', request })), 'upload');
+		const body = Readable.toWeb(
+			createReadStream(path, { highWaterMark: 1 << 20 })
+		) as ReadableStream<Uint8Array>;
+		const request = new Request(
+			`http://localhost/api/workspaces/${ws.slug}/captures?name=bench-capture.csv`,
+			{
+				method: 'POST',
+				body,
+				headers: { 'content-length': String(size), 'content-type': 'text/csv' },
+				duplex: 'half'
+			} as RequestInit
+		);
+		const uploaded = await expectOk(
+			await uploadRoute(event(API, {}, { query: '?name=bench-capture.csv', request })),
+			'upload'
+		);
 		const id: string = uploaded.capture.id;
 		const afterUpload = performance.now();
 
-		await expectOk(await processRoute(event(`${API}/[id]/process`, { id }, { body: { layout: uploaded.detected.layout } })), 'process');
+		await expectOk(
+			await processRoute(
+				event(`${API}/[id]/process`, { id }, { body: { layout: uploaded.detected.layout } })
+			),
+			'process'
+		);
 		for (;;) {
-			const status = await expectOk(await statusRoute(event(`${API}/[id]/status`, { id })), 'status');
+			const status = await expectOk(
+				await statusRoute(event(`${API}/[id]/status`, { id })),
+				'status'
+			);
 			if (status.status === 'ready') break;
 			if (status.status === 'failed') throw new Error(`processing failed: ${status.error}`);
 			await new Promise((resolve) => setTimeout(resolve, 20));
 		}
 		const afterProcess = performance.now();
 
-		const decoded = await expectOk(await decodeRoute(event(`${API}/[id]/decode`, { id }, { body: { mapId: created.id, revision: 1 } })), 'decode');
+		const decoded = await expectOk(
+			await decodeRoute(
+				event(`${API}/[id]/decode`, { id }, { body: { mapId: created.id, revision: 1 } })
+			),
+			'decode'
+		);
 		const afterDecode = performance.now();
 
 		const series = async () => {
 			const t = performance.now();
 			const body = await expectOk(
-				await seriesRoute(event(`${API}/[id]/series`, { id }, { query: `?decode=${decoded.decode.id}&channel=0&points=${POINTS}` })),
+				await seriesRoute(
+					event(
+						`${API}/[id]/series`,
+						{ id },
+						{ query: `?decode=${decoded.decode.id}&channel=0&points=${POINTS}` }
+					)
+				),
 				'series'
 			);
 			return { seconds: performance.now() - t, points: body.time.length as number };
@@ -145,12 +217,24 @@ async function main() {
 		const cold = await series();
 
 		console.log(`  1 upload (stream to storage + layout detection): ${ms(afterUpload - start)}`);
-		console.log(`  2 process in the worker thread (parse once, store compact frames): ${ms(afterProcess - afterUpload)}`);
-		console.log(`  3 decode with r1 → summary (${decoded.summary.channels.length} channels, ${decoded.summary.unknownIds.length} unknown IDs): ${ms(afterDecode - afterProcess)}`);
-		console.log(`  upload request → decoded summary available (aim < 3 s): ${ms(afterDecode - start)}`);
-		console.log(`  decimated series, ${POINTS} buckets of one channel (${first.points} points; aim < 100 ms): first ${first.seconds.toFixed(1)} ms, best of 5 ${best.toFixed(1)} ms`);
-		console.log(`  the same after dropping the decode cache (re-decoded from stored frames): ${cold.seconds.toFixed(0)} ms`);
-		console.log(`  peak resident memory of this process (aim < 500 MB): ${peakRssMb().toFixed(0)} MB (before the upload: ${rssBefore.toFixed(0)} MB)`);
+		console.log(
+			`  2 process in the worker thread (parse once, store compact frames): ${ms(afterProcess - afterUpload)}`
+		);
+		console.log(
+			`  3 decode with r1 → summary (${decoded.summary.channels.length} channels, ${decoded.summary.unknownIds.length} unknown IDs): ${ms(afterDecode - afterProcess)}`
+		);
+		console.log(
+			`  upload request → decoded summary available (aim < 3 s): ${ms(afterDecode - start)}`
+		);
+		console.log(
+			`  decimated series, ${POINTS} buckets of one channel (${first.points} points; aim < 100 ms): first ${first.seconds.toFixed(1)} ms, best of 5 ${best.toFixed(1)} ms`
+		);
+		console.log(
+			`  the same after dropping the decode cache (re-decoded from stored frames): ${cold.seconds.toFixed(0)} ms`
+		);
+		console.log(
+			`  peak resident memory of this process (aim < 500 MB): ${peakRssMb().toFixed(0)} MB (before the upload: ${rssBefore.toFixed(0)} MB)`
+		);
 		await db.destroy();
 	} finally {
 		rmSync(dir, { recursive: true, force: true });

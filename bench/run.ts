@@ -69,13 +69,19 @@ const mapWith = (signals: SignalInput[]) =>
 	canMapSchema.parse({
 		format: 'framewright-map@1',
 		name: 'bench',
-		frames: Array.from({ length: IDS }, (_, k) => ({ name: `F${k}`, id: FIRST_ID + k, cycleMs: 10, signals }))
+		frames: Array.from({ length: IDS }, (_, k) => ({
+			name: `F${k}`,
+			id: FIRST_ID + k,
+			cycleMs: 10,
+			signals
+		}))
 	});
 
 /** The generated capture, frame by frame (the same sequence for the store and for the CSV file). */
 function* generatedFrames(): Generator<{ time: number; id: number; data: Uint8Array }> {
 	const rand = seededRandom(SEED);
-	for (let i = 0; i < FRAMES; i++) yield { time: i * 1e-4, id: FIRST_ID + rand.int(0, IDS - 1), data: rand.bytes(8) };
+	for (let i = 0; i < FRAMES; i++)
+		yield { time: i * 1e-4, id: FIRST_ID + rand.int(0, IDS - 1), data: rand.bytes(8) };
 }
 
 function makeStore(): FrameStore {
@@ -157,7 +163,8 @@ function dispatchDataView(store: FrameStore, slotOf: Int32Array, out: Float64Arr
 	const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
 	for (let i = 0; i < store.count; i++) {
 		const frameId = id[i];
-		const slot = (flags[i] & FLAG_EXTENDED) === 0 && frameId <= MAX_STANDARD_ID ? slotOf[frameId] : -1;
+		const slot =
+			(flags[i] & FLAG_EXTENDED) === 0 && frameId <= MAX_STANDARD_ID ? slotOf[frameId] : -1;
 		if (slot < 0 || length[i] < ALIGNED_BYTES) continue;
 		const at = dataOffset[i];
 		const o = 3 * slot;
@@ -195,7 +202,8 @@ function phaseDecode() {
 	const b = new Float64Array(3 * IDS);
 	dispatchDataView(store, slotOf, a);
 	decodeDispatching(store, alignedOnly, b);
-	if (a.some((v, k) => v !== b[k])) throw new Error('bench: compiled decoder and DataView baseline disagree');
+	if (a.some((v, k) => v !== b[k]))
+		throw new Error('bench: compiled decoder and DataView baseline disagree');
 
 	return {
 		extractCompiled: best(() => extractCompiled(store, alignedOnly, out)),
@@ -263,10 +271,14 @@ async function phasePapaparseWhole(path: string) {
 
 function runPhase<T>(phase: string, ...args: string[]): T {
 	const self = fileURLToPath(import.meta.url);
-	const child = spawnSync(process.execPath, [...process.execArgv, self, '--phase', phase, ...args], {
-		encoding: 'utf8',
-		maxBuffer: 1 << 24
-	});
+	const child = spawnSync(
+		process.execPath,
+		[...process.execArgv, self, '--phase', phase, ...args],
+		{
+			encoding: 'utf8',
+			maxBuffer: 1 << 24
+		}
+	);
 	if (child.status !== 0) throw new Error(`bench phase ${phase} failed:\n${child.stderr}`);
 	return JSON.parse(child.stdout.trim().split('\n').at(-1)!) as T;
 }
@@ -275,9 +287,14 @@ function runPhase<T>(phase: string, ...args: string[]): T {
  * Best time over a few separate processes (each run is cold: ingest cannot be repeated in one), the
  * phases interleaved so that a busy spell on the machine hits both sides of a ratio alike.
  */
-function bestInterleaved<T extends { rssMb: number }>(runs: number, phases: { phase: string; key: keyof T }[], ...args: string[]): T[] {
+function bestInterleaved<T extends { rssMb: number }>(
+	runs: number,
+	phases: { phase: string; key: keyof T }[],
+	...args: string[]
+): T[] {
 	const results: T[][] = phases.map(() => []);
-	for (let r = 0; r < runs; r++) phases.forEach(({ phase }, p) => results[p].push(runPhase<T>(phase, ...args)));
+	for (let r = 0; r < runs; r++)
+		phases.forEach(({ phase }, p) => results[p].push(runPhase<T>(phase, ...args)));
 	return phases.map(({ key }, p) => {
 		const fastest = results[p].reduce((a, b) => ((b[key] as number) < (a[key] as number) ? b : a));
 		// Memory: the largest peak any run reached, not the fastest run's.
@@ -294,27 +311,48 @@ async function main() {
 	const phaseAt = process.argv.indexOf('--phase');
 	if (phaseAt >= 0) {
 		const [phase, path] = process.argv.slice(phaseAt + 1);
-		const run = { idle: async () => ({ rssMb: peakRssMb() }), decode: phaseDecode, ingest: () => phaseIngest(path, true), 'ingest-general': () => phaseIngest(path, false), papaparse: () => phasePapaparse(path), 'papaparse-whole': () => phasePapaparseWhole(path) }[phase];
+		const run = {
+			idle: async () => ({ rssMb: peakRssMb() }),
+			decode: phaseDecode,
+			ingest: () => phaseIngest(path, true),
+			'ingest-general': () => phaseIngest(path, false),
+			papaparse: () => phasePapaparse(path),
+			'papaparse-whole': () => phasePapaparseWhole(path)
+		}[phase];
 		if (!run) throw new Error(`unknown phase ${phase}`);
 		console.log(JSON.stringify(await run()));
 		return;
 	}
 
-	console.log(`Framewright decode benchmark: ${FRAMES.toLocaleString('en')} frames, ${IDS} IDs, ${IDS * 5} signals (each phase in its own process)`);
+	console.log(
+		`Framewright decode benchmark: ${FRAMES.toLocaleString('en')} frames, ${IDS} IDs, ${IDS * 5} signals (each phase in its own process)`
+	);
 	const a = runPhase<ReturnType<typeof phaseDecode>>('decode');
 	console.log('\n(a) decode only, in memory (best of 5)');
-	console.log(`  a1 extraction, one frame definition, 3 aligned fields: compiled ${f3(a.extractCompiled)}, DataView ${f3(a.extractDataView)} → ${ratio(a.extractCompiled, a.extractDataView)}`);
-	console.log(`  a2 dispatching by ID, 3 aligned fields (the aim, ≤ 2×): compiled ${f3(a.dispatchCompiled)}, DataView + ID table ${f3(a.dispatchDataView)} → ${ratio(a.dispatchCompiled, a.dispatchDataView)}`);
-	console.log(`  a3 bare DataView loop, no lookup (reference): ${f3(a.bareDataView)}; compiled a2 / bare → ${ratio(a.dispatchCompiled, a.bareDataView)}`);
-	console.log(`  all 200 signals (aligned + unaligned): ${f3(a.fullCompiled)} = ${rate(FRAMES, a.fullCompiled)} frames, ${rate(FRAMES * 5, a.fullCompiled)} signals`);
-	console.log(`  decodeChannels (lookup, decode, time + value arrays, statistics; best of 3): ${f3(a.decodeChannels)}`);
+	console.log(
+		`  a1 extraction, one frame definition, 3 aligned fields: compiled ${f3(a.extractCompiled)}, DataView ${f3(a.extractDataView)} → ${ratio(a.extractCompiled, a.extractDataView)}`
+	);
+	console.log(
+		`  a2 dispatching by ID, 3 aligned fields (the aim, ≤ 2×): compiled ${f3(a.dispatchCompiled)}, DataView + ID table ${f3(a.dispatchDataView)} → ${ratio(a.dispatchCompiled, a.dispatchDataView)}`
+	);
+	console.log(
+		`  a3 bare DataView loop, no lookup (reference): ${f3(a.bareDataView)}; compiled a2 / bare → ${ratio(a.dispatchCompiled, a.bareDataView)}`
+	);
+	console.log(
+		`  all 200 signals (aligned + unaligned): ${f3(a.fullCompiled)} = ${rate(FRAMES, a.fullCompiled)} frames, ${rate(FRAMES * 5, a.fullCompiled)} signals`
+	);
+	console.log(
+		`  decodeChannels (lookup, decode, time + value arrays, statistics; best of 3): ${f3(a.decodeChannels)}`
+	);
 	console.log(`  peak RSS of this phase (store + channels in memory): ${mb(a.rssMb)}`);
 
 	const dir = mkdtempSync(join(tmpdir(), 'framewright-bench-'));
 	try {
 		const path = join(dir, 'capture.csv');
 		const bytes = writeCsv(path);
-		console.log(`\n(b) CSV ingest + decode, ${(bytes / 2 ** 20).toFixed(1)} MB file streamed in 1 MiB chunks (best of ${RUNS} processes each, interleaved)`);
+		console.log(
+			`\n(b) CSV ingest + decode, ${(bytes / 2 ** 20).toFixed(1)} MB file streamed in 1 MiB chunks (best of ${RUNS} processes each, interleaved)`
+		);
 		type Timed = { seconds: number; rows: number; rssMb: number };
 		type Ingested = Awaited<ReturnType<typeof phaseIngest>>;
 		const [papa, ingest, general] = bestInterleaved<Timed & Ingested>(
@@ -328,18 +366,34 @@ async function main() {
 		);
 		const whole = runPhase<Timed>('papaparse-whole', path);
 		const total = ingest.ingestSeconds + ingest.decodeSeconds;
-		console.log(`  papaparse alone, streamed: ${f3(papa.seconds)} (${papa.rows.toLocaleString('en')} rows)`);
-		console.log(`  ingest (canonical lines in place, others via papaparse → frame store): ${f3(ingest.ingestSeconds)} (${ingest.frames.toLocaleString('en')} frames, ${ingest.badRows} bad rows)`);
-		console.log(`  decode to channels: ${f3(ingest.decodeSeconds)} (${ingest.samples.toLocaleString('en')} samples)`);
-		console.log(`  ingest + decode / papaparse alone: ${ratio(total, papa.seconds)} (aim ≤ 1.25×); ingest alone / papaparse: ${ratio(ingest.ingestSeconds, papa.seconds)}`);
+		console.log(
+			`  papaparse alone, streamed: ${f3(papa.seconds)} (${papa.rows.toLocaleString('en')} rows)`
+		);
+		console.log(
+			`  ingest (canonical lines in place, others via papaparse → frame store): ${f3(ingest.ingestSeconds)} (${ingest.frames.toLocaleString('en')} frames, ${ingest.badRows} bad rows)`
+		);
+		console.log(
+			`  decode to channels: ${f3(ingest.decodeSeconds)} (${ingest.samples.toLocaleString('en')} samples)`
+		);
+		console.log(
+			`  ingest + decode / papaparse alone: ${ratio(total, papa.seconds)} (aim ≤ 1.25×); ingest alone / papaparse: ${ratio(ingest.ingestSeconds, papa.seconds)}`
+		);
 		const generalTotal = general.ingestSeconds + general.decodeSeconds;
-		console.log(`  general route (every line through papaparse): ingest ${f3(general.ingestSeconds)} + decode ${f3(general.decodeSeconds)} → ${ratio(generalTotal, papa.seconds)} of papaparse alone`);
+		console.log(
+			`  general route (every line through papaparse): ingest ${f3(general.ingestSeconds)} + decode ${f3(general.decodeSeconds)} → ${ratio(generalTotal, papa.seconds)} of papaparse alone`
+		);
 		console.log(`  reference: papaparse one call on the whole text ${f3(whole.seconds)}`);
 
 		console.log('\n(c) peak resident memory (each its own process)');
-		console.log(`  ingest + decode, streamed (aim < 400 MB): ${mb(ingest.rssMb)}; general route: ${mb(general.rssMb)}`);
-		console.log(`  papaparse alone, streamed: ${mb(papa.rssMb)}; papaparse one call on the whole text: ${mb(whole.rssMb)}`);
-		console.log(`  for scale: a bench process that only starts (Node + tsx + imports): ${mb(runPhase<{ rssMb: number }>('idle').rssMb)}`);
+		console.log(
+			`  ingest + decode, streamed (aim < 400 MB): ${mb(ingest.rssMb)}; general route: ${mb(general.rssMb)}`
+		);
+		console.log(
+			`  papaparse alone, streamed: ${mb(papa.rssMb)}; papaparse one call on the whole text: ${mb(whole.rssMb)}`
+		);
+		console.log(
+			`  for scale: a bench process that only starts (Node + tsx + imports): ${mb(runPhase<{ rssMb: number }>('idle').rssMb)}`
+		);
 	} finally {
 		rmSync(dir, { recursive: true, force: true });
 	}

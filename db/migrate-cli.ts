@@ -6,7 +6,8 @@ const path = databasePathFromEnv();
 const db = createDatabase(path);
 try {
 	const { results = [] } = await migrateToLatest(db);
-	for (const r of results) console.log(`${r.status === 'Success' ? 'applied' : r.status}: ${r.migrationName}`);
+	for (const r of results)
+		console.log(`${r.status === 'Success' ? 'applied' : r.status}: ${r.migrationName}`);
 	console.log(results.length ? `${path} is up to date.` : `${path} was already up to date.`);
 } catch (error) {
 	console.error(error instanceof Error ? error.message : String(error));

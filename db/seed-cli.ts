@@ -11,9 +11,15 @@ try {
 	await migrateToLatest(db);
 	const storage = storageFromEnv(process.env, 4 * loadConfig().captureMaxBytes);
 	const { created } = await seedDemo(db, { storage });
-	console.log(created.length ? `Seeded ${path}:\n  ${created.join('\n  ')}` : `${path} already holds the demo data.`);
+	console.log(
+		created.length
+			? `Seeded ${path}:\n  ${created.join('\n  ')}`
+			: `${path} already holds the demo data.`
+	);
 } catch (error) {
-	console.error(`Seeding ${path} failed: ${error instanceof Error ? error.message : String(error)}`);
+	console.error(
+		`Seeding ${path} failed: ${error instanceof Error ? error.message : String(error)}`
+	);
 	process.exitCode = 1;
 } finally {
 	await db.destroy();

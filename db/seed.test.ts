@@ -24,7 +24,16 @@ describe('demo seed', () => {
 		// The two demo maps: club racer r1 with an unpublished draft change, generator set r1.
 		const maps = await db
 			.selectFrom('maps')
-			.select(['name', 'draft_version', (eb) => eb.selectFrom('map_revisions').select((r) => r.fn.max('number').as('n')).whereRef('map_revisions.map_id', '=', 'maps.id').as('latest')])
+			.select([
+				'name',
+				'draft_version',
+				(eb) =>
+					eb
+						.selectFrom('map_revisions')
+						.select((r) => r.fn.max('number').as('n'))
+						.whereRef('map_revisions.map_id', '=', 'maps.id')
+						.as('latest')
+			])
 			.orderBy('name')
 			.execute();
 		expect(maps).toEqual([

@@ -15,7 +15,10 @@ import gensetMapJson from '../fixtures/genset-j1939.map.json';
 
 // An invented scenario for demos: a small club motorsport team. Addresses use the reserved `.test`
 // top-level domain (RFC 2606), so no real mailbox can ever receive them.
-export const demoWorkspace = { slug: 'quillmoor-club-racing', name: 'Quillmoor Club Racing' } as const;
+export const demoWorkspace = {
+	slug: 'quillmoor-club-racing',
+	name: 'Quillmoor Club Racing'
+} as const;
 
 export const demoAccounts: { email: string; name: string; role: Role }[] = [
 	{ email: 'owner@framewright.test', name: 'Team owner (demo)', role: 'owner' },
@@ -37,7 +40,10 @@ export interface SeedOptions {
 	storage?: BlobStorage;
 }
 
-export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}): Promise<{ created: string[] }> {
+export async function seedDemo(
+	db: Kysely<Database>,
+	options: SeedOptions = {}
+): Promise<{ created: string[] }> {
 	const { created, workspaceId, calibratorId } = await seedPeople(db);
 	// The map repositories open their own transactions, so maps are added after the people.
 	created.push(...(await seedDemoMaps(db, workspaceId, calibratorId)));
@@ -47,7 +53,10 @@ export async function seedDemo(db: Kysely<Database>, options: SeedOptions = {}):
 
 function fixtureMap(json: unknown, file: string): CanMap {
 	const parsed = parseMap(json);
-	if (!parsed.ok) throw new Error(`fixtures/${file} is not a valid map: ${parsed.problems.map((p) => `${p.path} ${p.message}`).join('; ')}`);
+	if (!parsed.ok)
+		throw new Error(
+			`fixtures/${file} is not a valid map: ${parsed.problems.map((p) => `${p.path} ${p.message}`).join('; ')}`
+		);
 	return parsed.map;
 }
 
@@ -55,14 +64,28 @@ function fixtureMap(json: unknown, file: string): CanMap {
  * The two demo maps, only while the workspace has none: the club racer controller published as r1
  * with an unpublished change in its draft, and the generator set published as r1.
  */
-async function seedDemoMaps(db: Kysely<Database>, workspaceId: string, actorId: string): Promise<string[]> {
-	const existing = await db.selectFrom('maps').select('id').where('workspace_id', '=', workspaceId).executeTakeFirst();
+async function seedDemoMaps(
+	db: Kysely<Database>,
+	workspaceId: string,
+	actorId: string
+): Promise<string[]> {
+	const existing = await db
+		.selectFrom('maps')
+		.select('id')
+		.where('workspace_id', '=', workspaceId)
+		.executeTakeFirst();
 	if (existing) return [];
 	const clubRacer = fixtureMap(clubRacerMapJson, 'club-racer-ecu.map.json');
 	const genset = fixtureMap(gensetMapJson, 'genset-j1939.map.json');
 
 	const club = await createMap(db, { workspaceId, map: clubRacer, actorId, source: 'json' });
-	await publishRevision(db, { workspaceId, mapId: club.id, version: 1, actorId, note: 'First release for the season: engine, pressures, drivetrain and chassis frames.' });
+	await publishRevision(db, {
+		workspaceId,
+		mapId: club.id,
+		version: 1,
+		actorId,
+		note: 'First release for the season: engine, pressures, drivetrain and chassis frames.'
+	});
 	const draft = structuredClone(clubRacer);
 	for (const frame of draft.frames) {
 		for (const signal of frame.signals) {
@@ -75,33 +98,60 @@ async function seedDemoMaps(db: Kysely<Database>, workspaceId: string, actorId: 
 	await saveDraft(db, { workspaceId, mapId: club.id, version: 1, draft, actorId });
 
 	const gen = await createMap(db, { workspaceId, map: genset, actorId, source: 'json' });
-	await publishRevision(db, { workspaceId, mapId: gen.id, version: 1, actorId, note: 'Generator set engine broadcast as installed on the demo unit.' });
+	await publishRevision(db, {
+		workspaceId,
+		mapId: gen.id,
+		version: 1,
+		actorId,
+		note: 'Generator set engine broadcast as installed on the demo unit.'
+	});
 	const found = await findMapForWorkspace(db, workspaceId, club.id);
 	return [`map ${found?.name ?? club.name} (r1 + draft)`, `map ${gen.name} (r1)`];
 }
 
 /** The two demo captures, uploaded by the tuner and processed, only while the workspace has none. */
-async function seedDemoCaptures(db: Kysely<Database>, storage: BlobStorage, workspaceId: string): Promise<string[]> {
-	const existing = await db.selectFrom('captures').select('id').where('workspace_id', '=', workspaceId).executeTakeFirst();
+async function seedDemoCaptures(
+	db: Kysely<Database>,
+	storage: BlobStorage,
+	workspaceId: string
+): Promise<string[]> {
+	const existing = await db
+		.selectFrom('captures')
+		.select('id')
+		.where('workspace_id', '=', workspaceId)
+		.executeTakeFirst();
 	if (existing) return [];
-	const tuner = await db.selectFrom('User').select('id').where('email', '=', 'tuner@framewright.test').executeTakeFirst();
+	const tuner = await db
+		.selectFrom('User')
+		.select('id')
+		.where('email', '=', 'tuner@framewright.test')
+		.executeTakeFirst();
 	const created: string[] = [];
 	for (const fileName of ['club-racer-session.csv', 'genset-idle.csv']) {
 		// Read from the project folder, where the server, the CLI and the tests all run.
 		const text = await readFile(resolve('fixtures', fileName), 'utf8');
-		await importCaptureInProcess({ db, storage }, { workspaceId, actorId: tuner?.id ?? null, fileName, text });
+		await importCaptureInProcess(
+			{ db, storage },
+			{ workspaceId, actorId: tuner?.id ?? null, fileName, text }
+		);
 		created.push(`capture ${fileName} (processed)`);
 	}
 	return created;
 }
 
-async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; workspaceId: string; calibratorId: string }> {
+async function seedPeople(
+	db: Kysely<Database>
+): Promise<{ created: string[]; workspaceId: string; calibratorId: string }> {
 	return db.transaction().execute(async (trx) => {
 		const created: string[] = [];
 		const now = new Date().toISOString();
 		const userIds = new Map<string, string>();
 		for (const account of demoAccounts) {
-			const existing = await trx.selectFrom('User').select('id').where('email', '=', account.email).executeTakeFirst();
+			const existing = await trx
+				.selectFrom('User')
+				.select('id')
+				.where('email', '=', account.email)
+				.executeTakeFirst();
 			if (existing) {
 				userIds.set(account.email, existing.id);
 				continue;
@@ -115,12 +165,21 @@ async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; wo
 			created.push(`user ${account.email}`);
 		}
 
-		let workspace = await trx.selectFrom('workspaces').select('id').where('slug', '=', demoWorkspace.slug).executeTakeFirst();
+		let workspace = await trx
+			.selectFrom('workspaces')
+			.select('id')
+			.where('slug', '=', demoWorkspace.slug)
+			.executeTakeFirst();
 		if (!workspace) {
 			workspace = { id: crypto.randomUUID() };
 			await trx
 				.insertInto('workspaces')
-				.values({ id: workspace.id, ...demoWorkspace, created_by: userIds.get(demoAccounts[0].email) ?? null, created_at: now })
+				.values({
+					id: workspace.id,
+					...demoWorkspace,
+					created_by: userIds.get(demoAccounts[0].email) ?? null,
+					created_at: now
+				})
 				.execute();
 			created.push(`workspace ${demoWorkspace.slug}`);
 		}
@@ -128,10 +187,16 @@ async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; wo
 		for (const account of demoAccounts) {
 			const result = await trx
 				.insertInto('memberships')
-				.values({ workspace_id: workspace.id, user_id: userIds.get(account.email)!, role: account.role, joined_at: now })
+				.values({
+					workspace_id: workspace.id,
+					user_id: userIds.get(account.email)!,
+					role: account.role,
+					joined_at: now
+				})
 				.onConflict((oc) => oc.columns(['workspace_id', 'user_id']).doNothing())
 				.executeTakeFirst();
-			if (Number(result.numInsertedOrUpdatedRows ?? 0) > 0) created.push(`membership ${account.email} (${account.role})`);
+			if (Number(result.numInsertedOrUpdatedRows ?? 0) > 0)
+				created.push(`membership ${account.email} (${account.role})`);
 		}
 
 		if (created.length > 0) {
@@ -143,6 +208,10 @@ async function seedPeople(db: Kysely<Database>): Promise<{ created: string[]; wo
 				details: { created }
 			});
 		}
-		return { created, workspaceId: workspace.id, calibratorId: userIds.get('calibrator@framewright.test')! };
+		return {
+			created,
+			workspaceId: workspace.id,
+			calibratorId: userIds.get('calibrator@framewright.test')!
+		};
 	});
 }

@@ -10,7 +10,17 @@
  */
 import { writeFileSync } from 'node:fs';
 import { encodeSignal } from '../src/lib/can/codec';
-import { buildJ1939Id, encodeDm1, PGN_DM1, PGN_TP_CM, PGN_TP_DT, TP_CM_BAM, TP_DT_BYTES, type Dm1Lamps, type TroubleCode } from '../src/lib/can/j1939';
+import {
+	buildJ1939Id,
+	encodeDm1,
+	PGN_DM1,
+	PGN_TP_CM,
+	PGN_TP_DT,
+	TP_CM_BAM,
+	TP_DT_BYTES,
+	type Dm1Lamps,
+	type TroubleCode
+} from '../src/lib/can/j1939';
 import { canMapSchema, type CanMap, type CanMapInput } from '../src/lib/can/map';
 import { serializeMap } from '../src/lib/can/map-json';
 import { seededRandom } from '../src/lib/can/testing/seeded-random';
@@ -33,10 +43,45 @@ const clubRacer: CanMapInput = {
 			sender: 'ECU',
 			comment: 'Fast engine values, big-endian 16-bit fields.',
 			signals: [
-				{ name: 'EngineSpeed', startBit: 8, length: 16, byteOrder: 'big', unit: 'rpm', min: 0, max: 10000 },
-				{ name: 'ThrottlePosition', startBit: 24, length: 16, byteOrder: 'big', scale: 0.1, unit: '%', min: 0, max: 100 },
-				{ name: 'ManifoldPressure', startBit: 40, length: 16, byteOrder: 'big', scale: 0.1, unit: 'kPa', min: 10, max: 110 },
-				{ name: 'Lambda', startBit: 56, length: 16, byteOrder: 'big', scale: 0.001, unit: 'λ', min: 0.7, max: 1.3 }
+				{
+					name: 'EngineSpeed',
+					startBit: 8,
+					length: 16,
+					byteOrder: 'big',
+					unit: 'rpm',
+					min: 0,
+					max: 10000
+				},
+				{
+					name: 'ThrottlePosition',
+					startBit: 24,
+					length: 16,
+					byteOrder: 'big',
+					scale: 0.1,
+					unit: '%',
+					min: 0,
+					max: 100
+				},
+				{
+					name: 'ManifoldPressure',
+					startBit: 40,
+					length: 16,
+					byteOrder: 'big',
+					scale: 0.1,
+					unit: 'kPa',
+					min: 10,
+					max: 110
+				},
+				{
+					name: 'Lambda',
+					startBit: 56,
+					length: 16,
+					byteOrder: 'big',
+					scale: 0.001,
+					unit: 'λ',
+					min: 0.7,
+					max: 1.3
+				}
 			]
 		},
 		{
@@ -47,8 +92,24 @@ const clubRacer: CanMapInput = {
 			signals: [
 				{ name: 'CoolantTemp', startBit: 0, length: 8, offset: -40, unit: '°C', min: 60, max: 105 },
 				{ name: 'OilTemp', startBit: 8, length: 8, offset: -40, unit: '°C', min: 50, max: 130 },
-				{ name: 'IntakeAirTemp', startBit: 16, length: 8, offset: -40, unit: '°C', min: -20, max: 60 },
-				{ name: 'BatteryVoltage', startBit: 32, length: 16, scale: 0.01, unit: 'V', min: 12, max: 15 }
+				{
+					name: 'IntakeAirTemp',
+					startBit: 16,
+					length: 8,
+					offset: -40,
+					unit: '°C',
+					min: -20,
+					max: 60
+				},
+				{
+					name: 'BatteryVoltage',
+					startBit: 32,
+					length: 16,
+					scale: 0.01,
+					unit: 'V',
+					min: 12,
+					max: 15
+				}
 			]
 		},
 		{
@@ -58,9 +119,34 @@ const clubRacer: CanMapInput = {
 			sender: 'ECU',
 			comment: 'Little-endian fields, two of them not byte-aligned.',
 			signals: [
-				{ name: 'OilPressure', startBit: 0, length: 16, scale: 0.1, unit: 'kPa', min: 200, max: 800 },
-				{ name: 'FuelPressure', startBit: 16, length: 16, scale: 0.1, unit: 'kPa', min: 350, max: 450 },
-				{ name: 'IgnitionAdvance', startBit: 32, length: 10, valueType: 'signed', scale: 0.5, unit: '°', min: -10, max: 50 },
+				{
+					name: 'OilPressure',
+					startBit: 0,
+					length: 16,
+					scale: 0.1,
+					unit: 'kPa',
+					min: 200,
+					max: 800
+				},
+				{
+					name: 'FuelPressure',
+					startBit: 16,
+					length: 16,
+					scale: 0.1,
+					unit: 'kPa',
+					min: 350,
+					max: 450
+				},
+				{
+					name: 'IgnitionAdvance',
+					startBit: 32,
+					length: 10,
+					valueType: 'signed',
+					scale: 0.5,
+					unit: '°',
+					min: -10,
+					max: 50
+				},
 				{ name: 'KnockLevel', startBit: 42, length: 6, unit: '', min: 0, max: 40 }
 			]
 		},
@@ -72,7 +158,15 @@ const clubRacer: CanMapInput = {
 			signals: [
 				{ name: 'Gear', startBit: 0, length: 4, labels: { '0': 'neutral', '15': 'reverse' } },
 				{ name: 'LaunchActive', startBit: 4, length: 1, labels: { '0': 'off', '1': 'on' } },
-				{ name: 'VehicleSpeed', startBit: 8, length: 16, scale: 0.01, unit: 'km/h', min: 0, max: 280 }
+				{
+					name: 'VehicleSpeed',
+					startBit: 8,
+					length: 16,
+					scale: 0.01,
+					unit: 'km/h',
+					min: 0,
+					max: 280
+				}
 			]
 		},
 		{
@@ -83,8 +177,26 @@ const clubRacer: CanMapInput = {
 			comment: 'Byte 0 selects the page; pages alternate.',
 			signals: [
 				{ name: 'Page', startBit: 0, length: 8, multiplexer: true },
-				{ name: 'EcuTemp', startBit: 8, length: 8, offset: -40, unit: '°C', muxValue: 0, min: -20, max: 85 },
-				{ name: 'SensorSupply', startBit: 16, length: 16, scale: 0.001, unit: 'V', muxValue: 0, min: 4.9, max: 5.1 },
+				{
+					name: 'EcuTemp',
+					startBit: 8,
+					length: 8,
+					offset: -40,
+					unit: '°C',
+					muxValue: 0,
+					min: -20,
+					max: 85
+				},
+				{
+					name: 'SensorSupply',
+					startBit: 16,
+					length: 16,
+					scale: 0.001,
+					unit: 'V',
+					muxValue: 0,
+					min: 4.9,
+					max: 5.1
+				},
 				{ name: 'FuelUsed', startBit: 8, length: 16, scale: 0.01, unit: 'L', muxValue: 1 },
 				{ name: 'LapCount', startBit: 24, length: 8, unit: '', muxValue: 1 }
 			]
@@ -95,9 +207,39 @@ const clubRacer: CanMapInput = {
 			cycleMs: 20,
 			sender: 'ECU',
 			signals: [
-				{ name: 'LateralAccel', startBit: 8, length: 16, byteOrder: 'big', valueType: 'signed', scale: 0.001, unit: 'g', min: -2.5, max: 2.5 },
-				{ name: 'LongitudinalAccel', startBit: 24, length: 16, byteOrder: 'big', valueType: 'signed', scale: 0.001, unit: 'g', min: -2.5, max: 2.5 },
-				{ name: 'SteeringAngle', startBit: 40, length: 16, byteOrder: 'big', valueType: 'signed', scale: 0.1, unit: '°', min: -540, max: 540 }
+				{
+					name: 'LateralAccel',
+					startBit: 8,
+					length: 16,
+					byteOrder: 'big',
+					valueType: 'signed',
+					scale: 0.001,
+					unit: 'g',
+					min: -2.5,
+					max: 2.5
+				},
+				{
+					name: 'LongitudinalAccel',
+					startBit: 24,
+					length: 16,
+					byteOrder: 'big',
+					valueType: 'signed',
+					scale: 0.001,
+					unit: 'g',
+					min: -2.5,
+					max: 2.5
+				},
+				{
+					name: 'SteeringAngle',
+					startBit: 40,
+					length: 16,
+					byteOrder: 'big',
+					valueType: 'signed',
+					scale: 0.1,
+					unit: '°',
+					min: -540,
+					max: 540
+				}
 			]
 		}
 	]
@@ -120,7 +262,16 @@ const genset: CanMapInput = {
 			signals: [
 				{ name: 'DriverDemandTorque', startBit: 8, length: 8, offset: -125, unit: '%', spn: 512 },
 				{ name: 'ActualEngineTorque', startBit: 16, length: 8, offset: -125, unit: '%', spn: 513 },
-				{ name: 'EngineSpeed', startBit: 24, length: 16, scale: 0.125, unit: 'rpm', min: 0, max: 2000, spn: 190 }
+				{
+					name: 'EngineSpeed',
+					startBit: 24,
+					length: 16,
+					scale: 0.125,
+					unit: 'rpm',
+					min: 0,
+					max: 2000,
+					spn: 190
+				}
 			]
 		},
 		{
@@ -132,9 +283,28 @@ const genset: CanMapInput = {
 			sender: 'Engine',
 			comment: 'Engine temperature 1, PGN 65262.',
 			signals: [
-				{ name: 'CoolantTemp', startBit: 0, length: 8, offset: -40, unit: '°C', min: 0, max: 105, spn: 110 },
+				{
+					name: 'CoolantTemp',
+					startBit: 0,
+					length: 8,
+					offset: -40,
+					unit: '°C',
+					min: 0,
+					max: 105,
+					spn: 110
+				},
 				{ name: 'FuelTemp', startBit: 8, length: 8, offset: -40, unit: '°C', spn: 174 },
-				{ name: 'OilTemp', startBit: 16, length: 16, scale: 0.03125, offset: -273, unit: '°C', min: 0, max: 125, spn: 175 }
+				{
+					name: 'OilTemp',
+					startBit: 16,
+					length: 16,
+					scale: 0.03125,
+					offset: -273,
+					unit: '°C',
+					min: 0,
+					max: 125,
+					spn: 175
+				}
 			]
 		},
 		{
@@ -147,9 +317,36 @@ const genset: CanMapInput = {
 			comment: 'Engine fluid level/pressure 1, PGN 65263.',
 			signals: [
 				{ name: 'FuelDeliveryPressure', startBit: 0, length: 8, scale: 4, unit: 'kPa', spn: 94 },
-				{ name: 'OilLevel', startBit: 16, length: 8, scale: 0.4, unit: '%', min: 50, max: 100, spn: 98 },
-				{ name: 'OilPressure', startBit: 24, length: 8, scale: 4, unit: 'kPa', min: 200, max: 700, spn: 100 },
-				{ name: 'CoolantLevel', startBit: 56, length: 8, scale: 0.4, unit: '%', min: 60, max: 100, spn: 111 }
+				{
+					name: 'OilLevel',
+					startBit: 16,
+					length: 8,
+					scale: 0.4,
+					unit: '%',
+					min: 50,
+					max: 100,
+					spn: 98
+				},
+				{
+					name: 'OilPressure',
+					startBit: 24,
+					length: 8,
+					scale: 4,
+					unit: 'kPa',
+					min: 200,
+					max: 700,
+					spn: 100
+				},
+				{
+					name: 'CoolantLevel',
+					startBit: 56,
+					length: 8,
+					scale: 0.4,
+					unit: '%',
+					min: 60,
+					max: 100,
+					spn: 111
+				}
 			]
 		},
 		{
@@ -160,7 +357,18 @@ const genset: CanMapInput = {
 			cycleMs: 1000,
 			sender: 'Engine',
 			comment: 'Vehicle electrical power 1, PGN 65271.',
-			signals: [{ name: 'BatteryPotential', startBit: 40, length: 16, scale: 0.05, unit: 'V', min: 22, max: 30, spn: 168 }]
+			signals: [
+				{
+					name: 'BatteryPotential',
+					startBit: 40,
+					length: 16,
+					scale: 0.05,
+					unit: 'V',
+					min: 22,
+					max: 30,
+					spn: 168
+				}
+			]
 		},
 		{
 			name: 'DM1',
@@ -196,15 +404,25 @@ function writeCapture(name: string, rows: Row[]): void {
 	rows.sort((a, b) => a.time - b.time);
 	const lines = [CANONICAL_HEADER];
 	for (const r of rows) {
-		const id = r.id.toString(16).toUpperCase().padStart(r.extended ? 8 : 3, '0');
-		lines.push(`${r.time.toFixed(6)},${id},${r.extended ? 1 : 0},${r.data.length},${Array.from(r.data, hex2).join(' ')}`);
+		const id = r.id
+			.toString(16)
+			.toUpperCase()
+			.padStart(r.extended ? 8 : 3, '0');
+		lines.push(
+			`${r.time.toFixed(6)},${id},${r.extended ? 1 : 0},${r.data.length},${Array.from(r.data, hex2).join(' ')}`
+		);
 	}
 	writeFileSync(new URL(name, OUT), `${lines.join('\n')}\n`);
 	console.log(`${name}: ${rows.length} frames`);
 }
 
 /** Encodes physical values by signal name into a frame payload of the map. */
-function payload(map: CanMap, frameName: string, values: Record<string, number>, fill = 0): Uint8Array {
+function payload(
+	map: CanMap,
+	frameName: string,
+	values: Record<string, number>,
+	fill = 0
+): Uint8Array {
 	const frame = map.frames.find((f) => f.name === frameName)!;
 	const data = new Uint8Array(frame.length).fill(fill);
 	for (const [signalName, value] of Object.entries(values)) {
@@ -216,9 +434,16 @@ function payload(map: CanMap, frameName: string, values: Record<string, number>,
 }
 
 /** Periodic send times with a little timing jitter, as a real controller shows. */
-function schedule(rand: () => number, periodS: number, duration: number, phase: number, jitterS: number): number[] {
+function schedule(
+	rand: () => number,
+	periodS: number,
+	duration: number,
+	phase: number,
+	jitterS: number
+): number[] {
 	const times: number[] = [];
-	for (let t = phase; t < duration; t += periodS) times.push(Math.max(0, t + (rand() - 0.5) * 2 * jitterS));
+	for (let t = phase; t < duration; t += periodS)
+		times.push(Math.max(0, t + (rand() - 0.5) * 2 * jitterS));
 	return times;
 }
 
@@ -278,7 +503,8 @@ function clubRacerSession(map: CanMap): Row[] {
 		rpm += noise(15);
 		const speed = (rpm / 1000) * GEAR_RATIO_KMH_PER_KRPM[gear];
 		const manifold = 28 + 0.72 * throttle + noise(0.4);
-		const lambda = throttle > 90 ? 0.875 + noise(0.008) : throttle < 5 ? 1.05 + noise(0.02) : 0.98 + noise(0.01);
+		const lambda =
+			throttle > 90 ? 0.875 + noise(0.008) : throttle < 5 ? 1.05 + noise(0.02) : 0.98 + noise(0.01);
 		// Oil pressure rises with engine speed; in the long corner of lap 3 (t ≈ 52.5–54 s) the
 		// sump surges and pressure dips — the kind of event a limit alert exists to catch.
 		let oil = 180 + 0.06 * rpm + noise(4);
@@ -306,22 +532,43 @@ function clubRacerSession(map: CanMap): Row[] {
 	}
 
 	const rows: Row[] = [];
-	const add = (frameName: string, id: number, period: number, phase: number, values: (t: number) => Record<string, number>) => {
+	const add = (
+		frameName: string,
+		id: number,
+		period: number,
+		phase: number,
+		values: (t: number) => Record<string, number>
+	) => {
 		for (const time of schedule(rand.next, period, DURATION, phase, 0.0002)) {
 			rows.push({ time, id, extended: false, data: payload(map, frameName, values(time)) });
 		}
 	};
 	add('EngineCore', 0x5f0, 0.01, 0.0011, (t) => {
 		const s = state(t);
-		return { EngineSpeed: s.rpm, ThrottlePosition: s.throttle, ManifoldPressure: s.manifold, Lambda: s.lambda };
+		return {
+			EngineSpeed: s.rpm,
+			ThrottlePosition: s.throttle,
+			ManifoldPressure: s.manifold,
+			Lambda: s.lambda
+		};
 	});
 	add('EngineTemperatures', 0x5f1, 0.1, 0.0032, (t) => {
 		const s = state(t);
-		return { CoolantTemp: s.coolant, OilTemp: s.oilTemp, IntakeAirTemp: s.intake, BatteryVoltage: s.battery };
+		return {
+			CoolantTemp: s.coolant,
+			OilTemp: s.oilTemp,
+			IntakeAirTemp: s.intake,
+			BatteryVoltage: s.battery
+		};
 	});
 	add('Pressures', 0x5f2, 0.02, 0.0045, (t) => {
 		const s = state(t);
-		return { OilPressure: s.oil, FuelPressure: s.fuel, IgnitionAdvance: s.ignition, KnockLevel: s.knock };
+		return {
+			OilPressure: s.oil,
+			FuelPressure: s.fuel,
+			IgnitionAdvance: s.ignition,
+			KnockLevel: s.knock
+		};
 	});
 	add('Drivetrain', 0x5f3, 0.05, 0.0063, (t) => {
 		const s = state(t);
@@ -333,12 +580,20 @@ function clubRacerSession(map: CanMap): Row[] {
 		page ^= 1;
 		fuelUsed += 0.0045 * (state(t).throttle / 100 + 0.1);
 		return page === 0
-			? { Page: 0, EcuTemp: 41 + 6 * (t / DURATION), SensorSupply: 5.002 + (rand.next() - 0.5) * 0.004 }
+			? {
+					Page: 0,
+					EcuTemp: 41 + 6 * (t / DURATION),
+					SensorSupply: 5.002 + (rand.next() - 0.5) * 0.004
+				}
 			: { Page: 1, FuelUsed: fuelUsed, LapCount: Math.floor(t / LAP) + 1 };
 	});
 	add('ChassisMotion', 0x610, 0.02, 0.0091, (t) => {
 		const s = state(t);
-		return { LateralAccel: s.lateral, LongitudinalAccel: s.longitudinal, SteeringAngle: s.steering };
+		return {
+			LateralAccel: s.lateral,
+			LongitudinalAccel: s.longitudinal,
+			SteeringAngle: s.steering
+		};
 	});
 
 	// Two IDs the map does not define: a dash display's button/counter frame and a logger heartbeat.
@@ -346,11 +601,21 @@ function clubRacerSession(map: CanMap): Row[] {
 	for (const time of schedule(rand.next, 0.05, DURATION, 0.0123, 0.0003)) {
 		counter = (counter + 1) & 0x0f;
 		const buttons = time % 20 > 9.8 && time % 20 < 10.2 ? 0x02 : 0x00;
-		rows.push({ time, id: 0x5f8, extended: false, data: Uint8Array.of(counter, buttons, 0x00, 0x64) });
+		rows.push({
+			time,
+			id: 0x5f8,
+			extended: false,
+			data: Uint8Array.of(counter, buttons, 0x00, 0x64)
+		});
 	}
 	for (const time of schedule(rand.next, 0.1, DURATION, 0.0456, 0.0005)) {
 		const seconds = Math.floor(time);
-		rows.push({ time, id: 0x640, extended: false, data: Uint8Array.of(0xa5, seconds & 0xff, (seconds >> 8) & 0xff, 0, 0, 0) });
+		rows.push({
+			time,
+			id: 0x640,
+			extended: false,
+			data: Uint8Array.of(0xa5, seconds & 0xff, (seconds >> 8) & 0xff, 0, 0, 0)
+		});
 	}
 	return rows;
 }
@@ -365,10 +630,20 @@ function gensetIdle(map: CanMap): Row[] {
 	const ENGINE = 0x00;
 	const rows: Row[] = [];
 	const id = (frameName: string) => map.frames.find((f) => f.name === frameName)!.id;
-	const add = (frameName: string, period: number, phase: number, values: (t: number) => Record<string, number>) => {
+	const add = (
+		frameName: string,
+		period: number,
+		phase: number,
+		values: (t: number) => Record<string, number>
+	) => {
 		for (const time of schedule(rand.next, period, DURATION, phase, 0.0003)) {
 			// J1939-71: bytes a parameter group leaves unused are sent as 0xFF (from memory).
-			rows.push({ time, id: id(frameName), extended: true, data: payload(map, frameName, values(time), 0xff) });
+			rows.push({
+				time,
+				id: id(frameName),
+				extended: true,
+				data: payload(map, frameName, values(time), 0xff)
+			});
 		}
 	};
 	// A four-pole alternator at 50 Hz runs at 1500 rpm (speed = 120·f / poles).
@@ -377,7 +652,11 @@ function gensetIdle(map: CanMap): Row[] {
 		ActualEngineTorque: 30 + 4 * Math.sin(t * 0.8) + noise(1),
 		EngineSpeed: 1500 + 3 * Math.sin(t * 2.1) + noise(1.5)
 	}));
-	add('ET1', 1, 0.11, (t) => ({ CoolantTemp: 78 + t * 0.05, FuelTemp: 36, OilTemp: 86 + t * 0.03 }));
+	add('ET1', 1, 0.11, (t) => ({
+		CoolantTemp: 78 + t * 0.05,
+		FuelTemp: 36,
+		OilTemp: 86 + t * 0.03
+	}));
 	add('EFLP1', 0.5, 0.23, (t) => ({
 		FuelDeliveryPressure: 380,
 		OilLevel: 82,
@@ -390,19 +669,39 @@ function gensetIdle(map: CanMap): Row[] {
 	// DM1 every second (SAE J1939-73): no fault, then one code in a single frame, then two codes by BAM.
 	const off = { state: 'off', flash: 'none' } as const;
 	const amber = { state: 'on', flash: 'none' } as const;
-	const lamps = (warning: boolean): Dm1Lamps => ({ malfunctionIndicator: off, redStop: off, amberWarning: warning ? amber : off, protect: off });
+	const lamps = (warning: boolean): Dm1Lamps => ({
+		malfunctionIndicator: off,
+		redStop: off,
+		amberWarning: warning ? amber : off,
+		protect: off
+	});
 	// SPN 100 engine oil pressure and SPN 111 coolant level; FMI 18 = data valid but below normal
 	// operating range, moderately severe (SAE J1939-73, from memory).
 	const oilLow: TroubleCode = { spn: 100, fmi: 18, occurrenceCount: 1, conversionMethod: 0 };
 	const coolantLow: TroubleCode = { spn: 111, fmi: 18, occurrenceCount: 1, conversionMethod: 0 };
 	const dm1Id = buildJ1939Id({ priority: 6, pgn: PGN_DM1, sourceAddress: ENGINE });
-	const cmId = buildJ1939Id({ priority: 7, pgn: PGN_TP_CM, sourceAddress: ENGINE, destinationAddress: 0xff });
-	const dtId = buildJ1939Id({ priority: 7, pgn: PGN_TP_DT, sourceAddress: ENGINE, destinationAddress: 0xff });
+	const cmId = buildJ1939Id({
+		priority: 7,
+		pgn: PGN_TP_CM,
+		sourceAddress: ENGINE,
+		destinationAddress: 0xff
+	});
+	const dtId = buildJ1939Id({
+		priority: 7,
+		pgn: PGN_TP_DT,
+		sourceAddress: ENGINE,
+		destinationAddress: 0xff
+	});
 	for (let second = 0; second < DURATION; second++) {
 		const time = second + 0.5 + noise(0.0005);
 		if (second < 20) {
 			const codes = second < 10 ? [] : [{ ...oilLow, occurrenceCount: 1 }];
-			rows.push({ time, id: dm1Id, extended: true, data: encodeDm1(lamps(codes.length > 0), codes) });
+			rows.push({
+				time,
+				id: dm1Id,
+				extended: true,
+				data: encodeDm1(lamps(codes.length > 0), codes)
+			});
 			continue;
 		}
 		// BAM (SAE J1939-21): announce size, packet count and PGN, then 7-byte packets 50 ms apart.
@@ -413,7 +712,16 @@ function gensetIdle(map: CanMap): Row[] {
 			time,
 			id: cmId,
 			extended: true,
-			data: Uint8Array.of(TP_CM_BAM, message.length & 0xff, message.length >> 8, packets, 0xff, pgn & 0xff, (pgn >> 8) & 0xff, pgn >> 16)
+			data: Uint8Array.of(
+				TP_CM_BAM,
+				message.length & 0xff,
+				message.length >> 8,
+				packets,
+				0xff,
+				pgn & 0xff,
+				(pgn >> 8) & 0xff,
+				pgn >> 16
+			)
 		});
 		for (let k = 0; k < packets; k++) {
 			const data = new Uint8Array(8).fill(0xff);
@@ -426,11 +734,21 @@ function gensetIdle(map: CanMap): Row[] {
 	// Proprietary B frames (PGN 0xFF10, 0xFF11) from the generator controller at SA 0x27, not in the map.
 	for (const time of schedule(rand.next, 0.1, DURATION, 0.051, 0.0004)) {
 		const volts = Math.round(4000 + noise(20)); // 400.0 V in 0.1 V
-		rows.push({ time, id: buildJ1939Id({ priority: 6, pgn: 0xff10, sourceAddress: 0x27 }), extended: true, data: Uint8Array.of(volts & 0xff, volts >> 8, 0xf4, 0x01, 0xff, 0xff, 0xff, 0xff) });
+		rows.push({
+			time,
+			id: buildJ1939Id({ priority: 6, pgn: 0xff10, sourceAddress: 0x27 }),
+			extended: true,
+			data: Uint8Array.of(volts & 0xff, volts >> 8, 0xf4, 0x01, 0xff, 0xff, 0xff, 0xff)
+		});
 	}
 	for (const time of schedule(rand.next, 0.25, DURATION, 0.077, 0.0004)) {
 		const kw = Math.round(1100 + 80 * Math.sin(time * 0.5) + noise(5));
-		rows.push({ time, id: buildJ1939Id({ priority: 6, pgn: 0xff11, sourceAddress: 0x27 }), extended: true, data: Uint8Array.of(kw & 0xff, kw >> 8, 0x01, 0xff, 0xff, 0xff, 0xff, 0xff) });
+		rows.push({
+			time,
+			id: buildJ1939Id({ priority: 6, pgn: 0xff11, sourceAddress: 0x27 }),
+			extended: true,
+			data: Uint8Array.of(kw & 0xff, kw >> 8, 0x01, 0xff, 0xff, 0xff, 0xff, 0xff)
+		});
 	}
 	return rows;
 }

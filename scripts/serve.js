@@ -35,7 +35,9 @@ const entry = join(buildDir, 'index.js');
 // The capture worker thread's bundle, written by `npm run build` (scripts/build-capture-worker.ts).
 env.FW_CAPTURE_WORKER ||= join(buildDir, 'capture-worker.mjs');
 if (!existsSync(entry)) {
-	console.error(`No production build at ${entry}. Run \`npm run build\` first (or \`npm run demo\`).`);
+	console.error(
+		`No production build at ${entry}. Run \`npm run build\` first (or \`npm run demo\`).`
+	);
 	process.exit(1);
 }
 console.log(

@@ -20,7 +20,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('joined_at', 'text', (c) => c.notNull())
 		.addPrimaryKeyConstraint('memberships_pk', ['workspace_id', 'user_id'])
 		.execute();
-	await db.schema.createIndex('memberships_user_index').on('memberships').column('user_id').execute();
+	await db.schema
+		.createIndex('memberships_user_index')
+		.on('memberships')
+		.column('user_id')
+		.execute();
 
 	// Only a hash of the token is stored, so a leaked database cannot be used to accept invitations.
 	await db.schema

@@ -6,7 +6,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 	await db.schema
 		.createTable('maps')
 		.addColumn('id', 'text', (c) => c.primaryKey())
-		.addColumn('workspace_id', 'text', (c) => c.notNull().references('workspaces.id').onDelete('cascade'))
+		.addColumn('workspace_id', 'text', (c) =>
+			c.notNull().references('workspaces.id').onDelete('cascade')
+		)
 		.addColumn('name', 'text', (c) => c.notNull())
 		.addColumn('draft_json', 'text', (c) => c.notNull())
 		.addColumn('draft_version', 'integer', (c) => c.notNull().defaultTo(1))
@@ -15,7 +17,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('updated_by', 'text', (c) => c.references('User.id').onDelete('set null'))
 		.addColumn('updated_at', 'text', (c) => c.notNull())
 		.execute();
-	await db.schema.createIndex('maps_workspace_index').on('maps').columns(['workspace_id', 'updated_at']).execute();
+	await db.schema
+		.createIndex('maps_workspace_index')
+		.on('maps')
+		.columns(['workspace_id', 'updated_at'])
+		.execute();
 
 	await db.schema
 		.createTable('map_revisions')
@@ -34,7 +40,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.createTable('share_links')
 		.addColumn('id', 'text', (c) => c.primaryKey())
 		.addColumn('map_id', 'text', (c) => c.notNull().references('maps.id').onDelete('cascade'))
-		.addColumn('revision_id', 'text', (c) => c.notNull().references('map_revisions.id').onDelete('cascade'))
+		.addColumn('revision_id', 'text', (c) =>
+			c.notNull().references('map_revisions.id').onDelete('cascade')
+		)
 		.addColumn('token_hash', 'text', (c) => c.notNull().unique())
 		.addColumn('created_by', 'text', (c) => c.references('User.id').onDelete('set null'))
 		.addColumn('created_at', 'text', (c) => c.notNull())

@@ -7,13 +7,17 @@ export async function up(db: Kysely<any>): Promise<void> {
 	await db.schema
 		.createTable('captures')
 		.addColumn('id', 'text', (c) => c.primaryKey())
-		.addColumn('workspace_id', 'text', (c) => c.notNull().references('workspaces.id').onDelete('cascade'))
+		.addColumn('workspace_id', 'text', (c) =>
+			c.notNull().references('workspaces.id').onDelete('cascade')
+		)
 		.addColumn('name', 'text', (c) => c.notNull())
 		.addColumn('file_name', 'text', (c) => c.notNull())
 		.addColumn('size_bytes', 'integer', (c) => c.notNull())
 		.addColumn('uploaded_by', 'text', (c) => c.references('User.id').onDelete('set null'))
 		.addColumn('uploaded_at', 'text', (c) => c.notNull())
-		.addColumn('status', 'text', (c) => c.notNull().check(sqlIn('status', ['uploaded', 'processing', 'ready', 'failed'])))
+		.addColumn('status', 'text', (c) =>
+			c.notNull().check(sqlIn('status', ['uploaded', 'processing', 'ready', 'failed']))
+		)
 		.addColumn('detected_json', 'text')
 		.addColumn('layout_json', 'text')
 		.addColumn('report_json', 'text')
@@ -25,12 +29,18 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('error', 'text')
 		.addColumn('processed_at', 'text')
 		.execute();
-	await db.schema.createIndex('captures_workspace_index').on('captures').columns(['workspace_id', 'uploaded_at']).execute();
+	await db.schema
+		.createIndex('captures_workspace_index')
+		.on('captures')
+		.columns(['workspace_id', 'uploaded_at'])
+		.execute();
 
 	await db.schema
 		.createTable('capture_decodes')
 		.addColumn('id', 'text', (c) => c.primaryKey())
-		.addColumn('capture_id', 'text', (c) => c.notNull().references('captures.id').onDelete('cascade'))
+		.addColumn('capture_id', 'text', (c) =>
+			c.notNull().references('captures.id').onDelete('cascade')
+		)
 		.addColumn('map_id', 'text', (c) => c.references('maps.id').onDelete('set null'))
 		.addColumn('map_name', 'text', (c) => c.notNull())
 		.addColumn('revision', 'integer')
@@ -38,7 +48,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('decoded_by', 'text', (c) => c.references('User.id').onDelete('set null'))
 		.addColumn('decoded_at', 'text', (c) => c.notNull())
 		.execute();
-	await db.schema.createIndex('capture_decodes_capture_index').on('capture_decodes').columns(['capture_id', 'decoded_at']).execute();
+	await db.schema
+		.createIndex('capture_decodes_capture_index')
+		.on('capture_decodes')
+		.columns(['capture_id', 'decoded_at'])
+		.execute();
 }
 
 /** `column IN ('a', 'b')` for a CHECK constraint (values are constants of this file, never input). */

@@ -19,12 +19,16 @@ export function parseCommand<S extends z.ZodType>(
 		parsed = parseArgs({ args: argv, options, allowPositionals: true, strict: true });
 	} catch (error) {
 		// parseArgs messages are clear but long; keep the first sentence.
-		throw new UsageError(`${command}: ${(error as Error).message.split('. ')[0].replace(/\.$/, '')}`);
+		throw new UsageError(
+			`${command}: ${(error as Error).message.split('. ')[0].replace(/\.$/, '')}`
+		);
 	}
 	const result = schema.safeParse({ ...parsed.values, positionals: parsed.positionals });
 	if (!result.success) {
 		const issue = result.error.issues[0];
-		const field = issue.path.length ? `${issue.path[0] === 'positionals' ? 'argument' : `--${String(issue.path[0])}`}: ` : '';
+		const field = issue.path.length
+			? `${issue.path[0] === 'positionals' ? 'argument' : `--${String(issue.path[0])}`}: `
+			: '';
 		throw new UsageError(`${command}: ${field}${issue.message}`);
 	}
 	return result.data;
@@ -38,7 +42,10 @@ export const quantity = (what: string) =>
 		.transform((s, ctx) => {
 			const match = /^(\d+(?:\.\d+)?(?:e\d+)?)\s*([kKmM]?)$/.exec(s);
 			if (!match) {
-				ctx.addIssue({ code: 'custom', message: `${what} "${s}" is not a number (examples: 500000, 500k, 16M, 1.6e7)` });
+				ctx.addIssue({
+					code: 'custom',
+					message: `${what} "${s}" is not a number (examples: 500000, 500k, 16M, 1.6e7)`
+				});
 				return z.NEVER;
 			}
 			const factor = { '': 1, k: 1e3, K: 1e3, m: 1e6, M: 1e6 }[match[2]]!;
@@ -52,9 +59,14 @@ export const canIdArgument = z
 	.transform((s, ctx) => {
 		if (/^0[xX][0-9a-fA-F]{1,8}$/.test(s)) return Number.parseInt(s.slice(2), 16);
 		if (/^\d{1,10}$/.test(s)) return Number(s);
-		ctx.addIssue({ code: 'custom', message: `ID "${s}" must be hex with a 0x prefix (0x18FEF100) or decimal` });
+		ctx.addIssue({
+			code: 'custom',
+			message: `ID "${s}" must be hex with a 0x prefix (0x18FEF100) or decimal`
+		});
 		return z.NEVER;
 	})
 	.pipe(z.number().max(0x1fffffff, 'ID is above 0x1FFFFFFF, the largest 29-bit identifier'));
 
-export const mapPath = z.string({ error: '--map MAP.json is required' }).min(1, '--map needs a file name');
+export const mapPath = z
+	.string({ error: '--map MAP.json is required' })
+	.min(1, '--map needs a file name');

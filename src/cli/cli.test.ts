@@ -14,9 +14,18 @@ const GENSET_CSV = 'fixtures/genset-idle.csv';
 
 function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
 	return new Promise((resolve) => {
-		execFile(process.execPath, ['--import', 'tsx', 'src/cli/index.ts', ...args], { cwd: ROOT, maxBuffer: 64 << 20 }, (error, stdout, stderr) => {
-			resolve({ code: error ? (typeof error.code === 'number' ? error.code : 1) : 0, stdout, stderr });
-		});
+		execFile(
+			process.execPath,
+			['--import', 'tsx', 'src/cli/index.ts', ...args],
+			{ cwd: ROOT, maxBuffer: 64 << 20 },
+			(error, stdout, stderr) => {
+				resolve({
+					code: error ? (typeof error.code === 'number' ? error.code : 1) : 0,
+					stdout,
+					stderr
+				});
+			}
+		);
 	});
 }
 
@@ -79,7 +88,16 @@ describe('cli decode', () => {
 		expect(series('FuelUsed').length).toBe(paged.filter((f) => f.view.getUint8(0) === 1).length);
 		expect(series('FuelUsed').length).toBeGreaterThan(0);
 		// The undocumented IDs 0x5F8 and 0x640 produce no rows.
-		expect(new Set(rows.map((r) => r.frame))).toEqual(new Set(['EngineCore', 'EngineTemperatures', 'Pressures', 'Drivetrain', 'StatusPaged', 'ChassisMotion']));
+		expect(new Set(rows.map((r) => r.frame))).toEqual(
+			new Set([
+				'EngineCore',
+				'EngineTemperatures',
+				'Pressures',
+				'Drivetrain',
+				'StatusPaged',
+				'ChassisMotion'
+			])
+		);
 	});
 
 	it('decodes the genset capture with J1939 scaling', async () => {
@@ -99,11 +117,16 @@ describe('cli decode', () => {
 	it('reports bad capture rows by line on stderr and keeps the good ones', async () => {
 		const dir = mkdtempSync(join(tmpdir(), 'fw-cli-'));
 		const path = join(dir, 'bad.csv');
-		writeFileSync(path, 'time,id,extended,dlc,data\n0,5F0,0,8,0102030405060708\n0.01,5F0,0,8,01XX\n0.02,5F0,0,8,0102030405060708\n');
+		writeFileSync(
+			path,
+			'time,id,extended,dlc,data\n0,5F0,0,8,0102030405060708\n0.01,5F0,0,8,01XX\n0.02,5F0,0,8,0102030405060708\n'
+		);
 		const result = await cli('decode', '--map', CLUB_MAP, path);
 		expect(result.code).toBe(0);
 		expect(result.stderr).toContain(`${path}:3: "01XX" is not hex bytes`);
-		expect(decodedRows(result.stdout).rows.filter((r) => r.signal === 'EngineSpeed')).toHaveLength(2);
+		expect(decodedRows(result.stdout).rows.filter((r) => r.signal === 'EngineSpeed')).toHaveLength(
+			2
+		);
 		const strict = await cli('decode', '--strict', '--map', CLUB_MAP, path);
 		expect(strict.code).toBe(1);
 	});
@@ -116,7 +139,10 @@ describe('cli calculators', () => {
 		['0x0CF00400', { priority: 3, pgn: 0xf004, sourceAddress: 0x00, destinationAddress: null }],
 		// PF 0xEA < 240: PDU1, PS is the destination address and is not part of the PGN.
 		['0x18EA00F9', { priority: 6, pgn: 0xea00, sourceAddress: 0xf9, destinationAddress: 0x00 }],
-		[String(0x18fef100), { priority: 6, pgn: 0xfef1, sourceAddress: 0x00, destinationAddress: null }]
+		[
+			String(0x18fef100),
+			{ priority: 6, pgn: 0xfef1, sourceAddress: 0x00, destinationAddress: null }
+		]
 	])('j1939 %s', async (id, expected) => {
 		const { code, stdout } = await cli('j1939', id);
 		expect(code).toBe(0);
@@ -160,12 +186,17 @@ describe('cli calculators', () => {
 		expect(code).toBe(0);
 		const load = JSON.parse(stdout);
 		const map = JSON.parse(readFileSync(join(ROOT, CLUB_MAP), 'utf8'));
-		const perSecond = map.frames.reduce((sum: number, f: { cycleMs: number }) => sum + 1000 / f.cycleMs, 0);
+		const perSecond = map.frames.reduce(
+			(sum: number, f: { cycleMs: number }) => sum + 1000 / f.cycleMs,
+			0
+		);
 		// All frames are 8-byte base format. Nominal: 44 + 64 = 108 bits + 3 intermission (ISO 11898-1);
 		// worst case 135 bits including intermission (Davis et al. 2007).
 		expect(load.nominalPercent).toBeCloseTo((100 * perSecond * 111) / 500_000, 9);
 		expect(load.worstCasePercent).toBeCloseTo((100 * perSecond * 135) / 500_000, 9);
-		const at250 = JSON.parse((await cli('bus-load', '--map', CLUB_MAP, '--bitrate', '250k')).stdout);
+		const at250 = JSON.parse(
+			(await cli('bus-load', '--map', CLUB_MAP, '--bitrate', '250k')).stdout
+		);
 		expect(at250.nominalPercent).toBeCloseTo(2 * load.nominalPercent, 9);
 	});
 
@@ -183,12 +214,26 @@ describe('cli calculators', () => {
 			JSON.stringify({
 				format: 'framewright-map@1',
 				name: 'overlap',
-				frames: [{ name: 'F', id: '0x100', signals: [{ name: 'a', startBit: 0, length: 12 }, { name: 'b', startBit: 8, length: 8 }] }]
+				frames: [
+					{
+						name: 'F',
+						id: '0x100',
+						signals: [
+							{ name: 'a', startBit: 0, length: 12 },
+							{ name: 'b', startBit: 8, length: 8 }
+						]
+					}
+				]
 			})
 		);
 		const first = await cli('lint', '--map', overlap);
 		expect(first.code).toBe(1);
-		expect(JSON.parse(first.stdout).some((p: { severity: string; code: string }) => p.severity === 'error' && p.code === 'signal-overlap')).toBe(true);
+		expect(
+			JSON.parse(first.stdout).some(
+				(p: { severity: string; code: string }) =>
+					p.severity === 'error' && p.code === 'signal-overlap'
+			)
+		).toBe(true);
 
 		const broken = join(dir, 'broken.json');
 		writeFileSync(broken, '{\n  "format": "framewright-map@1",\n  "name": "x",,\n}');
@@ -206,22 +251,67 @@ describe('cli bad input', () => {
 		['unknown command', ['frobnicate'], 2, /unknown command "frobnicate"/],
 		['decode without --map', ['decode', CLUB_CSV], 2, /--map MAP.json is required/],
 		['decode without capture', ['decode', '--map', CLUB_MAP], 2, /CAPTURE.csv is required/],
-		['decode unknown option', ['decode', '--mapp', CLUB_MAP, CLUB_CSV], 2, /Unknown option '--mapp'/],
-		['decode missing capture file', ['decode', '--map', CLUB_MAP, 'fixtures/nope.csv'], 1, /nope.csv: no such file/],
-		['decode missing map file', ['decode', '--map', 'nope.json', CLUB_CSV], 1, /nope.json: no such file/],
-		['decode a map that is not a map', ['decode', '--map', CLUB_CSV, CLUB_CSV], 1, /is not a valid map: JSON syntax error/],
-		['decode a capture that is not a capture', ['decode', '--map', CLUB_MAP, CLUB_MAP], 1, /Could not recognise|at least a time|no row/i],
+		[
+			'decode unknown option',
+			['decode', '--mapp', CLUB_MAP, CLUB_CSV],
+			2,
+			/Unknown option '--mapp'/
+		],
+		[
+			'decode missing capture file',
+			['decode', '--map', CLUB_MAP, 'fixtures/nope.csv'],
+			1,
+			/nope.csv: no such file/
+		],
+		[
+			'decode missing map file',
+			['decode', '--map', 'nope.json', CLUB_CSV],
+			1,
+			/nope.json: no such file/
+		],
+		[
+			'decode a map that is not a map',
+			['decode', '--map', CLUB_CSV, CLUB_CSV],
+			1,
+			/is not a valid map: JSON syntax error/
+		],
+		[
+			'decode a capture that is not a capture',
+			['decode', '--map', CLUB_MAP, CLUB_MAP],
+			1,
+			/Could not recognise|at least a time|no row/i
+		],
 		['j1939 without ID', ['j1939'], 2, /exactly one ID/],
 		['j1939 bare hex', ['j1939', '18FEF100'], 2, /0x prefix/],
 		['j1939 ID above 29 bits', ['j1939', '0x20000000'], 2, /above 0x1FFFFFFF/],
 		['frame-bits 11-bit ID too big', ['frame-bits', '--id', '0x800', '--data', '00'], 2, /0…0x7FF/],
-		['frame-bits nine bytes', ['frame-bits', '--id', '0x100', '--data', '000000000000000000'], 2, /0–8 data bytes/],
+		[
+			'frame-bits nine bytes',
+			['frame-bits', '--id', '0x100', '--data', '000000000000000000'],
+			2,
+			/0–8 data bytes/
+		],
 		['frame-bits bad hex', ['frame-bits', '--id', '0x100', '--data', 'zz'], 2, /not hex bytes/],
 		['frame-bits without --data', ['frame-bits', '--id', '0x100'], 2, /--data is required/],
 		['bit-timing without --clock', ['bit-timing', '--bitrate', '500k'], 2, /--clock/],
-		['bit-timing sample point as percent', ['bit-timing', '--clock', '16M', '--bitrate', '500k', '--sample-point', '87.5'], 2, /fraction/],
-		['bit-timing nonsense bitrate', ['bit-timing', '--clock', '16M', '--bitrate', 'fast'], 2, /not a number/],
-		['bus-load bitrate too low', ['bus-load', '--map', CLUB_MAP, '--bitrate', '10'], 2, /at least 1000/],
+		[
+			'bit-timing sample point as percent',
+			['bit-timing', '--clock', '16M', '--bitrate', '500k', '--sample-point', '87.5'],
+			2,
+			/fraction/
+		],
+		[
+			'bit-timing nonsense bitrate',
+			['bit-timing', '--clock', '16M', '--bitrate', 'fast'],
+			2,
+			/not a number/
+		],
+		[
+			'bus-load bitrate too low',
+			['bus-load', '--map', CLUB_MAP, '--bitrate', '10'],
+			2,
+			/at least 1000/
+		],
 		['lint missing file', ['lint', '--map', 'nope.json'], 1, /nope.json: no such file/]
 	] as [string, string[], number, RegExp][])('%s', async (_, args, exitCode, message) => {
 		const { code, stdout, stderr } = await cli(...args);

@@ -7,12 +7,30 @@ import { EXIT, InputError, UsageError } from './errors';
 
 /** Commands load lazily, so each starts fast and pulls in only what it uses. */
 const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command: Command }> }> = {
-	decode: { summary: 'decode --map MAP.json CAPTURE.csv    decoded signal samples as CSV', load: () => import('./commands/decode') },
-	j1939: { summary: 'j1939 ID                             J1939 fields of a 29-bit ID', load: () => import('./commands/j1939') },
-	'frame-bits': { summary: 'frame-bits --id ID [--extended] --data HEX   bits, stuff bits, CRC-15', load: () => import('./commands/frame-bits') },
-	'bit-timing': { summary: 'bit-timing --clock HZ --bitrate BPS [--sample-point F]   controller settings', load: () => import('./commands/bit-timing') },
-	'bus-load': { summary: 'bus-load --map MAP.json [--bitrate BPS]   planned bus load', load: () => import('./commands/bus-load') },
-	lint: { summary: 'lint --map MAP.json                  problems in a map (exit 1 on errors)', load: () => import('./commands/lint') }
+	decode: {
+		summary: 'decode --map MAP.json CAPTURE.csv    decoded signal samples as CSV',
+		load: () => import('./commands/decode')
+	},
+	j1939: {
+		summary: 'j1939 ID                             J1939 fields of a 29-bit ID',
+		load: () => import('./commands/j1939')
+	},
+	'frame-bits': {
+		summary: 'frame-bits --id ID [--extended] --data HEX   bits, stuff bits, CRC-15',
+		load: () => import('./commands/frame-bits')
+	},
+	'bit-timing': {
+		summary: 'bit-timing --clock HZ --bitrate BPS [--sample-point F]   controller settings',
+		load: () => import('./commands/bit-timing')
+	},
+	'bus-load': {
+		summary: 'bus-load --map MAP.json [--bitrate BPS]   planned bus load',
+		load: () => import('./commands/bus-load')
+	},
+	lint: {
+		summary: 'lint --map MAP.json                  problems in a map (exit 1 on errors)',
+		load: () => import('./commands/lint')
+	}
 };
 
 const HELP = `Framewright command line
@@ -34,7 +52,10 @@ export async function main(argv: string[]): Promise<number> {
 		return name === undefined ? EXIT.usage : EXIT.ok;
 	}
 	const entry = Object.hasOwn(COMMANDS, name) ? COMMANDS[name] : undefined;
-	if (!entry) throw new UsageError(`unknown command "${name}"; commands: ${Object.keys(COMMANDS).join(', ')}`);
+	if (!entry)
+		throw new UsageError(
+			`unknown command "${name}"; commands: ${Object.keys(COMMANDS).join(', ')}`
+		);
 	const { command } = await entry.load();
 	if (rest.includes('--help') || rest.includes('-h')) {
 		process.stdout.write(`${command.usage}\n`);

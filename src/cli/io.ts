@@ -22,7 +22,9 @@ export async function readMapFile(path: string): Promise<CanMap> {
 	}
 	const result = parseMap(text);
 	if (!result.ok) {
-		const shown = result.problems.slice(0, 3).map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
+		const shown = result.problems
+			.slice(0, 3)
+			.map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
 		const more = result.problems.length > 3 ? ` (and ${result.problems.length - 3} more)` : '';
 		throw new InputError(`${path} is not a valid map: ${shown.join('; ')}${more}`);
 	}
@@ -57,7 +59,8 @@ export function createOutput(stream: NodeJS.WriteStream = process.stdout) {
 		},
 		async drain() {
 			flush();
-			if (stream.writableNeedDrain) await new Promise<void>((resolve) => stream.once('drain', resolve));
+			if (stream.writableNeedDrain)
+				await new Promise<void>((resolve) => stream.once('drain', resolve));
 		},
 		async end() {
 			flush();
@@ -66,4 +69,5 @@ export function createOutput(stream: NodeJS.WriteStream = process.stdout) {
 	};
 }
 
-export const printJson = (value: unknown) => process.stdout.write(`${JSON.stringify(value, null, 2)}\n`);
+export const printJson = (value: unknown) =>
+	process.stdout.write(`${JSON.stringify(value, null, 2)}\n`);

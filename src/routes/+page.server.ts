@@ -14,7 +14,10 @@ export const actions = {
 		if (!parsed.success) {
 			return fail(400, { errors: fieldErrorsOf(parsed.error) as { name?: string[] }, values });
 		}
-		const workspace = await createWorkspace(event.locals.services.db, { name: parsed.data.name, ownerId: user.id });
+		const workspace = await createWorkspace(event.locals.services.db, {
+			name: parsed.data.name,
+			ownerId: user.id
+		});
 		redirect(303, `/w/${workspace.slug}/maps`);
 	}
 } satisfies Actions;

@@ -10,13 +10,19 @@ const api = '/api/workspaces/quillmoor-club-racing/captures';
 function generatedCapture(n: number): string {
 	const rows = ['time,id,extended,dlc,data'];
 	for (let i = 0; i < n; i++) {
-		const bytes = [i & 0xff, (i >> 8) & 0xff, (i >> 16) & 0xff, 0, 0, 0, 0, 0].map((b) => b.toString(16).toUpperCase().padStart(2, '0'));
-		rows.push(`${(i * 0.001).toFixed(6)},${(0x100 + (i % 16)).toString(16).toUpperCase()},0,8,${bytes.join(' ')}`);
+		const bytes = [i & 0xff, (i >> 8) & 0xff, (i >> 16) & 0xff, 0, 0, 0, 0, 0].map((b) =>
+			b.toString(16).toUpperCase().padStart(2, '0')
+		);
+		rows.push(
+			`${(i * 0.001).toFixed(6)},${(0x100 + (i % 16)).toString(16).toUpperCase()},0,8,${bytes.join(' ')}`
+		);
 	}
 	return rows.join('\n') + '\n';
 }
 
-test('a viewer uploads a 2 MB capture, it is processed in the worker, and refusals are clear', async ({ page }) => {
+test('a viewer uploads a 2 MB capture, it is processed in the worker, and refusals are clear', async ({
+	page
+}) => {
 	await signIn(page, 'tuner@framewright.test');
 
 	const seeded = await page.request.get(api);
@@ -29,22 +35,44 @@ test('a viewer uploads a 2 MB capture, it is processed in the worker, and refusa
 	const frameCount = 50_000;
 	const text = generatedCapture(frameCount);
 	expect(text.length).toBeGreaterThan(2_000_000);
-	const upload = await page.request.post(`${api}?name=generated.csv`, { data: Buffer.from(text), headers: { 'content-type': 'text/csv' } });
+	const upload = await page.request.post(`${api}?name=generated.csv`, {
+		data: Buffer.from(text),
+		headers: { 'content-type': 'text/csv' }
+	});
 	expect(upload.status(), await upload.text()).toBe(201);
-	const { capture, detected } = (await upload.json()) as { capture: { id: string; status: string }; detected: { layout: unknown } };
+	const { capture, detected } = (await upload.json()) as {
+		capture: { id: string; status: string };
+		detected: { layout: unknown };
+	};
 	expect(capture.status).toBe('uploaded');
 
-	const started = await page.request.post(`${api}/${capture.id}/process`, { data: { layout: detected.layout } });
+	const started = await page.request.post(`${api}/${capture.id}/process`, {
+		data: { layout: detected.layout }
+	});
 	expect(started.status()).toBe(202);
 	await expect
-		.poll(async () => ((await (await page.request.get(`${api}/${capture.id}/status`)).json()) as { status: string }).status, { timeout: 30_000 })
+		.poll(
+			async () =>
+				(
+					(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
+						status: string;
+					}
+				).status,
+			{ timeout: 30_000 }
+		)
 		.toBe('ready');
-	const detail = (await (await page.request.get(`${api}/${capture.id}`)).json()) as { capture: { frameCount: number; durationS: number }; report: { badRowCount: number } };
+	const detail = (await (await page.request.get(`${api}/${capture.id}`)).json()) as {
+		capture: { frameCount: number; durationS: number };
+		report: { badRowCount: number };
+	};
 	expect(detail.capture.frameCount).toBe(frameCount);
 	expect(detail.capture.durationS).toBeCloseTo((frameCount - 1) * 0.001, 6);
 	expect(detail.report.badRowCount).toBe(0);
 
-	const binary = await page.request.post(`${api}?name=logger.bin`, { data: Buffer.alloc(10_000, 0), headers: { 'content-type': 'application/octet-stream' } });
+	const binary = await page.request.post(`${api}?name=logger.bin`, {
+		data: Buffer.alloc(10_000, 0),
+		headers: { 'content-type': 'application/octet-stream' }
+	});
 	expect(binary.status()).toBe(415);
 	expect(((await binary.json()) as { error: string }).error).toContain('binary data');
 

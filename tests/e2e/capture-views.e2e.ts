@@ -28,12 +28,19 @@ const coolantTemp = (view: DataView) => view.getUint8(0) - 40;
 function channelReference(id: number, read: (v: DataView) => number) {
 	const mine = rows.filter((r) => r.id === id);
 	const values = mine.map((r) => read(r.view));
-	return { min: Math.min(...values), max: Math.max(...values), first: relative(mine[0].time), last: relative(mine[mine.length - 1].time) };
+	return {
+		min: Math.min(...values),
+		max: Math.max(...values),
+		first: relative(mine[0].time),
+		last: relative(mine[mine.length - 1].time)
+	};
 }
 
 /** Change counts per payload bit (design.md numbering = bits of the payload as a little-endian BigInt). */
 function referenceBitChanges(id: number): number[] {
-	const payloads = rows.filter((r) => r.id === id).map((r) => new DataView(r.bytes.buffer).getBigUint64(0, true));
+	const payloads = rows
+		.filter((r) => r.id === id)
+		.map((r) => new DataView(r.bytes.buffer).getBigUint64(0, true));
 	const changes = new Array<number>(64).fill(0);
 	for (let i = 1; i < payloads.length; i++) {
 		const x = payloads[i] ^ payloads[i - 1];
@@ -54,11 +61,20 @@ function referenceBam() {
 	for (const r of rows) {
 		const pf = (r.id >> 16) & 0xff;
 		if (pf === 0xec && r.bytes[0] === 32) {
-			open = { size: r.bytes[1] | (r.bytes[2] << 8), pgn: r.bytes[5] | (r.bytes[6] << 8) | (r.bytes[7] << 16), data: [], sourceAddress: r.id & 0xff };
+			open = {
+				size: r.bytes[1] | (r.bytes[2] << 8),
+				pgn: r.bytes[5] | (r.bytes[6] << 8) | (r.bytes[7] << 16),
+				data: [],
+				sourceAddress: r.id & 0xff
+			};
 		} else if (pf === 0xeb && open) {
 			open.data.push(...r.bytes.slice(1));
 			if (open.data.length >= open.size) {
-				messages.push({ pgn: open.pgn, sourceAddress: open.sourceAddress, data: open.data.slice(0, open.size) });
+				messages.push({
+					pgn: open.pgn,
+					sourceAddress: open.sourceAddress,
+					data: open.data.slice(0, open.size)
+				});
 				open = null;
 			}
 		}
@@ -75,19 +91,36 @@ function dm1Codes(data: number[]) {
 	return codes;
 }
 
-const hex = (bytes: ArrayLike<number>) => Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
+const hex = (bytes: ArrayLike<number>) =>
+	Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
 
 // ---- Getting the capture decoded (upload and processing are K1's routes; the journey test drives their UI) ----
 
 async function uploadAndProcess(page: Page): Promise<string> {
 	const api = `/api/workspaces/${slug}/captures`;
-	const upload = await page.request.post(`${api}?name=genset-idle.csv`, { data: readFileSync(capturePath), headers: { 'content-type': 'text/csv' } });
+	const upload = await page.request.post(`${api}?name=genset-idle.csv`, {
+		data: readFileSync(capturePath),
+		headers: { 'content-type': 'text/csv' }
+	});
 	expect(upload.status()).toBe(201);
-	const { capture, detected } = (await upload.json()) as { capture: { id: string }; detected: { layout: unknown } };
-	const process = await page.request.post(`${api}/${capture.id}/process`, { data: { layout: detected.layout } });
+	const { capture, detected } = (await upload.json()) as {
+		capture: { id: string };
+		detected: { layout: unknown };
+	};
+	const process = await page.request.post(`${api}/${capture.id}/process`, {
+		data: { layout: detected.layout }
+	});
 	expect(process.status()).toBe(202);
 	await expect
-		.poll(async () => ((await (await page.request.get(`${api}/${capture.id}/status`)).json()) as { status: string }).status, { timeout: 60_000 })
+		.poll(
+			async () =>
+				(
+					(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
+						status: string;
+					}
+				).status,
+			{ timeout: 60_000 }
+		)
 		.toBe('ready');
 	return capture.id;
 }
@@ -99,7 +132,9 @@ async function decodeWithLatest(page: Page) {
 	const latest = (await revision.locator('option', { hasText: '(latest)' }).innerText()).trim();
 	await revision.selectOption({ label: latest });
 	await panel.getByRole('button', { name: 'Decode' }).click();
-	await expect(page.getByText(`Showing the decode with ${mapName}`)).toBeVisible({ timeout: 30_000 });
+	await expect(page.getByText(`Showing the decode with ${mapName}`)).toBeVisible({
+		timeout: 30_000
+	});
 }
 
 test('the capture views show the genset capture as the fixture bytes say', async ({ page }) => {
@@ -125,7 +160,9 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	await expect(summary).toContainText(`ET1 · CoolantTemp: ${coolant.min} to ${coolant.max} °C`);
 
 	// Zoom in halves the window around its middle and asks the server for that window only.
-	const zoomed = page.waitForRequest((r) => r.url().includes('/series?') && r.url().includes('from='));
+	const zoomed = page.waitForRequest(
+		(r) => r.url().includes('/series?') && r.url().includes('from=')
+	);
 	await plot.getByRole('button', { name: 'Zoom in' }).click();
 	const request = new URL((await zoomed).url());
 	const span = to - from;
@@ -134,7 +171,9 @@ test('the capture views show the genset capture as the fixture bytes say', async
 
 	// Arrow right on the focused plot pans a quarter of the window later.
 	await plot.locator('[aria-roledescription="plot"]').focus();
-	const panned = page.waitForRequest((r) => r.url().includes('/series?') && r.url().includes('from='));
+	const panned = page.waitForRequest(
+		(r) => r.url().includes('/series?') && r.url().includes('from=')
+	);
 	await page.keyboard.press('ArrowRight');
 	const pan = new URL((await panned).url());
 	expect(Number(pan.searchParams.get('from'))).toBeCloseTo(from + span / 4 + span / 8, 6);
@@ -142,7 +181,9 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	// A drag across a plot zooms to the dragged span (narrower than the current half window).
 	const over = plot.locator('.u-over').first();
 	const box = (await over.boundingBox())!;
-	const dragged = page.waitForRequest((r) => r.url().includes('/series?') && r.url().includes('from='));
+	const dragged = page.waitForRequest(
+		(r) => r.url().includes('/series?') && r.url().includes('from=')
+	);
 	await page.mouse.move(box.x + box.width * 0.3, box.y + box.height / 2);
 	await page.mouse.down();
 	await page.mouse.move(box.x + box.width * 0.5, box.y + box.height / 2, { steps: 5 });
@@ -156,23 +197,31 @@ test('the capture views show the genset capture as the fixture bytes say', async
 
 	// ---- Frames table: length, filter by ID, a frame's decoded signals, the far end of the list. ----
 	const frames = page.getByRole('region', { name: 'Frames' });
-	await expect(frames.getByRole('status').first()).toHaveText(`${rows.length.toLocaleString('en')} frames`);
+	await expect(frames.getByRole('status').first()).toHaveText(
+		`${rows.length.toLocaleString('en')} frames`
+	);
 	const table = frames.getByRole('table', { name: 'Captured frames' });
 	await expect(table.getByRole('row').nth(1)).toContainText(hex(rows[0].bytes));
 	await frames.getByLabel('Filter by ID (hex)').fill('0CF00400');
 	await frames.getByRole('button', { name: 'Filter' }).click();
 	const eec1Rows = rows.filter((r) => r.id === EEC1);
-	await expect(frames.getByRole('status').first()).toHaveText(`${eec1Rows.length.toLocaleString('en')} frames with ID 0x0CF00400`);
+	await expect(frames.getByRole('status').first()).toHaveText(
+		`${eec1Rows.length.toLocaleString('en')} frames with ID 0x0CF00400`
+	);
 	await table.getByRole('row').nth(1).click();
 	const signals = frames.getByRole('table', { name: /^Decoded signals of frame/ });
-	await expect(signals.getByRole('row', { name: /^EngineSpeed/ })).toContainText(`${engineSpeed(eec1Rows[0].view)} rpm`);
+	await expect(signals.getByRole('row', { name: /^EngineSpeed/ })).toContainText(
+		`${engineSpeed(eec1Rows[0].view)} rpm`
+	);
 	await frames.getByRole('button', { name: 'Show all frames' }).click();
 	await frames.getByLabel('Filter by ID (hex)').fill('not-hex');
 	await frames.getByRole('button', { name: 'Filter' }).click();
 	await expect(frames.getByText('Enter a CAN ID in hex')).toBeVisible();
 	// Scrolled to the bottom, the virtual window renders the last frame.
 	await table.locator('xpath=..').evaluate((el) => (el.scrollTop = el.scrollHeight));
-	await expect(table.getByRole('row', { name: new RegExp(`^${rows.length - 1} `) })).toContainText(hex(rows[rows.length - 1].bytes));
+	await expect(table.getByRole('row', { name: new RegExp(`^${rows.length - 1} `) })).toContainText(
+		hex(rows[rows.length - 1].bytes)
+	);
 
 	// ---- Unknown IDs: a proprietary PGN's bit activity equals the BigInt reference. ----
 	const unknown = page.getByRole('region', { name: 'Unknown IDs' });
@@ -183,7 +232,10 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	const frameCount = rows.filter((r) => r.id === proprietary).length;
 	for (const bit of [0, 1, 7, 8, 12, 20, 63]) {
 		const cell = grid.locator(`td[data-bit="${bit}"]`);
-		await expect(cell).toHaveAttribute('title', new RegExp(`^Payload bit ${bit}: ${expected[bit].toLocaleString('en')} changes`));
+		await expect(cell).toHaveAttribute(
+			'title',
+			new RegExp(`^Payload bit ${bit}: ${expected[bit].toLocaleString('en')} changes`)
+		);
 		// Numbers appear on focus
 		if (bit === 0) {
 			await cell.focus();
@@ -203,8 +255,12 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	const j1939 = page.getByRole('region', { name: 'J1939' });
 	const bam = referenceBam();
 	expect(bam.length).toBeGreaterThan(0);
-	await expect(j1939.getByRole('table', { name: 'Reassembled multi-packet messages' }).getByRole('row')).toHaveCount(bam.length + 1);
-	await expect(j1939.getByRole('table', { name: 'Reassembled multi-packet messages' }).getByRole('row').nth(1)).toContainText(hex(bam[0].data));
+	await expect(
+		j1939.getByRole('table', { name: 'Reassembled multi-packet messages' }).getByRole('row')
+	).toHaveCount(bam.length + 1);
+	await expect(
+		j1939.getByRole('table', { name: 'Reassembled multi-packet messages' }).getByRole('row').nth(1)
+	).toContainText(hex(bam[0].data));
 	const dm1 = bam.find((m) => m.pgn === 0xfeca)!; // DM1 is PGN 65226 (SAE J1939-73)
 	const codes = j1939.getByRole('table', { name: 'DM1 trouble codes' });
 	const expectedCodes = dm1Codes(dm1.data);
@@ -216,7 +272,9 @@ test('the capture views show the genset capture as the fixture bytes say', async
 			.filter({ has: page.getByRole('cell', { name: String(code.fmi), exact: true }) });
 		await expect(row).toHaveCount(1);
 		const cells = row.getByRole('cell');
-		await expect(cells.nth(1)).toHaveText(`${dm1.sourceAddress} (0x${dm1.sourceAddress.toString(16).toUpperCase().padStart(2, '0')})`);
+		await expect(cells.nth(1)).toHaveText(
+			`${dm1.sourceAddress} (0x${dm1.sourceAddress.toString(16).toUpperCase().padStart(2, '0')})`
+		);
 		await expect(cells.nth(4)).toHaveText(String(code.occurrenceCount));
 	}
 	// Lamp byte 0x04: amber warning lamp bits 4–3 = 01 = on (SAE J1939-73, from memory).
@@ -233,7 +291,9 @@ test('an editor defines an unknown ID into the map draft, once', async ({ page }
 	const unknown = page.getByRole('region', { name: 'Unknown IDs' });
 	await unknown.getByRole('button', { name: 'Bit activity of 0x18FF1127' }).click();
 	await unknown.getByRole('button', { name: 'Define this frame' }).click();
-	await expect(unknown.getByRole('status')).toContainText("0x18FF1127 was added to the map's draft");
+	await expect(unknown.getByRole('status')).toContainText(
+		"0x18FF1127 was added to the map's draft"
+	);
 	// The draft now defines it, so a second try is refused with the server's reason (409).
 	const refused = page.waitForResponse((r) => r.url().includes('/define-frame'));
 	await unknown.getByRole('button', { name: 'Define this frame' }).click();

@@ -21,6 +21,11 @@ export function readFixtureRows(path: string): FixtureRow[] {
 		.map((line) => {
 			const [time, id, , , data] = line.split(',');
 			const bytes = Uint8Array.from(data.trim().split(/\s+/), (h) => Number.parseInt(h, 16));
-			return { time: Number(time), id: Number.parseInt(id, 16), bytes, view: new DataView(bytes.buffer) };
+			return {
+				time: Number(time),
+				id: Number.parseInt(id, 16),
+				bytes,
+				view: new DataView(bytes.buffer)
+			};
 		});
 }

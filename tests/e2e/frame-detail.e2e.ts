@@ -11,7 +11,16 @@ const mapJson = JSON.stringify({
 			id: '0x360',
 			length: 8,
 			cycleMs: 20,
-			signals: [{ name: 'OilPressure', startBit: 0, length: 16, byteOrder: 'little', scale: 0.1, unit: 'kPa' }]
+			signals: [
+				{
+					name: 'OilPressure',
+					startBit: 0,
+					length: 16,
+					byteOrder: 'little',
+					scale: 0.1,
+					unit: 'kPa'
+				}
+			]
 		}
 	]
 });
@@ -30,7 +39,9 @@ async function setUp(page: Page): Promise<{ slug: string; mapId: string }> {
 }
 
 const cell = (page: Page, byte: number, bit: number): Locator =>
-	page.getByRole('grid', { name: 'Bit layout' }).getByRole('gridcell', { name: new RegExp(`^Byte ${byte} bit ${bit}:`) });
+	page
+		.getByRole('grid', { name: 'Bit layout' })
+		.getByRole('gridcell', { name: new RegExp(`^Byte ${byte} bit ${bit}:`) });
 
 async function dragAcross(page: Page, from: Locator, to: Locator): Promise<void> {
 	await from.hover();
@@ -53,7 +64,9 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	await page.getByLabel('Drag places new signals as').selectOption('big');
 	await dragAcross(page, cell(page, 2, 7), cell(page, 3, 0));
 	const signals = page.getByRole('table', { name: 'Signals' });
-	const newRow = signals.getByRole('row').filter({ has: page.getByRole('button', { name: 'Select signal Signal_2' }) });
+	const newRow = signals
+		.getByRole('row')
+		.filter({ has: page.getByRole('button', { name: 'Select signal Signal_2' }) });
 	await expect(newRow.getByRole('cell').nth(0)).toHaveText('24');
 	await expect(newRow.getByRole('cell').nth(1)).toHaveText('16');
 	await expect(newRow.getByRole('cell').nth(2)).toHaveText('big');
@@ -73,7 +86,9 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	await expect(page.getByLabel('Start bit')).toHaveValue('16');
 	const layoutProblems = page.getByRole('list', { name: 'Layout problems' });
 	await expect(layoutProblems).toContainText('Overlap: OilPressure and Boost');
-	await expect(page.getByRole('list', { name: 'Lint problems in this frame' })).toContainText('"Boost" overlaps "OilPressure"');
+	await expect(page.getByRole('list', { name: 'Lint problems in this frame' })).toContainText(
+		'"Boost" overlaps "OilPressure"'
+	);
 	await expect(cell(page, 1, 0)).toHaveAccessibleName(/overlap$/);
 
 	// ↓ moves it back; Shift+→ shortens and Shift+← lengthens by one bit.
@@ -115,7 +130,10 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	// Someone else saves first: this page's save is refused with a clear message, nothing overwritten.
 	const current = await (await page.request.get(`/api/workspaces/${slug}/maps/${mapId}`)).json();
 	const other = await page.request.put(`/api/workspaces/${slug}/maps/${mapId}/draft`, {
-		data: { version: current.map.version, draft: { ...current.map.draft, name: 'Renamed elsewhere' } }
+		data: {
+			version: current.map.version,
+			draft: { ...current.map.draft, name: 'Renamed elsewhere' }
+		}
 	});
 	expect(other.status()).toBe(200);
 	await page.getByLabel('Comment').fill('edited after someone else saved');
@@ -128,5 +146,8 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	// Lint links can open the frame with a signal selected.
 	await page.goto(`/w/${slug}/maps/${mapId}/frames/0?signal=1`);
 	await expect(page.getByRole('heading', { name: 'Signal details: Boost' })).toBeVisible();
-	await expect(page.getByRole('button', { name: 'Select signal Boost' })).toHaveAttribute('aria-pressed', 'true');
+	await expect(page.getByRole('button', { name: 'Select signal Boost' })).toHaveAttribute(
+		'aria-pressed',
+		'true'
+	);
 });

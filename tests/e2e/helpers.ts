@@ -22,14 +22,21 @@ export async function signIn(page: Page, email: string, callbackUrl?: string): P
 		return page.getByRole('link', { name: /sign-in link/i }).count();
 	};
 	const before = await signInMails();
-	await page.goto(callbackUrl ? `/signin?callbackUrl=${encodeURIComponent(callbackUrl)}` : '/signin');
+	await page.goto(
+		callbackUrl ? `/signin?callbackUrl=${encodeURIComponent(callbackUrl)}` : '/signin'
+	);
 	await page.getByLabel('E-mail address').fill(email);
 	await page.getByRole('button', { name: 'E-mail me a sign-in link' }).click();
 	await expect(page.getByRole('heading', { name: 'Check your inbox' })).toBeVisible();
-	await expect.poll(signInMails, { message: `no new sign-in mail reached ${email}` }).toBeGreaterThan(before);
+	await expect
+		.poll(signInMails, { message: `no new sign-in mail reached ${email}` })
+		.toBeGreaterThan(before);
 
 	await openNewestMail(page, email, /sign-in link/i);
-	const link = page.getByRole('region', { name: 'Links in this message' }).getByRole('link').first();
+	const link = page
+		.getByRole('region', { name: 'Links in this message' })
+		.getByRole('link')
+		.first();
 	const href = await link.getAttribute('href');
 	if (!href) throw new Error(`the sign-in mail to ${email} carries no link`);
 	await link.click();
@@ -38,7 +45,11 @@ export async function signIn(page: Page, email: string, callbackUrl?: string): P
 }
 
 /** Creates a blank map from a workspace's maps list, as an editor does; returns the new map page's path. */
-export async function createBlankMap(page: Page, workspace: string, mapName: string): Promise<string> {
+export async function createBlankMap(
+	page: Page,
+	workspace: string,
+	mapName: string
+): Promise<string> {
 	await page.goto(`/w/${workspace}/maps`);
 	await page.getByLabel('Map name').fill(mapName);
 	await page.getByRole('button', { name: 'Create blank map' }).click();

@@ -27,13 +27,19 @@ test('an owner invites a colleague, makes them Viewer, and the server refuses th
 	await owner.getByLabel('Role', { exact: true }).selectOption('editor');
 	await owner.getByRole('button', { name: 'Send invitation' }).click();
 	await expect(owner.getByText(`Invitation sent to ${colleagueEmail}.`)).toBeVisible();
-	await expect(owner.getByRole('button', { name: `Revoke invitation for ${colleagueEmail}` })).toBeVisible();
+	await expect(
+		owner.getByRole('button', { name: `Revoke invitation for ${colleagueEmail}` })
+	).toBeVisible();
 
 	// The colleague, in a browser of their own, opens the e-mailed invitation, signs in and accepts.
 	const colleagueContext = await browser.newContext();
 	const colleague = await colleagueContext.newPage();
 	await openNewestMail(colleague, colleagueEmail, /invitation to the workspace/i);
-	await colleague.getByRole('region', { name: 'Links in this message' }).getByRole('link').first().click();
+	await colleague
+		.getByRole('region', { name: 'Links in this message' })
+		.getByRole('link')
+		.first()
+		.click();
 	await expect(colleague.getByRole('heading', { name: 'Workspace invitation' })).toBeVisible();
 	await expect(colleague.getByText(workspaceName)).toBeVisible();
 	const invitationPath = new URL(colleague.url()).pathname;
@@ -53,7 +59,9 @@ test('an owner invites a colleague, makes them Viewer, and the server refuses th
 	await expect(colleagueRole).toHaveValue('editor');
 	await colleagueRole.selectOption('viewer');
 	await expect(owner.getByText(`${colleagueEmail} is now Viewer.`)).toBeVisible();
-	await expect(owner.getByRole('button', { name: `Revoke invitation for ${colleagueEmail}` })).toHaveCount(0);
+	await expect(
+		owner.getByRole('button', { name: `Revoke invitation for ${colleagueEmail}` })
+	).toHaveCount(0);
 
 	// The viewer sees the members but none of the owner's controls…
 	await colleague.goto(`/w/${slug}/members`);
@@ -69,7 +77,9 @@ test('an owner invites a colleague, makes them Viewer, and the server refuses th
 	const overview = await (await colleague.request.get(`/api/workspaces/${slug}/members`)).json();
 	expect(overview.myRole).toBe('viewer');
 	expect(overview.invitations).toEqual([]);
-	const ownerId: string = overview.members.find((m: { email: string }) => m.email === ownerEmail).userId;
+	const ownerId: string = overview.members.find(
+		(m: { email: string }) => m.email === ownerEmail
+	).userId;
 
 	const demote = await colleague.request.patch(`/api/workspaces/${slug}/members/${ownerId}`, {
 		data: { role: 'viewer' }

@@ -22,14 +22,23 @@ async function dragAcross(page: Page, from: Locator, to: Locator): Promise<void>
 }
 
 /** Places a big-endian 16-bit signal over two bytes and names and scales it in the signal details. */
-async function placeSignal(page: Page, firstByte: number, name: string, scale: string): Promise<void> {
+async function placeSignal(
+	page: Page,
+	firstByte: number,
+	name: string,
+	scale: string
+): Promise<void> {
 	// With a signal selected a drag moves it; with none selected it places a new one.
 	await page.getByLabel('Selected signal').selectOption('');
 	await page.getByLabel('Drag places new signals as').selectOption('big');
 	await dragAcross(page, bit(page, firstByte, 7), bit(page, firstByte + 1, 0));
 	await page.getByLabel('Name', { exact: true }).fill(name);
 	await page.getByLabel('Scale').fill(scale);
-	await expect(page.getByRole('table', { name: 'Signals' }).getByRole('button', { name: `Select signal ${name}` })).toBeVisible();
+	await expect(
+		page
+			.getByRole('table', { name: 'Signals' })
+			.getByRole('button', { name: `Select signal ${name}` })
+	).toBeVisible();
 }
 
 async function saveFramePage(page: Page): Promise<void> {
@@ -43,7 +52,9 @@ async function publish(page: Page, number: number, note: string): Promise<void> 
 	await dialog.getByLabel('Revision note').fill(note);
 	await dialog.getByRole('button', { name: `Publish r${number}` }).click();
 	await expect(page.getByText(`Published r${number}.`)).toBeVisible();
-	await expect(page.getByRole('list', { name: 'Revision history' }).getByRole('link', { name: `r${number}` })).toBeVisible();
+	await expect(
+		page.getByRole('list', { name: 'Revision history' }).getByRole('link', { name: `r${number}` })
+	).toBeVisible();
 }
 
 test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a share link works until revoked', async ({
@@ -70,21 +81,31 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	await editor.keyboard.press('Enter');
 	await editor.getByLabel('Cycle (ms) of EngineStatus', { exact: true }).fill('20');
 	await editor.keyboard.press('Escape'); // Escape drops the edit…
-	await expect(editor.getByRole('gridcell', { name: 'Cycle (ms) of EngineStatus: empty' })).toBeVisible();
+	await expect(
+		editor.getByRole('gridcell', { name: 'Cycle (ms) of EngineStatus: empty' })
+	).toBeVisible();
 	await editor.keyboard.press('Enter'); // …Enter edits again and commits
 	await editor.getByLabel('Cycle (ms) of EngineStatus', { exact: true }).fill('20');
 	await editor.keyboard.press('Enter');
 	const frames = editor.getByRole('grid', { name: 'Frames' });
-	await expect(frames.getByRole('gridcell', { name: 'CAN ID of EngineStatus: 0x360' })).toBeVisible();
-	await expect(frames.getByRole('gridcell', { name: 'Cycle (ms) of EngineStatus: 20' })).toBeVisible();
+	await expect(
+		frames.getByRole('gridcell', { name: 'CAN ID of EngineStatus: 0x360' })
+	).toBeVisible();
+	await expect(
+		frames.getByRole('gridcell', { name: 'Cycle (ms) of EngineStatus: 20' })
+	).toBeVisible();
 	// A value the map schema refuses is explained and not applied.
 	await editor.keyboard.press('ArrowLeft'); // Length (bytes)
 	await editor.keyboard.press('Enter');
 	await editor.getByLabel('Length (bytes) of EngineStatus', { exact: true }).fill('9');
 	await editor.keyboard.press('Enter');
-	await expect(editor.getByRole('alert')).toContainText('payload length must be 0–8, 12, 16, 20, 24, 32, 48 or 64 bytes');
+	await expect(editor.getByRole('alert')).toContainText(
+		'payload length must be 0–8, 12, 16, 20, 24, 32, 48 or 64 bytes'
+	);
 	await editor.keyboard.press('Escape');
-	await expect(frames.getByRole('gridcell', { name: 'Length (bytes) of EngineStatus: 8' })).toBeVisible();
+	await expect(
+		frames.getByRole('gridcell', { name: 'Length (bytes) of EngineStatus: 8' })
+	).toBeVisible();
 	await editor.getByRole('button', { name: 'Save draft' }).click();
 	await expect(editor.getByText('Draft saved.')).toBeVisible();
 
@@ -139,7 +160,9 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 
 	// The comparison defaults to the previous revision against the latest.
 	await editor.getByRole('button', { name: 'Show differences' }).click();
-	await expect(editor.getByRole('heading', { level: 1, name: 'Changes from r1 to r2' })).toBeVisible();
+	await expect(
+		editor.getByRole('heading', { level: 1, name: 'Changes from r1 to r2' })
+	).toBeVisible();
 	const boostChanges = editor.getByRole('list', { name: 'Signal differences in EngineStatus' });
 	await expect(boostChanges).toContainText('Changed signal Boost');
 	const scaleRow = boostChanges.getByRole('row', { name: /^scale/ });
@@ -167,7 +190,14 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	await viewer.goto(mapPath);
 	await expect(viewer.getByText('Read only: your role here is Viewer.')).toBeVisible();
 	await expect(viewer.getByRole('table', { name: 'Frames' })).toContainText('EngineStatus');
-	for (const name of ['Add frame', 'Save draft', 'Publish…', 'Create share link', /^Restore/, /^Delete frame/]) {
+	for (const name of [
+		'Add frame',
+		'Save draft',
+		'Publish…',
+		'Create share link',
+		/^Restore/,
+		/^Delete frame/
+	]) {
 		await expect(viewer.getByRole('button', { name })).toHaveCount(0);
 	}
 	await expect(viewer.getByRole('grid', { name: 'Frames' })).toHaveCount(0);

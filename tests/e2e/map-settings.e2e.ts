@@ -6,7 +6,9 @@ const WORKSPACE = 'quillmoor-club-racing';
 const OWNER = 'owner@framewright.test';
 const EDITOR = 'calibrator@framewright.test';
 
-test('an editor renames a map and sets its bit rate but cannot delete it; the owner deletes it', async ({ browser }) => {
+test('an editor renames a map and sets its bit rate but cannot delete it; the owner deletes it', async ({
+	browser
+}) => {
 	const mapName = `Gearbox node ${Date.now().toString(36)}`;
 	const editorContext = await browser.newContext();
 	const editor = await editorContext.newPage();

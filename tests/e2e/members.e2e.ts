@@ -10,7 +10,10 @@ test('members page: field errors sit next to the field, revoke works, the last o
 	await page.getByLabel('Workspace name').fill('Harness bench');
 	await page.getByRole('button', { name: 'Create workspace' }).click();
 	await expect(page).toHaveURL(/\/maps$/);
-	await page.getByRole('navigation', { name: 'Workspace' }).getByRole('link', { name: 'Members' }).click();
+	await page
+		.getByRole('navigation', { name: 'Workspace' })
+		.getByRole('link', { name: 'Members' })
+		.click();
 
 	// A bad address is refused by the server and the reason is tied to the field (aria-describedby).
 	const address = page.getByLabel('E-mail address');
@@ -30,7 +33,9 @@ test('members page: field errors sit next to the field, revoke works, the last o
 	await expect(page.getByText(`Invitation sent to ${invitee}.`)).toBeVisible();
 	await page.getByRole('button', { name: `Revoke invitation for ${invitee}` }).click();
 	await expect(page.getByText(`Invitation for ${invitee} revoked.`)).toBeVisible();
-	await expect(page.getByRole('button', { name: `Revoke invitation for ${invitee}` })).toHaveCount(0);
+	await expect(page.getByRole('button', { name: `Revoke invitation for ${invitee}` })).toHaveCount(
+		0
+	);
 
 	// The only owner cannot leave (no button) nor demote themself (the server's 409 is shown).
 	await expect(page.getByRole('button', { name: 'Leave workspace' })).toHaveCount(0);

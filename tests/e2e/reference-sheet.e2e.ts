@@ -9,15 +9,23 @@ const fixture = JSON.parse(readFileSync('fixtures/club-racer-ecu.map.json', 'utf
 	alertRules: { name: string; severity: 'advisory' | 'critical'; setpoint: number }[];
 };
 
-test('a viewer opens the printable reference sheet of r1: every frame and the alert limits, named by revision', async ({ page }) => {
+test('a viewer opens the printable reference sheet of r1: every frame and the alert limits, named by revision', async ({
+	page
+}) => {
 	await signIn(page, 'tuner@framewright.test');
 	await page.goto('/w/quillmoor-club-racing/maps');
 	await page.getByRole('link', { name: fixture.name }).click();
-	await page.getByRole('list', { name: 'Revision history' }).getByRole('link', { name: 'Reference sheet' }).last().click();
+	await page
+		.getByRole('list', { name: 'Revision history' })
+		.getByRole('link', { name: 'Reference sheet' })
+		.last()
+		.click();
 
 	await expect(page.getByRole('heading', { level: 1, name: `${fixture.name} — r1` })).toBeVisible();
 	for (const frame of fixture.frames) {
-		await expect(page.getByRole('heading', { level: 2, name: new RegExp(`^${frame.name} `) })).toBeVisible();
+		await expect(
+			page.getByRole('heading', { level: 2, name: new RegExp(`^${frame.name} `) })
+		).toBeVisible();
 	}
 	const rules = page.getByRole('table', { name: `Alert rules of ${fixture.name} r1` });
 	for (const rule of fixture.alertRules) {

@@ -15,7 +15,9 @@ async function bodyBackground(page: Page): Promise<string> {
 	return page.evaluate(() => getComputedStyle(document.body).backgroundColor);
 }
 
-test('signed out: the landing states the job and offers sign-in; the skip link comes first', async ({ page }) => {
+test('signed out: the landing states the job and offers sign-in; the skip link comes first', async ({
+	page
+}) => {
 	await page.goto('/');
 	await expect(page.getByRole('main')).toContainText('CAN buses');
 	await expect(page.getByRole('main').getByRole('link', { name: 'Sign in' })).toBeVisible();
@@ -28,7 +30,9 @@ test('signed out: the landing states the job and offers sign-in; the skip link c
 	await expect(page.getByRole('main')).toBeFocused();
 });
 
-test('a sign-in link used a second time gets a clear message, not a session', async ({ browser }) => {
+test('a sign-in link used a second time gets a clear message, not a session', async ({
+	browser
+}) => {
 	const first = await browser.newContext();
 	const link = await signIn(await first.newPage(), uniqueEmail('once'));
 	await first.close();
@@ -45,7 +49,9 @@ test('a sign-in link used a second time gets a clear message, not a session', as
 	await second.close();
 });
 
-test('keyboard only: Tab reaches the skip link, switcher, navigation and user menu', async ({ page }) => {
+test('keyboard only: Tab reaches the skip link, switcher, navigation and user menu', async ({
+	page
+}) => {
 	await signIn(page, uniqueEmail('keys'));
 	await page.goto('/');
 	await page.getByLabel('Workspace name').fill('Keyboard bench');
@@ -62,11 +68,23 @@ test('keyboard only: Tab reaches the skip link, switcher, navigation and user me
 		seen.push(await focusedName(page));
 	}
 	expect(seen[0]).toBe('a:Skip to content');
-	const order = ['Skip to content', 'Framewright home', 'Workspace:', 'Maps', 'Captures', 'Tools', 'Members', 'Account menu'];
+	const order = [
+		'Skip to content',
+		'Framewright home',
+		'Workspace:',
+		'Maps',
+		'Captures',
+		'Tools',
+		'Members',
+		'Account menu'
+	];
 	let at = -1;
 	for (const expected of order) {
 		const found = seen.findIndex((s, i) => i > at && s.includes(expected));
-		expect(found, `"${expected}" reached by Tab after position ${at} in ${JSON.stringify(seen)}`).toBeGreaterThan(at);
+		expect(
+			found,
+			`"${expected}" reached by Tab after position ${at} in ${JSON.stringify(seen)}`
+		).toBeGreaterThan(at);
 		at = found;
 	}
 	// The active section is marked for assistive technology.

@@ -10,7 +10,9 @@ const WORKSPACE = 'quillmoor-club-racing';
 const VIEWER = 'tuner@framewright.test';
 const DEMO_MAP = 'Club racer engine controller';
 
-test('a viewer computes a bit timing, sees a map revision’s bus load and opens the wiring checklist', async ({ page }) => {
+test('a viewer computes a bit timing, sees a map revision’s bus load and opens the wiring checklist', async ({
+	page
+}) => {
 	await signIn(page, VIEWER);
 	await page.goto(`/w/${WORKSPACE}/tools`);
 	await expect(page.getByRole('heading', { level: 1, name: 'Tools' })).toBeVisible();
@@ -34,23 +36,39 @@ test('a viewer computes a bit timing, sees a map revision’s bus load and opens
 	// A nonsense clock is refused with a message next to the field, not a table.
 	await calculator.getByLabel('Controller clock (Hz)').fill('16 MHz');
 	await calculator.getByRole('button', { name: 'Calculate settings' }).click();
-	await expect(calculator.getByText('The controller clock must be a plain number, like 16000000.')).toBeVisible();
+	await expect(
+		calculator.getByText('The controller clock must be a plain number, like 16000000.')
+	).toBeVisible();
 	await expect(settings).toHaveCount(0);
 
 	// Bus load of the demo map's r1, checked against the core computing over the same fixture.
-	const fixture = parseMap(readFileSync(new URL('../../fixtures/club-racer-ecu.map.json', import.meta.url), 'utf8'));
+	const fixture = parseMap(
+		readFileSync(new URL('../../fixtures/club-racer-ecu.map.json', import.meta.url), 'utf8')
+	);
 	if (!fixture.ok) throw new Error('the club racer fixture must parse');
 	const expected = mapBusLoad(fixture.map);
 	const busLoad = page.getByRole('region', { name: 'Bus load of a map' });
 	await busLoad.getByLabel('Map').selectOption({ label: DEMO_MAP });
 	await busLoad.getByLabel('Revision').selectOption({ label: 'r1' });
 	await busLoad.getByRole('button', { name: 'Show bus load' }).click();
-	await expect(busLoad.getByTestId('nominal-total')).toHaveText(`${expected.nominalPercent.toFixed(2)} %`);
-	await expect(busLoad.getByTestId('worst-case-total')).toHaveText(`${expected.worstCasePercent.toFixed(2)} %`);
+	await expect(busLoad.getByTestId('nominal-total')).toHaveText(
+		`${expected.nominalPercent.toFixed(2)} %`
+	);
+	await expect(busLoad.getByTestId('worst-case-total')).toHaveText(
+		`${expected.worstCasePercent.toFixed(2)} %`
+	);
 	await expect(busLoad.getByText('500 kbit/s')).toBeVisible();
 	// Heaviest first: the first row is the frame with the largest worst-case contribution.
-	const heaviest = [...expected.frames].sort((a, b) => b.worstCaseBitsPerSecond - a.worstCaseBitsPerSecond)[0];
-	await expect(busLoad.getByRole('table', { name: 'Load per frame' }).getByRole('row').nth(1).getByRole('rowheader')).toHaveText(heaviest.name);
+	const heaviest = [...expected.frames].sort(
+		(a, b) => b.worstCaseBitsPerSecond - a.worstCaseBitsPerSecond
+	)[0];
+	await expect(
+		busLoad
+			.getByRole('table', { name: 'Load per frame' })
+			.getByRole('row')
+			.nth(1)
+			.getByRole('rowheader')
+	).toHaveText(heaviest.name);
 
 	// A budget below the worst case warns; the default 50 % is called common practice.
 	await expect(busLoad.getByText(/50 % is common practice/)).toBeVisible();
@@ -64,7 +82,9 @@ test('a viewer computes a bit timing, sees a map revision’s bus load and opens
 	const checks = page.getByRole('list', { name: 'Checks' });
 	await expect(checks.getByText('About 60 Ω across CAN-H and CAN-L, power off')).toBeVisible();
 	await expect(checks.getByText('common practice').first()).toBeVisible();
-	await expect(page.getByRole('complementary', { name: 'Safety' })).toContainText('Disconnect the battery');
+	await expect(page.getByRole('complementary', { name: 'Safety' })).toContainText(
+		'Disconnect the battery'
+	);
 	await page.getByLabel('Termination at each of the two ends').check();
 	await expect(page.getByLabel('Termination at each of the two ends')).toBeChecked();
 	await expect(page.getByRole('button', { name: 'Print or save as PDF' })).toBeVisible();

@@ -29,18 +29,29 @@ An empty array means the clock cannot make that bit rate closely enough.`,
 		const options = parseCommand(
 			'bit-timing',
 			argv,
-			{ clock: { type: 'string' }, bitrate: { type: 'string' }, 'sample-point': { type: 'string' } },
+			{
+				clock: { type: 'string' },
+				bitrate: { type: 'string' },
+				'sample-point': { type: 'string' }
+			},
 			schema
 		);
 		let settings;
 		try {
-			settings = bitTimingOptions({ clockHz: options.clock, bitrate: options.bitrate, samplePoint: options['sample-point'] });
+			settings = bitTimingOptions({
+				clockHz: options.clock,
+				bitrate: options.bitrate,
+				samplePoint: options['sample-point']
+			});
 		} catch (error) {
 			if (error instanceof RangeError) throw new UsageError(`bit-timing: ${error.message}`);
 			throw error;
 		}
 		printJson(settings);
-		if (settings.length === 0) process.stderr.write('bit-timing: no prescaler and segment split reaches this bit rate from this clock\n');
+		if (settings.length === 0)
+			process.stderr.write(
+				'bit-timing: no prescaler and segment split reaches this bit rate from this clock\n'
+			);
 		return EXIT.ok;
 	}
 };

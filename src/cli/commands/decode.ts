@@ -36,7 +36,12 @@ reported on stderr by line number and skipped.
   --verbose   print the detected layout on stderr`,
 
 	async run(argv) {
-		const options = parseCommand('decode', argv, { map: { type: 'string' }, strict: { type: 'boolean' }, verbose: { type: 'boolean' } }, schema);
+		const options = parseCommand(
+			'decode',
+			argv,
+			{ map: { type: 'string' }, strict: { type: 'boolean' }, verbose: { type: 'boolean' } },
+			schema
+		);
 		const capturePath = options.positionals[0];
 		const compiled = compileMap(await readMapFile(options.map));
 		const source = await openCapture(capturePath);
@@ -71,12 +76,14 @@ reported on stderr by line number and skipped.
 		try {
 			report = await ingestCaptureInto(paced(), sink);
 		} catch (error) {
-			if (error instanceof CaptureFormatError) throw new InputError(`${capturePath}: ${error.message}`);
+			if (error instanceof CaptureFormatError)
+				throw new InputError(`${capturePath}: ${error.message}`);
 			throw error;
 		}
 		await out.end();
 
-		if (options.verbose) for (const note of report.layoutNotes) process.stderr.write(`layout: ${note}\n`);
+		if (options.verbose)
+			for (const note of report.layoutNotes) process.stderr.write(`layout: ${note}\n`);
 		for (const bad of report.badRows.slice(0, BAD_ROWS_SHOWN)) {
 			process.stderr.write(`${capturePath}:${bad.line}: ${bad.reason}\n`);
 		}

@@ -11,7 +11,9 @@ const schema = z.object({
 	id: canIdArgument,
 	extended: z.boolean().default(false),
 	data: z
-		.string({ error: '--data is required (hex bytes, e.g. --data "11 22 33" or --data 112233; "" for none)' })
+		.string({
+			error: '--data is required (hex bytes, e.g. --data "11 22 33" or --data 112233; "" for none)'
+		})
 		.transform((text, ctx) => {
 			const buffer = new Uint8Array(64);
 			const length = parseHexBytes(text, buffer);

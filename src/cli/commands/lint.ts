@@ -30,12 +30,21 @@ A file that is not a valid map is reported the same way (code "format"). Exit 1 
 			text = await readFile(options.map, 'utf8');
 		} catch (error) {
 			const code = (error as NodeJS.ErrnoException).code;
-			throw new InputError(`${options.map}: ${code === 'ENOENT' ? 'no such file' : (error as Error).message}`);
+			throw new InputError(
+				`${options.map}: ${code === 'ENOENT' ? 'no such file' : (error as Error).message}`
+			);
 		}
 		const parsed = parseMap(text);
 		const problems: ReportedProblem[] = parsed.ok
 			? lintMap(parsed.map)
-			: parsed.problems.map((p) => ({ severity: 'error', code: 'format', message: p.message, frameIndex: null, signalIndex: null, path: p.path }));
+			: parsed.problems.map((p) => ({
+					severity: 'error',
+					code: 'format',
+					message: p.message,
+					frameIndex: null,
+					signalIndex: null,
+					path: p.path
+				}));
 		printJson(problems);
 		return problems.some((p) => p.severity === 'error') ? EXIT.failure : EXIT.ok;
 	}

@@ -56,7 +56,12 @@ export async function requestJson<T>(
 				: (fallbacks[response.status] ??
 					commonFallbacks[response.status] ??
 					`The server answered ${response.status}.`);
-		throw new ApiError(response.status, message, Array.isArray(p.issues) ? (p.issues as ApiIssue[]) : [], p);
+		throw new ApiError(
+			response.status,
+			message,
+			Array.isArray(p.issues) ? (p.issues as ApiIssue[]) : [],
+			p
+		);
 	}
 	return payload as T;
 }

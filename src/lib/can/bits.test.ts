@@ -8,7 +8,6 @@ import {
 	readFloatNumber,
 	readIntegerNumber
 } from './bits';
-import type { ByteOrder } from './map';
 import { referenceExtract, referencePositions } from './testing/reference-bits';
 import { seededRandom } from './testing/seeded-random';
 
@@ -18,7 +17,8 @@ function randomField(rand: ReturnType<typeof seededRandom>, payload = 64) {
 	const length = rand.int(1, 64);
 	for (;;) {
 		const startBit = rand.int(0, payload * 8 - 1);
-		if (fieldFits(fieldLayout(startBit, length, order), payload)) return { startBit, length, order };
+		if (fieldFits(fieldLayout(startBit, length, order), payload))
+			return { startBit, length, order };
 	}
 }
 
@@ -71,7 +71,9 @@ describe('byte-aligned fields read exactly as DataView reads them', () => {
 		const view = new DataView(data.buffer);
 		const base = 13;
 		// DataView reference: IEEE 754 binary64 big-endian at byte base + 2.
-		expect(readFloatNumber(data, base, fieldLayout(8 * 9, 64, 'big'))).toBe(view.getFloat64(base + 2, false));
+		expect(readFloatNumber(data, base, fieldLayout(8 * 9, 64, 'big'))).toBe(
+			view.getFloat64(base + 2, false)
+		);
 	});
 });
 
@@ -86,14 +88,18 @@ describe('unaligned fields against the slow reference', () => {
 			expect(extractRaw(data, startBit, length, order)).toBe(expected);
 			const layout = fieldLayout(startBit, length, order);
 			expect(readIntegerNumber(data, 0, layout, false)).toBe(Number(expected));
-			expect(readIntegerNumber(data, 0, layout, true)).toBe(Number(BigInt.asIntN(length, expected)));
+			expect(readIntegerNumber(data, 0, layout, true)).toBe(
+				Number(BigInt.asIntN(length, expected))
+			);
 		}
 	});
 
 	it('fieldBitPositions matches the reference walk', () => {
 		for (let round = 0; round < 500; round++) {
 			const { startBit, length, order } = randomField(rand);
-			expect(fieldBitPositions(startBit, length, order)).toEqual(referencePositions(startBit, length, order));
+			expect(fieldBitPositions(startBit, length, order)).toEqual(
+				referencePositions(startBit, length, order)
+			);
 		}
 	});
 
@@ -121,7 +127,9 @@ describe('big-endian layout (design.md)', () => {
 		// Hand-worked from design.md: bytes 2,3 = 12 34 hold 0x1234 big-endian; LSB is bit 0 of byte 3.
 		const data = Uint8Array.from([0, 0, 0x12, 0x34, 0, 0, 0, 0]);
 		expect(extractRaw(data, 24, 16, 'big')).toBe(0x1234n);
-		expect(fieldBitPositions(24, 16, 'big')).toEqual([24, 25, 26, 27, 28, 29, 30, 31, 16, 17, 18, 19, 20, 21, 22, 23]);
+		expect(fieldBitPositions(24, 16, 'big')).toEqual([
+			24, 25, 26, 27, 28, 29, 30, 31, 16, 17, 18, 19, 20, 21, 22, 23
+		]);
 		expect(fieldLayout(24, 16, 'big')).toMatchObject({ lowByte: 2, highByte: 3 });
 	});
 
@@ -140,7 +148,9 @@ describe('bounds', () => {
 	});
 
 	it('rejects raw values that would be truncated', () => {
-		expect(() => insertRaw(new Uint8Array(8), 0, 8, 'little', 256n)).toThrow(/does not fit in 8 bits/);
+		expect(() => insertRaw(new Uint8Array(8), 0, 8, 'little', 256n)).toThrow(
+			/does not fit in 8 bits/
+		);
 		expect(() => insertRaw(new Uint8Array(8), 0, 8, 'little', -129n)).toThrow(/does not fit/);
 		const data = new Uint8Array(1);
 		insertRaw(data, 0, 8, 'little', -1n); // two's complement reading accepted

@@ -54,7 +54,11 @@ export function fieldFits(layout: FieldLayout, payloadLength: number): boolean {
 }
 
 /** Payload bit numbers of value bits 0…length−1 (LSB first) — for overlap checks and bit grids. */
-export function fieldBitPositions(startBit: number, length: number, byteOrder: ByteOrder): number[] {
+export function fieldBitPositions(
+	startBit: number,
+	length: number,
+	byteOrder: ByteOrder
+): number[] {
 	const positions: number[] = [];
 	let bit = startBit;
 	for (let i = 0; i < length; i++) {

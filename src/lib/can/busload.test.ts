@@ -82,9 +82,15 @@ describe('captureBusLoad', () => {
 	});
 
 	it('rejects mismatched inputs and absurd windows', () => {
-		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(2), 500_000, 1)).toThrow(/same length/);
-		expect(() => captureBusLoad(Float64Array.of(0, 1e9), new Float64Array(2), 500_000, 1)).toThrow(/windows/);
-		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(1), 500_000, 0)).toThrow(/window/);
+		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(2), 500_000, 1)).toThrow(
+			/same length/
+		);
+		expect(() => captureBusLoad(Float64Array.of(0, 1e9), new Float64Array(2), 500_000, 1)).toThrow(
+			/windows/
+		);
+		expect(() => captureBusLoad(Float64Array.of(0), new Float64Array(1), 500_000, 0)).toThrow(
+			/window/
+		);
 		expect(captureBusLoad(new Float64Array(0), new Float64Array(0), 500_000, 1)).toEqual([]);
 	});
 });

@@ -105,7 +105,11 @@ export function frameBusBitsAt(
 	offset: number,
 	length: number
 ): number {
-	return nominalFrameBits(length, extended) + frameStuffBitsAt(id, extended, bytes, offset, length) + interFrameBits;
+	return (
+		nominalFrameBits(length, extended) +
+		frameStuffBitsAt(id, extended, bytes, offset, length) +
+		interFrameBits
+	);
 }
 
 /** Most windows captureBusLoad will produce, so a typo in the window size cannot exhaust memory. */
@@ -150,5 +154,8 @@ export function captureBusLoad(
 		bits[Math.min(count - 1, Math.floor((times[i] - first) / windowSeconds))] += frameBitCounts[i];
 	}
 	const capacity = bitrate * windowSeconds;
-	return Array.from(bits, (b, k) => ({ start: first + k * windowSeconds, percent: (100 * b) / capacity }));
+	return Array.from(bits, (b, k) => ({
+		start: first + k * windowSeconds,
+		percent: (100 * b) / capacity
+	}));
 }

@@ -4,14 +4,20 @@ import { decodeFrame, decodeSignal, encodeSignal, rawBounds } from './codec';
 import { frameSchema, signalSchema, type SignalInput } from './map';
 import { seededRandom } from './testing/seeded-random';
 
-const signal = (input: Partial<SignalInput>) => signalSchema.parse({ name: 's', startBit: 0, length: 8, ...input });
+const signal = (input: Partial<SignalInput>) =>
+	signalSchema.parse({ name: 's', startBit: 0, length: 8, ...input });
 
 describe('decodeSignal', () => {
 	it('scales engine speed like SAE J1939-71 SPN 190 (0.125 rpm/bit, bytes 4–5 little-endian) (from memory)', () => {
 		const speed = signal({ startBit: 24, length: 16, scale: 0.125, unit: 'rpm' });
 		// raw 0x1F40 = 8000 → 1000 rpm
 		const data = Uint8Array.from([0xff, 0xff, 0xff, 0x40, 0x1f, 0xff, 0xff, 0xff]);
-		expect(decodeSignal(speed, data)).toEqual({ raw: 8000, value: 1000, label: null, inRange: true });
+		expect(decodeSignal(speed, data)).toEqual({
+			raw: 8000,
+			value: 1000,
+			label: null,
+			inRange: true
+		});
 	});
 
 	it('applies the offset like SAE J1939-71 SPN 110 coolant temperature (1 °C/bit, −40 °C) (from memory)', () => {
@@ -41,14 +47,24 @@ describe('decodeSignal', () => {
 
 	it('looks up labels by raw value and checks min/max', () => {
 		const gear = signal({ length: 4, labels: { '0': 'neutral', '15': 'fault' }, min: 0, max: 8 });
-		expect(decodeSignal(gear, Uint8Array.from([0x00]))).toMatchObject({ label: 'neutral', inRange: true });
-		expect(decodeSignal(gear, Uint8Array.from([0x0f]))).toMatchObject({ label: 'fault', inRange: false });
+		expect(decodeSignal(gear, Uint8Array.from([0x00]))).toMatchObject({
+			label: 'neutral',
+			inRange: true
+		});
+		expect(decodeSignal(gear, Uint8Array.from([0x0f]))).toMatchObject({
+			label: 'fault',
+			inRange: false
+		});
 		expect(decodeSignal(gear, Uint8Array.from([0x03]))).toMatchObject({ label: null, value: 3 });
 	});
 
 	it('rejects a float signal whose length is not 32/64, and fields past the payload', () => {
-		expect(() => decodeSignal(signal({ length: 16, valueType: 'float32' }), new Uint8Array(8))).toThrow(/float32 but 16 bits/);
-		expect(() => decodeSignal(signal({ startBit: 60, length: 8 }), new Uint8Array(8))).toThrow(/payload has 8/);
+		expect(() =>
+			decodeSignal(signal({ length: 16, valueType: 'float32' }), new Uint8Array(8))
+		).toThrow(/float32 but 16 bits/);
+		expect(() => decodeSignal(signal({ startBit: 60, length: 8 }), new Uint8Array(8))).toThrow(
+			/payload has 8/
+		);
 	});
 });
 
@@ -78,7 +94,9 @@ describe('encodeSignal', () => {
 
 	it('rejects scale 0 and non-finite input with a clear message', () => {
 		expect(() => encodeSignal(signal({ scale: 0 }), 1, new Uint8Array(8))).toThrow(/scale 0/);
-		expect(() => encodeSignal(signal({}), Number.NaN, new Uint8Array(8))).toThrow(/cannot encode NaN/);
+		expect(() => encodeSignal(signal({}), Number.NaN, new Uint8Array(8))).toThrow(
+			/cannot encode NaN/
+		);
 	});
 
 	it('round-trips random definitions: decode(encode(x)) is the nearest representable value', () => {
@@ -90,7 +108,14 @@ describe('encodeSignal', () => {
 			const byteOrder = rand.pick(['little', 'big'] as const);
 			let startBit = rand.int(0, 511);
 			while (!fieldFits(fieldLayout(startBit, length, byteOrder), 64)) startBit = rand.int(0, 511);
-			const s = signal({ startBit, length, byteOrder, valueType, scale: rand.pick([1, 0.5, 0.125, 2]), offset: rand.int(-100, 100) });
+			const s = signal({
+				startBit,
+				length,
+				byteOrder,
+				valueType,
+				scale: rand.pick([1, 0.5, 0.125, 2]),
+				offset: rand.int(-100, 100)
+			});
 			const { lo, hi } = rawBounds(s);
 			// a random raw inside the field's range, then its physical value
 			const span = hi - lo + 1n;

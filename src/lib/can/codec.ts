@@ -34,13 +34,17 @@ function isFloat(signal: Signal): boolean {
 function assertFloatLength(signal: Signal): void {
 	const expected = signal.valueType === 'float32' ? 32 : 64;
 	if (signal.length !== expected) {
-		throw new RangeError(`signal "${signal.name}" is ${signal.valueType} but ${signal.length} bits long`);
+		throw new RangeError(
+			`signal "${signal.name}" is ${signal.valueType} but ${signal.length} bits long`
+		);
 	}
 }
 
 export function inRange(signal: Pick<Signal, 'min' | 'max'>, value: number): boolean {
 	if (Number.isNaN(value)) return false;
-	return (signal.min === null || value >= signal.min) && (signal.max === null || value <= signal.max);
+	return (
+		(signal.min === null || value >= signal.min) && (signal.max === null || value <= signal.max)
+	);
 }
 
 export function labelFor(signal: Signal, raw: number | bigint): string | null {
@@ -58,7 +62,12 @@ export function decodeSignal(signal: Signal, data: Uint8Array): DecodedSignal {
 		raw = signal.length <= NUMBER_RAW_BITS ? Number(integer) : integer;
 	}
 	const value = Number(raw) * signal.scale + signal.offset;
-	return { raw, value, label: isFloat(signal) ? null : labelFor(signal, raw), inRange: inRange(signal, value) };
+	return {
+		raw,
+		value,
+		label: isFloat(signal) ? null : labelFor(signal, raw),
+		inRange: inRange(signal, value)
+	};
 }
 
 function checkedLayout(signal: Signal, data: Uint8Array) {
@@ -68,17 +77,26 @@ function checkedLayout(signal: Signal, data: Uint8Array) {
 }
 
 /** Smallest and largest integer the field can hold. */
-export function rawBounds(signal: Pick<Signal, 'length' | 'valueType'>): { lo: bigint; hi: bigint } {
+export function rawBounds(signal: Pick<Signal, 'length' | 'valueType'>): {
+	lo: bigint;
+	hi: bigint;
+} {
 	const span = 1n << BigInt(signal.length);
-	return signal.valueType === 'signed' ? { lo: -(span >> 1n), hi: (span >> 1n) - 1n } : { lo: 0n, hi: span - 1n };
+	return signal.valueType === 'signed'
+		? { lo: -(span >> 1n), hi: (span >> 1n) - 1n }
+		: { lo: 0n, hi: span - 1n };
 }
 
 const FLOAT32_MAX = 3.4028234663852886e38; // largest finite binary32 (IEEE 754)
 const scratch = new DataView(new ArrayBuffer(8));
 
 export function encodeSignal(signal: Signal, physical: number, data: Uint8Array): EncodedSignal {
-	if (!Number.isFinite(physical)) throw new RangeError(`cannot encode ${physical} into "${signal.name}"`);
-	if (signal.scale === 0) throw new RangeError(`signal "${signal.name}" has scale 0, so no raw value maps to ${physical}`);
+	if (!Number.isFinite(physical))
+		throw new RangeError(`cannot encode ${physical} into "${signal.name}"`);
+	if (signal.scale === 0)
+		throw new RangeError(
+			`signal "${signal.name}" has scale 0, so no raw value maps to ${physical}`
+		);
 	const outOfRange = !inRange(signal, physical);
 	const exact = (physical - signal.offset) / signal.scale;
 	let raw: bigint;
@@ -124,12 +142,15 @@ export type FrameSignalResult = ({ present: true } & DecodedSignal) | { present:
  * Signals whose bits lie beyond the received payload are absent too.
  */
 export function decodeFrame(frame: Pick<Frame, 'signals'>, data: Uint8Array): FrameSignalResult[] {
-	const fits = (s: Signal) => fieldFits(fieldLayout(s.startBit, s.length, s.byteOrder), data.length);
+	const fits = (s: Signal) =>
+		fieldFits(fieldLayout(s.startBit, s.length, s.byteOrder), data.length);
 	const muxAt = multiplexerIndex(frame);
 	const muxSignal = muxAt >= 0 ? frame.signals[muxAt] : null;
 	const selected = muxSignal && fits(muxSignal) ? Number(decodeSignal(muxSignal, data).raw) : null;
 	return frame.signals.map((s) => {
 		const present = (s.muxValue === null || s.muxValue === selected) && fits(s);
-		return present ? { present: true as const, ...decodeSignal(s, data) } : { present: false as const };
+		return present
+			? { present: true as const, ...decodeSignal(s, data) }
+			: { present: false as const };
 	});
 }

@@ -6,8 +6,22 @@ describe('readCsvRecords', () => {
 	it.each([
 		['RFC 4180 §2.6 comma inside quotes', '"aaa","b,bb","ccc"', [['aaa', 'b,bb', 'ccc']]],
 		['RFC 4180 §2.7 doubled quote', '"aaa","b""bb","ccc"', [['aaa', 'b"bb', 'ccc']]],
-		['RFC 4180 §2.6 line break inside quotes', '"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx', [['aaa', 'b\r\nbb', 'ccc'], ['zzz', 'yyy', 'xxx']]],
-		['RFC 4180 §2.4 empty fields', 'a,,c\r\n,,', [['a', '', 'c'], ['', '', '']]]
+		[
+			'RFC 4180 §2.6 line break inside quotes',
+			'"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx',
+			[
+				['aaa', 'b\r\nbb', 'ccc'],
+				['zzz', 'yyy', 'xxx']
+			]
+		],
+		[
+			'RFC 4180 §2.4 empty fields',
+			'a,,c\r\n,,',
+			[
+				['a', '', 'c'],
+				['', '', '']
+			]
+		]
 	])('%s', (_name, text, expected) => {
 		expect(readCsvRecords(text).map((r) => r.fields)).toEqual(expected);
 	});

@@ -20,7 +20,8 @@ export function readCsvRecords(text: string): CsvRecord[] {
 	const endRecord = () => {
 		fields.push(field);
 		// A blank line is not a record.
-		if (!(fields.length === 1 && fields[0].trim() === '')) records.push({ line: recordLine, fields });
+		if (!(fields.length === 1 && fields[0].trim() === ''))
+			records.push({ line: recordLine, fields });
 		fields = [];
 		field = '';
 	};

@@ -6,10 +6,18 @@ import { canMapSchema, type CanMapInput, type SignalInput } from './map';
 import { referenceExtract } from './testing/reference-bits';
 import { seededRandom } from './testing/seeded-random';
 
-const mapOf = (frames: CanMapInput['frames']) => canMapSchema.parse({ format: 'framewright-map@1', name: 'test', frames });
+const mapOf = (frames: CanMapInput['frames']) =>
+	canMapSchema.parse({ format: 'framewright-map@1', name: 'test', frames });
 
 /** Decode one frame of a compiled map into fresh arrays. */
-function run(options: CompileOptions, map: ReturnType<typeof mapOf>, frameIndex: number, bytes: number[] | Uint8Array, offset = 0, length = bytes.length - offset) {
+function run(
+	options: CompileOptions,
+	map: ReturnType<typeof mapOf>,
+	frameIndex: number,
+	bytes: number[] | Uint8Array,
+	offset = 0,
+	length = bytes.length - offset
+) {
 	const compiled = compileMap(map, options).frames[frameIndex];
 	const out = new Float64Array(compiled.channelCount);
 	const status = new Uint8Array(compiled.channelCount);
@@ -24,7 +32,11 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 		// getFloat32/64 — littleEndian true/false (ECMAScript spec, IEEE 754).
 		it('for every size, type and order at random offsets inside a larger buffer', () => {
 			const rand = seededRandom(0x5eed11);
-			type Kind = { bytes: number; valueType: SignalInput['valueType']; read: (v: DataView, at: number, le: boolean) => number };
+			type Kind = {
+				bytes: number;
+				valueType: SignalInput['valueType'];
+				read: (v: DataView, at: number, le: boolean) => number;
+			};
 			const kinds: Kind[] = [
 				{ bytes: 1, valueType: 'unsigned', read: (v, at) => v.getUint8(at) },
 				{ bytes: 1, valueType: 'signed', read: (v, at) => v.getInt8(at) },
@@ -42,7 +54,22 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 					const k = rand.int(0, 64 - kind.bytes);
 					// design.md: big-endian field filling bytes k…k+m−1 has startBit 8·(k+m−1)
 					const startBit = byteOrder === 'little' ? 8 * k : 8 * (k + kind.bytes - 1);
-					const map = mapOf([{ name: 'F', id: 1, length: 64, signals: [{ name: 's', startBit, length: kind.bytes * 8, byteOrder, valueType: kind.valueType }] }]);
+					const map = mapOf([
+						{
+							name: 'F',
+							id: 1,
+							length: 64,
+							signals: [
+								{
+									name: 's',
+									startBit,
+									length: kind.bytes * 8,
+									byteOrder,
+									valueType: kind.valueType
+								}
+							]
+						}
+					]);
 					const frame = compileMap(map, options).frames[0];
 					const buffer = rand.bytes(64 * 50);
 					const view = new DataView(buffer.buffer);
@@ -65,8 +92,17 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 					const length = rand.int(1, 64);
 					const byteOrder = rand.pick(['little', 'big'] as const);
 					let startBit = rand.int(0, 511);
-					while (!fieldFits(fieldLayout(startBit, length, byteOrder), 64)) startBit = rand.int(0, 511);
-					signals.push({ name: `s${i}`, startBit, length, byteOrder, valueType: rand.pick(['unsigned', 'signed'] as const), scale: rand.pick([1, 0.1, 4]), offset: rand.int(-50, 50) });
+					while (!fieldFits(fieldLayout(startBit, length, byteOrder), 64))
+						startBit = rand.int(0, 511);
+					signals.push({
+						name: `s${i}`,
+						startBit,
+						length,
+						byteOrder,
+						valueType: rand.pick(['unsigned', 'signed'] as const),
+						scale: rand.pick([1, 0.1, 4]),
+						offset: rand.int(-50, 50)
+					});
 				}
 				const map = mapOf([{ name: 'F', id: 0x123, length: 64, signals }]);
 				const data = rand.bytes(64);
@@ -88,7 +124,22 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			const byteOrder = rand.pick(['little', 'big'] as const);
 			let startBit = rand.int(0, 511);
 			while (!fieldFits(fieldLayout(startBit, length, byteOrder), 64)) startBit = rand.int(0, 511);
-			const map = mapOf([{ name: 'F', id: 1, length: 64, signals: [{ name: 'f', startBit, length, byteOrder, valueType: length === 32 ? 'float32' : 'float64' }] }]);
+			const map = mapOf([
+				{
+					name: 'F',
+					id: 1,
+					length: 64,
+					signals: [
+						{
+							name: 'f',
+							startBit,
+							length,
+							byteOrder,
+							valueType: length === 32 ? 'float32' : 'float64'
+						}
+					]
+				}
+			]);
 			const data = rand.bytes(64);
 			const bits = referenceExtract(data, startBit, length, byteOrder);
 			let expected: number;
@@ -106,18 +157,30 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 	it('agrees with codec.decodeFrame (BigInt path) on random multiplexed frames and short payloads', () => {
 		const rand = seededRandom(0x5eed14);
 		for (let round = 0; round < 200; round++) {
-			const signals: SignalInput[] = [{ name: 'mux', startBit: rand.int(0, 6) * 8, length: 2, multiplexer: true }];
+			const signals: SignalInput[] = [
+				{ name: 'mux', startBit: rand.int(0, 6) * 8, length: 2, multiplexer: true }
+			];
 			for (let i = 0; i < 5; i++) {
 				const length = rand.int(1, 64);
 				const byteOrder = rand.pick(['little', 'big'] as const);
 				let startBit = rand.int(0, 63);
 				while (!fieldFits(fieldLayout(startBit, length, byteOrder), 8)) startBit = rand.int(0, 63);
-				signals.push({ name: `s${i}`, startBit, length, byteOrder, valueType: rand.pick(['unsigned', 'signed'] as const), muxValue: rand.pick([null, 0, 1, 2, 3]), offset: rand.int(-9, 9) });
+				signals.push({
+					name: `s${i}`,
+					startBit,
+					length,
+					byteOrder,
+					valueType: rand.pick(['unsigned', 'signed'] as const),
+					muxValue: rand.pick([null, 0, 1, 2, 3]),
+					offset: rand.int(-9, 9)
+				});
 			}
 			const map = mapOf([{ name: 'F', id: 1, signals }]);
 			const received = rand.int(0, 8);
 			const data = rand.bytes(received);
-			const expected = decodeFrame(map.frames[0], data).map((r) => (r.present ? r.value : Number.NaN));
+			const expected = decodeFrame(map.frames[0], data).map((r) =>
+				r.present ? r.value : Number.NaN
+			);
 			expect(run(options, map, 0, data).values).toEqual(expected);
 		}
 	});
@@ -138,7 +201,15 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 				const byteOrder = rand.pick(['little', 'big'] as const);
 				let startBit = rand.int(0, 63);
 				while (!fieldFits(fieldLayout(startBit, length, byteOrder), 8)) startBit = rand.int(0, 63);
-				signals.push({ name: `s${i}`, startBit, length, byteOrder, valueType: rand.pick(['unsigned', 'signed'] as const), muxValue: rand.pick([null, 1, 2]), scale: rand.pick([1, 0.5, 0.1]) });
+				signals.push({
+					name: `s${i}`,
+					startBit,
+					length,
+					byteOrder,
+					valueType: rand.pick(['unsigned', 'signed'] as const),
+					muxValue: rand.pick([null, 1, 2]),
+					scale: rand.pick([1, 0.5, 0.1])
+				});
 			}
 			frames.push({ name: `F${f}`, id: f + 1, signals });
 		}
@@ -151,13 +222,17 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			out.fill(-1);
 			compiled.decodeAt(f, data, 0, data.length, out, compiled.frames[f].channelStart);
 			const { channelStart, channelCount } = compiled.frames[f];
-			const expected = decodeFrame(map.frames[f], data).map((r) => (r.present ? r.value : Number.NaN));
+			const expected = decodeFrame(map.frames[f], data).map((r) =>
+				r.present ? r.value : Number.NaN
+			);
 			expect(Array.from(out.subarray(channelStart, channelStart + channelCount))).toEqual(expected);
 			// Column-major output: signal k at 1 + k·3 (stride 3), through the dispatcher and the frame itself.
 			for (const decode of [compiled.decodeAt.bind(null, f), compiled.frames[f].decode]) {
 				const strided = new Float64Array(3 * channelCount + 1).fill(-1);
 				decode(data, 0, data.length, strided, 1, undefined, 3);
-				expect(Array.from({ length: channelCount }, (_, k) => strided[1 + 3 * k])).toEqual(expected);
+				expect(Array.from({ length: channelCount }, (_, k) => strided[1 + 3 * k])).toEqual(
+					expected
+				);
 			}
 		}
 	});
@@ -171,9 +246,13 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			{ name: 'Ext', id: '0x7FF', extended: true, signals: [] }
 		]);
 		const compiled = compileMap(map, options);
-		expect([0, 0x7ff, 0x800, 0x123, -1, 1.5, 0x2000].map((id) => compiled.indexOf(id, false))).toEqual([0, 1, 3, -1, -1, -1, -1]);
+		expect(
+			[0, 0x7ff, 0x800, 0x123, -1, 1.5, 0x2000].map((id) => compiled.indexOf(id, false))
+		).toEqual([0, 1, 3, -1, -1, -1, -1]);
 		// Alternating extended IDs exercise the remembered last answer.
-		expect([0x7ff, 0x7fe, 0x7ff, 0x7ff, 0].map((id) => compiled.indexOf(id, true))).toEqual([4, -1, 4, 4, -1]);
+		expect([0x7ff, 0x7fe, 0x7ff, 0x7ff, 0].map((id) => compiled.indexOf(id, true))).toEqual([
+			4, -1, 4, 4, -1
+		]);
 		expect(compiled.lookup(0x7ff, false)?.frame.name).toBe('Top');
 		expect(compiled.lookup(0x123, false)).toBeUndefined();
 	});
@@ -198,21 +277,40 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 		]);
 
 		it('decodes only the selected page', () => {
-			expect(run(options, map, 0, [0x01, 10, 0, 0, 0, 0, 0, 3])).toEqual({ values: [1, Number.NaN, 20, 3], status: [0, 1, 0, 0] });
-			expect(run(options, map, 0, [0xf0, 10, 0, 0, 0, 0, 0, 3])).toEqual({ values: [0, 10, Number.NaN, 3], status: [0, 0, 1, 0] });
+			expect(run(options, map, 0, [0x01, 10, 0, 0, 0, 0, 0, 3])).toEqual({
+				values: [1, Number.NaN, 20, 3],
+				status: [0, 1, 0, 0]
+			});
+			expect(run(options, map, 0, [0xf0, 10, 0, 0, 0, 0, 0, 3])).toEqual({
+				values: [0, 10, Number.NaN, 3],
+				status: [0, 0, 1, 0]
+			});
 		});
 
 		it('hides multiplexed signals of a frame without multiplexer', () => {
-			const orphan = mapOf([{ name: 'O', id: 7, signals: [{ name: 'x', startBit: 0, length: 8, muxValue: 0 }] }]);
-			expect(run(options, orphan, 0, [0, 0, 0, 0, 0, 0, 0, 0])).toEqual({ values: [Number.NaN], status: [1] });
+			const orphan = mapOf([
+				{ name: 'O', id: 7, signals: [{ name: 'x', startBit: 0, length: 8, muxValue: 0 }] }
+			]);
+			expect(run(options, orphan, 0, [0, 0, 0, 0, 0, 0, 0, 0])).toEqual({
+				values: [Number.NaN],
+				status: [1]
+			});
 		});
 
 		it('marks signals past the received length absent', () => {
-			expect(run(options, map, 0, [0, 10, 0, 0])).toEqual({ values: [0, 10, Number.NaN, Number.NaN], status: [0, 0, 1, 1] });
+			expect(run(options, map, 0, [0, 10, 0, 0])).toEqual({
+				values: [0, 10, Number.NaN, Number.NaN],
+				status: [0, 0, 1, 1]
+			});
 		});
 
 		it('honours offset and length inside a shared buffer', () => {
-			expect(run(options, map, 0, [9, 9, 0x01, 10, 0, 0, 0, 0, 0, 3], 2, 8).values).toEqual([1, Number.NaN, 20, 3]);
+			expect(run(options, map, 0, [9, 9, 0x01, 10, 0, 0, 0, 0, 0, 3], 2, 8).values).toEqual([
+				1,
+				Number.NaN,
+				20,
+				3
+			]);
 		});
 	});
 
@@ -220,12 +318,18 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 		const map = mapOf([
 			{
 				// PGN 65265 (0xFEF1, PDU2) — real PGN number reused for an invented frame; layout here is demo only
-				name: 'VehicleSpeedDemo', id: '0x18FEF100', extended: true, j1939: true,
+				name: 'VehicleSpeedDemo',
+				id: '0x18FEF100',
+				extended: true,
+				j1939: true,
 				signals: [{ name: 'x', startBit: 0, length: 8 }]
 			},
 			{
 				// PGN 61444 EEC1 (J1939-71, from memory): engine speed SPN 190 in bytes 4–5, 0.125 rpm/bit
-				name: 'EngineDemo', id: '0x0CF00400', extended: true, j1939: true,
+				name: 'EngineDemo',
+				id: '0x0CF00400',
+				extended: true,
+				j1939: true,
 				signals: [
 					{ name: 'engineSpeed', startBit: 24, length: 16, scale: 0.125, unit: 'rpm' },
 					{ name: 'torqueMode', startBit: 0, length: 4 },
@@ -243,7 +347,9 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			expect(compiled.lookup(0x18f00403, true)?.frameIndex).toBe(1);
 			expect(compiled.lookup(0x18fef200, true)).toBeUndefined(); // another PGN
 			expect(compiled.lookup(0x1cfef117, false)).toBeUndefined(); // standard frames never match by PGN
-			expect([0x0cfef117, 0x18f00403, 0x0cfef117, 0x18fef200].map((id) => compiled.indexOf(id, true))).toEqual([0, 1, 0, -1]);
+			expect(
+				[0x0cfef117, 0x18f00403, 0x0cfef117, 0x18fef200].map((id) => compiled.indexOf(id, true))
+			).toEqual([0, 1, 0, -1]);
 		});
 
 		it('keeps standard and extended IDs apart', () => {
@@ -260,12 +366,19 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 				compiled.frames[1].decode(Uint8Array.from(bytes), 0, 8, out, 0, status);
 				return { values: Array.from(out), status: Array.from(status) };
 			};
-			expect(decodeBytes([0x03, 0xff, 0, 0x40, 0x1f, 0, 0, 0])).toEqual({ values: [1000, 3, -1], status: [0, 0, 0] });
+			expect(decodeBytes([0x03, 0xff, 0, 0x40, 0x1f, 0, 0, 0])).toEqual({
+				values: [1000, 3, -1],
+				status: [0, 0, 0]
+			});
 			expect(decodeBytes([0x0f, 0xff, 0, 0xff, 0xff, 0, 0, 0])).toEqual({
 				values: [Number.NaN, Number.NaN, -1],
 				status: [SIGNAL_STATUS.notAvailable, SIGNAL_STATUS.notAvailable, SIGNAL_STATUS.valid]
 			});
-			expect(decodeBytes([0x0e, 0, 0, 0x12, 0xfe, 0, 0, 0]).status).toEqual([SIGNAL_STATUS.error, SIGNAL_STATUS.error, 0]);
+			expect(decodeBytes([0x0e, 0, 0, 0x12, 0xfe, 0, 0, 0]).status).toEqual([
+				SIGNAL_STATUS.error,
+				SIGNAL_STATUS.error,
+				0
+			]);
 		});
 	});
 
@@ -273,14 +386,28 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 		it('lists one channel per signal in map order with frame offsets', () => {
 			const compiled = compileMap(
 				mapOf([
-					{ name: 'A', id: 1, signals: [{ name: 'a1', startBit: 0, length: 8, unit: 'V', min: 0, max: 16 }, { name: 'a2', startBit: 8, length: 8 }] },
+					{
+						name: 'A',
+						id: 1,
+						signals: [
+							{ name: 'a1', startBit: 0, length: 8, unit: 'V', min: 0, max: 16 },
+							{ name: 'a2', startBit: 8, length: 8 }
+						]
+					},
 					{ name: 'B', id: 2, signals: [{ name: 'b1', startBit: 0, length: 8 }] }
 				]),
 				options
 			);
-			expect(compiled.channels.map((c) => `${c.index}:${c.frameName}.${c.signalName}`)).toEqual(['0:A.a1', '1:A.a2', '2:B.b1']);
+			expect(compiled.channels.map((c) => `${c.index}:${c.frameName}.${c.signalName}`)).toEqual([
+				'0:A.a1',
+				'1:A.a2',
+				'2:B.b1'
+			]);
 			expect(compiled.channels[0]).toMatchObject({ unit: 'V', min: 0, max: 16, frameIndex: 0 });
-			expect(compiled.frames.map((f) => [f.channelStart, f.channelCount])).toEqual([[0, 2], [2, 1]]);
+			expect(compiled.frames.map((f) => [f.channelStart, f.channelCount])).toEqual([
+				[0, 2],
+				[2, 1]
+			]);
 		});
 	});
 });

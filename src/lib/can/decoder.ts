@@ -86,7 +86,8 @@ interface SignalPlan {
 }
 
 function planSignal(signal: Signal, frame: Frame): SignalPlan {
-	const floatLength = signal.valueType === 'float32' ? 32 : signal.valueType === 'float64' ? 64 : null;
+	const floatLength =
+		signal.valueType === 'float32' ? 32 : signal.valueType === 'float64' ? 64 : null;
 	const layout = fieldLayout(signal.startBit, signal.length, signal.byteOrder);
 	// A float of the wrong length (a lint error) or a big-endian field running off byte 0 never decodes.
 	const decodable = layout.lowByte >= 0 && (floatLength === null || floatLength === signal.length);
@@ -104,7 +105,8 @@ function planSignal(signal: Signal, frame: Frame): SignalPlan {
 /** Portable reader: the shared number arithmetic of bits.ts (used when code generation is unavailable). */
 function genericReader(plan: SignalPlan): RawReader {
 	const { layout } = plan;
-	if (plan.valueType === 'float32' || plan.valueType === 'float64') return (d, _v, b) => readFloatNumber(d, b, layout);
+	if (plan.valueType === 'float32' || plan.valueType === 'float64')
+		return (d, _v, b) => readFloatNumber(d, b, layout);
 	const signed = plan.valueType === 'signed';
 	return (d, _v, b) => readIntegerNumber(d, b, layout, signed);
 }
@@ -123,14 +125,22 @@ function readerSource(plan: SignalPlan, layoutRef: string): string {
 	const signed = plan.valueType === 'signed';
 	if (shift === 0 && length % 8 === 0) {
 		switch (`${float ? 'f' : signed ? 'i' : 'u'}${length}`) {
-			case 'u8': return `d[${at}]`;
-			case 'i8': return `v.getInt8(${at})`;
-			case 'u16': return `v.getUint16(${at}, ${le})`;
-			case 'i16': return `v.getInt16(${at}, ${le})`;
-			case 'u32': return `v.getUint32(${at}, ${le})`;
-			case 'i32': return `v.getInt32(${at}, ${le})`;
-			case 'f32': return `v.getFloat32(${at}, ${le})`;
-			case 'f64': return `v.getFloat64(${at}, ${le})`;
+			case 'u8':
+				return `d[${at}]`;
+			case 'i8':
+				return `v.getInt8(${at})`;
+			case 'u16':
+				return `v.getUint16(${at}, ${le})`;
+			case 'i16':
+				return `v.getInt16(${at}, ${le})`;
+			case 'u32':
+				return `v.getUint32(${at}, ${le})`;
+			case 'i32':
+				return `v.getInt32(${at}, ${le})`;
+			case 'f32':
+				return `v.getFloat32(${at}, ${le})`;
+			case 'f64':
+				return `v.getFloat64(${at}, ${le})`;
 			// 64-bit integers as two halves: high × 2^32 is exact, so the sum rounds once (like Number(BigInt)).
 			case 'u64':
 			case 'i64': {
@@ -142,10 +152,13 @@ function readerSource(plan: SignalPlan, layoutRef: string): string {
 	if (float) return `F(d, b, ${layoutRef})`;
 	if (length > 32) return `I(d, b, ${layoutRef}, ${signed})`;
 	const byteAt = (j: number) => `d[b + ${lsbByte + step * j}]`;
-	const word = Array.from({ length: Math.min(byteCount, 4) }, (_, j) => (j === 0 ? byteAt(0) : `(${byteAt(j)} << ${8 * j})`)).join(' | ');
+	const word = Array.from({ length: Math.min(byteCount, 4) }, (_, j) =>
+		j === 0 ? byteAt(0) : `(${byteAt(j)} << ${8 * j})`
+	).join(' | ');
 	let unsigned: string;
 	if (byteCount <= 4) {
-		unsigned = length === 32 ? `((${word}) >>> 0)` : `(((${word}) >>> ${shift}) & ${2 ** length - 1})`;
+		unsigned =
+			length === 32 ? `((${word}) >>> 0)` : `(((${word}) >>> ${shift}) & ${2 ** length - 1})`;
 	} else {
 		// fifth byte: its low (shift + length − 32) bits sit above the 32 − shift bits of the word
 		const highBits = shift + length - 32;
@@ -181,7 +194,10 @@ interface FramePlan {
  */
 function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string): string[] {
 	const lines: string[] = [];
-	const muxRead = muxPlan && Number.isFinite(muxPlan.needBytes) ? readerSource(muxPlan, `${layouts}[${muxAt}]`) : null;
+	const muxRead =
+		muxPlan && Number.isFinite(muxPlan.needBytes)
+			? readerSource(muxPlan, `${layouts}[${muxAt}]`)
+			: null;
 	lines.push(`const sel = ${muxRead ? `len >= ${muxPlan!.needBytes} ? ${muxRead} : NaN` : 'NaN'};`);
 	plans.forEach((plan, k) => {
 		const at = k === 0 ? 'o' : `o + ${k} * s`;
@@ -203,31 +219,56 @@ function decodeStatements({ plans, muxPlan, muxAt }: FramePlan, layouts: string)
 /** Helpers the generated code calls, in the order of the generated factories' parameters. */
 const GENERATED_HELPERS = ['viewOf', 'L', 'F', 'I', 'S', 'J'] as const;
 const helperValues = (viewOf: (d: Uint8Array) => DataView, layouts: unknown) =>
-	[viewOf, layouts, readFloatNumber, readIntegerNumber, j1939ValueStatus, J1939_STATUS_CODE] as const;
+	[
+		viewOf,
+		layouts,
+		readFloatNumber,
+		readIntegerNumber,
+		j1939ValueStatus,
+		J1939_STATUS_CODE
+	] as const;
 
 /**
  * One straight-line decode function per frame, so the engine can inline every read.
  * Returns null where code generation is forbidden (e.g. a Content-Security-Policy without 'unsafe-eval').
  */
-function generateDecode(framePlan: FramePlan, viewOf: (d: Uint8Array) => DataView): DecodeFn | null {
+function generateDecode(
+	framePlan: FramePlan,
+	viewOf: (d: Uint8Array) => DataView
+): DecodeFn | null {
 	const body = ['const v = viewOf(d);', ...decodeStatements(framePlan, 'L')].join('\n');
 	try {
-		const factory = new Function(...GENERATED_HELPERS, `return function decode(d, b, len, out, o, st, s = 1) {\n${body}\n};`);
-		return factory(...helperValues(viewOf, framePlan.plans.map((p) => p.layout))) as DecodeFn;
+		const factory = new Function(
+			...GENERATED_HELPERS,
+			`return function decode(d, b, len, out, o, st, s = 1) {\n${body}\n};`
+		);
+		return factory(
+			...helperValues(
+				viewOf,
+				framePlan.plans.map((p) => p.layout)
+			)
+		) as DecodeFn;
 	} catch {
 		return null;
 	}
 }
 
 /** The same decode as a loop over portable closures; slower, but needs no code generation. */
-function loopDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, viewOf: (d: Uint8Array) => DataView): DecodeFn {
+function loopDecode(
+	plans: SignalPlan[],
+	muxPlan: SignalPlan | null,
+	viewOf: (d: Uint8Array) => DataView
+): DecodeFn {
 	const readers = plans.map(genericReader);
 	const muxReader = muxPlan ? readers[plans.indexOf(muxPlan)] : null;
 	const count = plans.length;
 	return (data, offset, length, out, outOffset, status, stride = 1) => {
 		const view = viewOf(data);
 		// NaN never equals a muxValue: a missing multiplexer hides every multiplexed signal.
-		const selected = muxPlan && muxReader && muxPlan.needBytes <= length ? muxReader(data, view, offset) : Number.NaN;
+		const selected =
+			muxPlan && muxReader && muxPlan.needBytes <= length
+				? muxReader(data, view, offset)
+				: Number.NaN;
 		for (let k = 0; k < count; k++) {
 			const plan = plans[k];
 			const at = outOffset + k * stride;
@@ -237,7 +278,9 @@ function loopDecode(plans: SignalPlan[], muxPlan: SignalPlan | null, viewOf: (d:
 				continue;
 			}
 			const raw = readers[k](data, view, offset);
-			const code: SignalStatus = plan.j1939 ? J1939_STATUS_CODE[j1939ValueStatus(raw, plan.layout.length)] : SIGNAL_STATUS.valid;
+			const code: SignalStatus = plan.j1939
+				? J1939_STATUS_CODE[j1939ValueStatus(raw, plan.layout.length)]
+				: SIGNAL_STATUS.valid;
 			out[at] = code === SIGNAL_STATUS.valid ? raw * plan.scale + plan.offset : Number.NaN;
 			if (status) status[at] = code;
 		}
@@ -255,9 +298,17 @@ function planFrame(frame: Frame): FramePlan {
 	return { plans, muxPlan: muxAt >= 0 ? plans[muxAt] : null, muxAt };
 }
 
-function compileFrame(frame: Frame, framePlan: FramePlan, frameIndex: number, channelStart: number, viewOf: (d: Uint8Array) => DataView, codegen: boolean): CompiledFrame {
+function compileFrame(
+	frame: Frame,
+	framePlan: FramePlan,
+	frameIndex: number,
+	channelStart: number,
+	viewOf: (d: Uint8Array) => DataView,
+	codegen: boolean
+): CompiledFrame {
 	const { plans, muxPlan } = framePlan;
-	const decode = (codegen && generateDecode(framePlan, viewOf)) || loopDecode(plans, muxPlan, viewOf);
+	const decode =
+		(codegen && generateDecode(framePlan, viewOf)) || loopDecode(plans, muxPlan, viewOf);
 	return { frameIndex, frame, channelStart, channelCount: plans.length, decode };
 }
 
@@ -278,7 +329,11 @@ const INLINE_SIGNAL_BUDGET = 400;
  * chosen through a frame → case table: less code, and fewer mispredicted branches on mixed traffic.
  * Null where code generation is forbidden.
  */
-function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], viewOf: (d: Uint8Array) => DataView): DispatchFn | null {
+function generateDispatch(
+	framePlans: FramePlan[],
+	frames: CompiledFrame[],
+	viewOf: (d: Uint8Array) => DataView
+): DispatchFn | null {
 	const caseOf = new Int32Array(framePlans.length);
 	const cases: string[] = [];
 	const layouts: FieldLayout[][] = [];
@@ -306,8 +361,17 @@ function generateDispatch(framePlans: FramePlan[], frames: CompiledFrame[], view
 	});
 	const body = `const v = viewOf(d);\nswitch (C[f]) {\n${cases.join('\n')}\n}`;
 	try {
-		const factory = new Function('D', 'C', ...GENERATED_HELPERS, `return function decodeAt(f, d, b, len, out, o, st, s = 1) {\n${body}\n};`);
-		return factory(frames.map((fr) => fr.decode), caseOf, ...helperValues(viewOf, layouts)) as DispatchFn;
+		const factory = new Function(
+			'D',
+			'C',
+			...GENERATED_HELPERS,
+			`return function decodeAt(f, d, b, len, out, o, st, s = 1) {\n${body}\n};`
+		);
+		return factory(
+			frames.map((fr) => fr.decode),
+			caseOf,
+			...helperValues(viewOf, layouts)
+		) as DispatchFn;
 	} catch {
 		return null;
 	}
@@ -343,10 +407,25 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 	const standard = new Int32Array(MAX_STANDARD_ID + 1).fill(-1);
 	const framePlans = map.frames.map(planFrame);
 	map.frames.forEach((frame, frameIndex) => {
-		const compiled = compileFrame(frame, framePlans[frameIndex], frameIndex, channels.length, viewOf, codegen);
+		const compiled = compileFrame(
+			frame,
+			framePlans[frameIndex],
+			frameIndex,
+			channels.length,
+			viewOf,
+			codegen
+		);
 		frames.push(compiled);
 		for (const s of frame.signals) {
-			channels.push({ index: channels.length, frameIndex, frameName: frame.name, signalName: s.name, unit: s.unit, min: s.min, max: s.max });
+			channels.push({
+				index: channels.length,
+				frameIndex,
+				frameName: frame.name,
+				signalName: s.name,
+				unit: s.unit,
+				min: s.min,
+				max: s.max
+			});
 		}
 		// First definition wins on duplicates; lintMap reports them.
 		const key = idKey(frame.id, frame.extended);
@@ -367,7 +446,8 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 	let lastExtendedIndex = -1;
 	function extendedIndexOf(id: number): number {
 		const exact = byId.get(idKey(id, true));
-		if (exact !== undefined || byPgn.size === 0 || !(id >= 0 && id <= MAX_EXTENDED_ID)) return exact ?? -1;
+		if (exact !== undefined || byPgn.size === 0 || !(id >= 0 && id <= MAX_EXTENDED_ID))
+			return exact ?? -1;
 		let found = pgnCache.get(id);
 		if (found === undefined) {
 			found = byPgn.get(j1939Pgn(id)) ?? -1;
@@ -389,8 +469,10 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 		}
 		return lastExtendedIndex;
 	}
-	const lookup = (id: number, extended: boolean): CompiledFrame | undefined => frames[indexOf(id, extended)];
-	const decodeAt = (codegen && generateDispatch(framePlans, frames, viewOf)) || loopDispatch(frames);
+	const lookup = (id: number, extended: boolean): CompiledFrame | undefined =>
+		frames[indexOf(id, extended)];
+	const decodeAt =
+		(codegen && generateDispatch(framePlans, frames, viewOf)) || loopDispatch(frames);
 
 	return { map, channels, frames, lookup, indexOf, decodeAt };
 }

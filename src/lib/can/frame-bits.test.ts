@@ -55,7 +55,9 @@ describe('frameBits (ISO 11898-1 classical data frames)', () => {
 		const seq = frameBitSequence(0x123, false, Uint8Array.of(0xaa));
 		const crc = seq.crc.toString(2).padStart(15, '0');
 		// SOF | ID 0x123 | RTR IDE r0 | DLC 1 | 0xAA | CRC | CRC delim, ACK slot, ACK delim, EOF×7
-		expect(str(seq.bits)).toBe('0' + '00100100011' + '000' + '0001' + '10101010' + crc + '1'.repeat(10));
+		expect(str(seq.bits)).toBe(
+			'0' + '00100100011' + '000' + '0001' + '10101010' + crc + '1'.repeat(10)
+		);
 		expect(seq.stuffedLength).toBe(1 + 11 + 3 + 4 + 8 + 15);
 	});
 
@@ -105,7 +107,9 @@ describe('bit stuffing (ISO 11898-1: a complement after 5 equal bits, stuff bits
 	});
 
 	it('shows the stuffed stream of a hand-made pattern', () => {
-		expect(str(applyStuffing(Array.from('0000011110000', Number)))).toBe('00000' + '1' + '1111' + '0' + '0000' + '1');
+		expect(str(applyStuffing(Array.from('0000011110000', Number)))).toBe(
+			'00000' + '1' + '1111' + '0' + '0000' + '1'
+		);
 	});
 
 	it('a stuffed random frame never has 6 equal bits in a row and fits the Davis bound', () => {
@@ -115,14 +119,18 @@ describe('bit stuffing (ISO 11898-1: a complement after 5 equal bits, stuff bits
 			const extended = t % 2 === 1;
 			const n = t % 9;
 			// Biased payloads (mostly 0x00/0xFF runs) reach far more stuff bits than uniform ones.
-			const data = Uint8Array.from({ length: n }, () => (t % 3 === 0 ? rand() : rand() < 128 ? 0x0f : 0xf0));
+			const data = Uint8Array.from({ length: n }, () =>
+				t % 3 === 0 ? rand() : rand() < 128 ? 0x0f : 0xf0
+			);
 			const id = randomId(rand, extended);
 			const seq = frameBitSequence(id, extended, data);
 			const { bits, stuffBits } = frameBits(id, extended, data);
 			const wire = str(applyStuffing(seq.bits.subarray(0, seq.stuffedLength)));
 			expect(wire).not.toMatch(/000000|111111/);
 			expect(wire.length).toBe(seq.stuffedLength + stuffBits);
-			expect(bits + stuffBits + interFrameBits).toBeLessThanOrEqual(worstCaseFrameBits(n, extended));
+			expect(bits + stuffBits + interFrameBits).toBeLessThanOrEqual(
+				worstCaseFrameBits(n, extended)
+			);
 			maxSeen = Math.max(maxSeen, stuffBits);
 		}
 		expect(maxSeen).toBeGreaterThan(10);
@@ -158,26 +166,31 @@ describe('worstCaseFrameBits (Davis, Burns, Bril, Lukkien 2007, eq. 1)', () => {
 });
 
 describe('maxStuffBits (exact worst-case stuffing, compared with the Davis et al. 2007 bound)', () => {
-	const davisStuff = (n: number, extended: boolean) => Math.floor(((extended ? 54 : 34) + 8 * n - 1) / 4);
+	const davisStuff = (n: number, extended: boolean) =>
+		Math.floor(((extended ? 54 : 34) + 8 * n - 1) / 4);
 
 	it('agrees with exhaustive search: every 11-bit ID with no data (ISO 11898-1 frames via frameBits)', () => {
 		let max = 0;
-		for (let id = 0; id <= 0x7ff; id++) max = Math.max(max, frameBits(id, false, new Uint8Array(0)).stuffBits);
+		for (let id = 0; id <= 0x7ff; id++)
+			max = Math.max(max, frameBits(id, false, new Uint8Array(0)).stuffBits);
 		expect(maxStuffBits(0, false).stuffBits).toBe(max);
 	});
 
-	it.each([0x7ff, 0x123])('agrees with exhaustive search over all 2-byte payloads for ID 0x%s', (id) => {
-		let max = 0;
-		const data = new Uint8Array(2);
-		for (let x = 0; x < 0x10000; x++) {
-			data[0] = x >> 8;
-			data[1] = x & 0xff;
-			max = Math.max(max, frameBits(id, false, data).stuffBits);
+	it.each([0x7ff, 0x123])(
+		'agrees with exhaustive search over all 2-byte payloads for ID 0x%s',
+		(id) => {
+			let max = 0;
+			const data = new Uint8Array(2);
+			for (let x = 0; x < 0x10000; x++) {
+				data[0] = x >> 8;
+				data[1] = x & 0xff;
+				max = Math.max(max, frameBits(id, false, data).stuffBits);
+			}
+			const found = maxStuffBits(2, false, id);
+			expect(found.stuffBits).toBe(max);
+			expect(found.id).toBe(id);
 		}
-		const found = maxStuffBits(2, false, id);
-		expect(found.stuffBits).toBe(max);
-		expect(found.id).toBe(id);
-	});
+	);
 
 	it.each([
 		[0, false],
@@ -185,19 +198,22 @@ describe('maxStuffBits (exact worst-case stuffing, compared with the Davis et al
 		[8, false],
 		[0, true],
 		[8, true]
-	] as const)('%d bytes, extended %s: a witness frame reaches the exact maximum, below the bound', (n, extended) => {
-		const found = maxStuffBits(n, extended);
-		// The witness is re-checked by building its real bit stream.
-		expect(frameBits(found.id, extended, found.data).stuffBits).toBe(found.stuffBits);
-		expect(found.data.length).toBe(n);
-		// Davis et al. 2007 bound: an upper bound, never exceeded …
-		expect(found.stuffBits).toBeLessThanOrEqual(davisStuff(n, extended));
-		// … and within 3 bits of the exact maximum (fixed control bits and the CRC cost 2–3 stuff bits).
-		expect(davisStuff(n, extended) - found.stuffBits).toBeLessThanOrEqual(3);
-		expect(frameBits(found.id, extended, found.data).bits + found.stuffBits + interFrameBits).toBeLessThanOrEqual(
-			worstCaseFrameBits(n, extended)
-		);
-	});
+	] as const)(
+		'%d bytes, extended %s: a witness frame reaches the exact maximum, below the bound',
+		(n, extended) => {
+			const found = maxStuffBits(n, extended);
+			// The witness is re-checked by building its real bit stream.
+			expect(frameBits(found.id, extended, found.data).stuffBits).toBe(found.stuffBits);
+			expect(found.data.length).toBe(n);
+			// Davis et al. 2007 bound: an upper bound, never exceeded …
+			expect(found.stuffBits).toBeLessThanOrEqual(davisStuff(n, extended));
+			// … and within 3 bits of the exact maximum (fixed control bits and the CRC cost 2–3 stuff bits).
+			expect(davisStuff(n, extended) - found.stuffBits).toBeLessThanOrEqual(3);
+			expect(
+				frameBits(found.id, extended, found.data).bits + found.stuffBits + interFrameBits
+			).toBeLessThanOrEqual(worstCaseFrameBits(n, extended));
+		}
+	);
 
 	it('beats every random frame of the same shape', () => {
 		const exact = maxStuffBits(4, false, 0x2aa).stuffBits;
@@ -216,7 +232,9 @@ describe('byte-wise fast path against the bit-by-bit reference', () => {
 			const extended = t % 2 === 1;
 			const n = t % 9;
 			// A third of the payloads are long runs of equal bits, where stuffing is busiest.
-			const data = Uint8Array.from({ length: n }, () => (t % 3 === 0 ? (rand() < 128 ? 0x00 : 0xff) : rand()));
+			const data = Uint8Array.from({ length: n }, () =>
+				t % 3 === 0 ? (rand() < 128 ? 0x00 : 0xff) : rand()
+			);
 			const id = randomId(rand, extended);
 			const fast = frameBits(id, extended, data);
 			expect(fast).toEqual(referenceFrameBits(id, extended, data));
@@ -226,7 +244,10 @@ describe('byte-wise fast path against the bit-by-bit reference', () => {
 	});
 
 	it('covers the extreme identifiers and payloads', () => {
-		const ids = { false: [0, 1, 0x400, 0x7fe, 0x7ff], true: [0, 1, 0x3ffff, 0x40000, 0x1ffffffe, 0x1fffffff] };
+		const ids = {
+			false: [0, 1, 0x400, 0x7fe, 0x7ff],
+			true: [0, 1, 0x3ffff, 0x40000, 0x1ffffffe, 0x1fffffff]
+		};
 		for (const extended of [false, true]) {
 			for (const id of ids[`${extended}`]) {
 				for (let n = 0; n <= 8; n++) {
@@ -248,9 +269,13 @@ describe('byte-wise fast path against the bit-by-bit reference', () => {
 			const offset = (rand() * 16 + (rand() >> 4)) % (pool.length - 8); // 0…4087, any alignment
 			const id = randomId(rand, extended);
 			const data = pool.slice(offset, offset + n);
-			expect(frameStuffBitsAt(id, extended, pool, offset, n)).toBe(referenceFrameBits(id, extended, data).stuffBits);
+			expect(frameStuffBitsAt(id, extended, pool, offset, n)).toBe(
+				referenceFrameBits(id, extended, data).stuffBits
+			);
 		}
-		expect(() => frameStuffBitsAt(0x100, false, pool, 4090, 8)).toThrow(/outside a pool of 4096 bytes/);
+		expect(() => frameStuffBitsAt(0x100, false, pool, 4090, 8)).toThrow(
+			/outside a pool of 4096 bytes/
+		);
 		expect(() => frameStuffBitsAt(0x800, false, pool, 0, 8)).toThrow(/0…0x7FF/);
 		expect(() => frameStuffBitsAt(0x100, false, pool, 0, 9)).toThrow(/0–8 data bytes/);
 	});

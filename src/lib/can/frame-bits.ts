@@ -51,7 +51,11 @@ function checkFrame(id: number, extended: boolean, length: number): void {
  * extended format: SOF, 11-bit base ID, SRR=1, IDE=1, 18-bit ID extension, RTR=0, r1=0, r0=0, DLC, data, CRC;
  * then CRC delimiter, ACK slot, ACK delimiter and 7 EOF bits, all recessive.
  */
-export function frameBitSequence(id: number, extended: boolean, data: Uint8Array): FrameBitSequence {
+export function frameBitSequence(
+	id: number,
+	extended: boolean,
+	data: Uint8Array
+): FrameBitSequence {
 	checkFrame(id, extended, data.length);
 	// Every field is at most 18 bits wide (the 29-bit ID goes out in 11 + 18), so 32-bit shifts are
 	// exact; one scratch buffer and no closures keep this cheap enough to run for every frame of a
@@ -147,7 +151,11 @@ export interface FrameBits {
 export function frameBits(id: number, extended: boolean, data: Uint8Array): FrameBits {
 	checkFrame(id, extended, data.length);
 	const packed = stuffBitsAndCrc(id, extended, data, 0, data.length);
-	return { bits: nominalFrameBits(data.length, extended), stuffBits: packed >>> 15, crc: packed & 0x7fff };
+	return {
+		bits: nominalFrameBits(data.length, extended),
+		stuffBits: packed >>> 15,
+		crc: packed & 0x7fff
+	};
 }
 
 /**
@@ -164,7 +172,9 @@ export function frameStuffBitsAt(
 ): number {
 	checkFrame(id, extended, length);
 	if (!Number.isInteger(offset) || offset < 0 || offset + length > bytes.length) {
-		throw new RangeError(`payload bytes ${offset}…${offset + length} lie outside a pool of ${bytes.length} bytes`);
+		throw new RangeError(
+			`payload bytes ${offset}…${offset + length} lie outside a pool of ${bytes.length} bytes`
+		);
 	}
 	return stuffBitsAndCrc(id, extended, bytes, offset, length) >>> 15;
 }
@@ -233,12 +243,21 @@ function putHeader(id: number, extended: boolean, length: number): number {
 }
 
 /** (stuff bits << 15) | CRC-15 of a checked classical frame; see the comment above for the method. */
-function stuffBitsAndCrc(id: number, extended: boolean, bytes: Uint8Array, offset: number, length: number): number {
+function stuffBitsAndCrc(
+	id: number,
+	extended: boolean,
+	bytes: Uint8Array,
+	offset: number,
+	length: number
+): number {
 	const headerLength = putHeader(id, extended, length);
 	let crc = 0;
 	let stuff = 0;
 	// The first header byte carries the pad: zeros for the CRC, the stuffing pad for the run count.
-	let v = STUFF_TABLE[(STUFF_START << 8) | headerBytes[0] | (extended ? STUFF_PAD_EXTENDED : STUFF_PAD_BASE)];
+	let v =
+		STUFF_TABLE[
+			(STUFF_START << 8) | headerBytes[0] | (extended ? STUFF_PAD_EXTENDED : STUFF_PAD_BASE)
+		];
 	crc = crc15UpdateByte(crc, headerBytes[0]);
 	stuff += v & 3;
 	for (let k = 1; k < headerLength; k++) {
@@ -272,7 +291,9 @@ function stuffBitsAndCrc(id: number, extended: boolean, bytes: Uint8Array, offse
  */
 export function worstCaseFrameBits(length: number, extended: boolean): number {
 	if (!Number.isInteger(length) || length < 0 || length > CLASSICAL_MAX_LENGTH) {
-		throw new RangeError(`worst-case length is defined for 0–8 data bytes (classical CAN), got ${length}`);
+		throw new RangeError(
+			`worst-case length is defined for 0–8 data bytes (classical CAN), got ${length}`
+		);
 	}
 	const stuffed = stuffedControlBits(extended) + 8 * length;
 	return stuffed + TRAILER_BITS + interFrameBits + Math.floor((stuffed - 1) / 4);
@@ -389,7 +410,11 @@ function range(from: number, to: number): number[] {
 }
 
 /** One bit of the stuffing rule: the new run state and whether a stuff bit follows. */
-function advance(last: number, run: number, bit: number): { last: number; run: number; stuffed: number } {
+function advance(
+	last: number,
+	run: number,
+	bit: number
+): { last: number; run: number; stuffed: number } {
 	const r = bit === last ? run + 1 : 1;
 	return r === 5 ? { last: 1 - bit, run: 1, stuffed: 1 } : { last: bit, run: r, stuffed: 0 };
 }

@@ -27,7 +27,14 @@ describe('parseJ1939Id (SAE J1939-21 29-bit identifier layout)', () => {
 		{ id: 0x1cec21f9, priority: 7, pgn: 0xec00, pf: 0xec, ps: 0x21, sa: 0xf9, da: 0x21 }
 	])('ID $id → priority $priority, PGN $pgn', ({ id, priority, pgn, pf, ps, sa, da }) => {
 		const parsed = parseJ1939Id(id);
-		expect(parsed).toMatchObject({ priority, pgn, pf, ps, sourceAddress: sa, destinationAddress: da });
+		expect(parsed).toMatchObject({
+			priority,
+			pgn,
+			pf,
+			ps,
+			sourceAddress: sa,
+			destinationAddress: da
+		});
 		expect(parsed.edp).toBe(0);
 		expect(parsed.dp).toBe(0);
 		// build is the inverse of parse
@@ -138,7 +145,14 @@ describe('SAE J1939-71 scaling arithmetic (resolution × raw + offset)', () => {
 		// SPN 110 engine coolant temperature: 1 °C/bit, −40 °C offset, 1 byte.
 		{ what: 'coolant temperature', raw: 130, resolution: 1, offset: -40, bits: 8, expected: 90 },
 		// SPN 84 wheel-based vehicle speed: 1/256 km/h per bit, 2 bytes.
-		{ what: 'wheel-based speed', raw: 0x6400, resolution: 1 / 256, offset: 0, bits: 16, expected: 100 },
+		{
+			what: 'wheel-based speed',
+			raw: 0x6400,
+			resolution: 1 / 256,
+			offset: 0,
+			bits: 16,
+			expected: 100
+		},
 		// SPN 91 accelerator pedal position 1: 0.4 %/bit, 1 byte.
 		{ what: 'accelerator pedal', raw: 250, resolution: 0.4, offset: 0, bits: 8, expected: 100 },
 		// SPN 513 actual engine percent torque: 1 %/bit, −125 % offset, 1 byte.
@@ -159,14 +173,30 @@ describe('SAE J1939-71 scaling arithmetic (resolution × raw + offset)', () => {
 
 // Helpers building frames purely from the SAE J1939-21 layout.
 const SA = 0x00;
-const cmId = buildJ1939Id({ priority: 7, pgn: PGN_TP_CM, sourceAddress: SA, destinationAddress: 0xff });
-const dtId = buildJ1939Id({ priority: 7, pgn: PGN_TP_DT, sourceAddress: SA, destinationAddress: 0xff });
+const cmId = buildJ1939Id({
+	priority: 7,
+	pgn: PGN_TP_CM,
+	sourceAddress: SA,
+	destinationAddress: 0xff
+});
+const dtId = buildJ1939Id({
+	priority: 7,
+	pgn: PGN_TP_DT,
+	sourceAddress: SA,
+	destinationAddress: 0xff
+});
 
 function bamFrames(pgn: number, message: Uint8Array): Uint8Array[] {
 	const packets = Math.ceil(message.length / 7);
 	const cm = Uint8Array.of(
-		TP_CM_BAM, message.length & 0xff, message.length >> 8, packets, 0xff,
-		pgn & 0xff, (pgn >> 8) & 0xff, pgn >> 16
+		TP_CM_BAM,
+		message.length & 0xff,
+		message.length >> 8,
+		packets,
+		0xff,
+		pgn & 0xff,
+		(pgn >> 8) & 0xff,
+		pgn >> 16
 	);
 	const dts = Array.from({ length: packets }, (_, i) => {
 		const dt = new Uint8Array(8).fill(0xff); // J1939-21: unused bytes of the last packet are 0xFF
@@ -190,7 +220,9 @@ describe('DM1 (SAE J1939-73)', () => {
 		expect(dm1.lamps.malfunctionIndicator.state).toBe('off');
 		expect(dm1.lamps.redStop.state).toBe('off');
 		expect(dm1.lamps.protect.state).toBe('off');
-		expect(dm1.troubleCodes).toEqual([{ spn: 100, fmi: 1, occurrenceCount: 3, conversionMethod: 0 }]);
+		expect(dm1.troubleCodes).toEqual([
+			{ spn: 100, fmi: 1, occurrenceCount: 3, conversionMethod: 0 }
+		]);
 	});
 
 	it('decodes two trouble codes, including the 3 high SPN bits in byte 5 bits 8–6', () => {
@@ -198,9 +230,16 @@ describe('DM1 (SAE J1939-73)', () => {
 		// J1939-71, from memory) FMI 31 OC 127 (127 = occurrence count not available, from memory).
 		// Lamps: MIL on (bits 8–7 = 01 → 0x40), red stop on (bits 6–5 = 01 → 0x10); MIL fast flash.
 		const payload = Uint8Array.of(
-			0x50, 0x7f, // lamp status, flash (MIL 01 = fast, others 11 = none)
-			0x6e, 0x00, 0x00, 0x01, // SPN 110, FMI 0, CM 0, OC 1
-			0x00, 0xf0, 0xff, 0x7f // SPN 0x7F000: low 0x00, mid 0xF0, top 3 bits 111 | FMI 11111
+			0x50,
+			0x7f, // lamp status, flash (MIL 01 = fast, others 11 = none)
+			0x6e,
+			0x00,
+			0x00,
+			0x01, // SPN 110, FMI 0, CM 0, OC 1
+			0x00,
+			0xf0,
+			0xff,
+			0x7f // SPN 0x7F000: low 0x00, mid 0xF0, top 3 bits 111 | FMI 11111
 		);
 		const dm1 = parseDm1(payload);
 		expect(dm1.lamps.malfunctionIndicator).toEqual({ state: 'on', flash: 'fast' });
@@ -217,7 +256,12 @@ describe('DM1 (SAE J1939-73)', () => {
 		// J1939-73 (from memory): with no active DTC, SPN = 0, FMI = 0, OC = 0 is sent.
 		const dm1 = parseDm1(Uint8Array.of(0x00, 0xff, 0, 0, 0, 0, 0xff, 0xff));
 		expect(dm1.troubleCodes).toEqual([]);
-		const allOff = { malfunctionIndicator: lampsOff, redStop: lampsOff, amberWarning: lampsOff, protect: lampsOff };
+		const allOff = {
+			malfunctionIndicator: lampsOff,
+			redStop: lampsOff,
+			amberWarning: lampsOff,
+			protect: lampsOff
+		};
 		expect(parseDm1(encodeDm1(allOff, []))).toEqual(dm1);
 	});
 
@@ -323,7 +367,12 @@ describe('BAM transport reassembly (SAE J1939-21) carrying DM1 (SAE J1939-73)', 
 	it('ignores connection-mode (RTS/CTS) frames and unrelated PGNs', () => {
 		const tp = createTransportReassembler();
 		const rts = Uint8Array.of(16, 18, 0, 3, 0xff, 0xca, 0xfe, 0x00); // control byte 16 = RTS
-		const toNode = buildJ1939Id({ priority: 7, pgn: PGN_TP_CM, sourceAddress: SA, destinationAddress: 0x21 });
+		const toNode = buildJ1939Id({
+			priority: 7,
+			pgn: PGN_TP_CM,
+			sourceAddress: SA,
+			destinationAddress: 0x21
+		});
 		expect(tp.push(toNode, 0, rts)).toBeNull();
 		expect(tp.push(0x0cf00400, 0, new Uint8Array(8))).toBeNull();
 		expect(tp.pending).toBe(0);

@@ -416,7 +416,12 @@ export function createTransportReassembler(
 		const sequence = data[0];
 		if (sequence !== t.received + 1) {
 			const expected = t.received + 1;
-			drop(sa, 'outOfOrder', time, `BAM from 0x${hex(sa)}: packet ${sequence} arrived, expected ${expected}`);
+			drop(
+				sa,
+				'outOfOrder',
+				time,
+				`BAM from 0x${hex(sa)}: packet ${sequence} arrived, expected ${expected}`
+			);
 			return null;
 		}
 		t.buffer.set(data.subarray(1, 8), t.received * TP_DT_BYTES);

@@ -21,10 +21,13 @@ describe('findJsonSyntaxError', () => {
 		expect(error?.message).toMatch(message);
 	});
 
-	it.each(['{}', '[]', '{"a":[1,-2.5e3,true,false,null,"\\u00e9\\n"]}', ' 0 ', '"x"'])('accepts valid JSON %j like JSON.parse', (text) => {
-		expect(() => JSON.parse(text)).not.toThrow();
-		expect(findJsonSyntaxError(text)).toBeNull();
-	});
+	it.each(['{}', '[]', '{"a":[1,-2.5e3,true,false,null,"\\u00e9\\n"]}', ' 0 ', '"x"'])(
+		'accepts valid JSON %j like JSON.parse',
+		(text) => {
+			expect(() => JSON.parse(text)).not.toThrow();
+			expect(findJsonSyntaxError(text)).toBeNull();
+		}
+	);
 });
 
 describe('lineColumn', () => {

@@ -43,15 +43,18 @@ function scan(text: string): void {
 			const ch = text[i];
 			if (ch === undefined) fail('unterminated string: missing closing quote');
 			if (ch === '"') break;
-			if (ch < ' ') fail('line break or control character inside a string (write it as \\n, \\t …)');
+			if (ch < ' ')
+				fail('line break or control character inside a string (write it as \\n, \\t …)');
 			if (ch === '\\') {
 				const next = text[i + 1];
 				if (next === 'u') {
-					if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6))) fail('\\u must be followed by 4 hex digits');
+					if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 2, i + 6)))
+						fail('\\u must be followed by 4 hex digits');
 					i += 6;
 					continue;
 				}
-				if (next === undefined || !'"\\/bfnrt'.includes(next)) fail(`invalid escape \\${next ?? ''} in string`);
+				if (next === undefined || !'"\\/bfnrt'.includes(next))
+					fail(`invalid escape \\${next ?? ''} in string`);
 				i += 2;
 				continue;
 			}
@@ -65,7 +68,10 @@ function scan(text: string): void {
 		if (!match) fail(`invalid number starting with ${describe(text[i])}`);
 		i += match![0].length;
 		if (/[0-9.eExX]/.test(text[i] ?? '')) {
-			fail('invalid number (JSON numbers are decimal without leading zeros; write hex IDs as strings like "0x360")', start);
+			fail(
+				'invalid number (JSON numbers are decimal without leading zeros; write hex IDs as strings like "0x360")',
+				start
+			);
 		}
 	};
 	const value = (): void => {
@@ -79,7 +85,11 @@ function scan(text: string): void {
 		if (ch === 'f') return literal('false');
 		if (ch === 'n') return literal('null');
 		if (ch === "'") fail('strings must use double quotes');
-		fail(ch === undefined ? 'unexpected end of input: a value is missing' : `unexpected ${describe(ch)} where a value should be`);
+		fail(
+			ch === undefined
+				? 'unexpected end of input: a value is missing'
+				: `unexpected ${describe(ch)} where a value should be`
+		);
 	};
 	const object = () => {
 		i++;
@@ -87,7 +97,8 @@ function scan(text: string): void {
 		if (text[i] === '}') return void i++;
 		for (;;) {
 			skipSpace();
-			if (text[i] !== '"') fail(`expected a property name in double quotes, found ${describe(text[i])}`);
+			if (text[i] !== '"')
+				fail(`expected a property name in double quotes, found ${describe(text[i])}`);
 			string();
 			skipSpace();
 			if (text[i] !== ':') fail(`expected ":" after the property name, found ${describe(text[i])}`);

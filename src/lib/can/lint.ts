@@ -40,7 +40,10 @@ export type LintCode =
 	| 'limit-unreachable'
 	| `alert-${AlertRuleProblemCode}`;
 
-type Report = (problem: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>, field?: string) => void;
+type Report = (
+	problem: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>,
+	field?: string
+) => void;
 
 const framePath = (f: number) => `frames[${f}]`;
 const signalPath = (f: number, s: number) => `frames[${f}].signals[${s}]`;
@@ -48,7 +51,8 @@ const signalPath = (f: number, s: number) => `frames[${f}].signals[${s}]`;
 /** Bits a signal occupies inside the payload, as a bit set (bit p of the BigInt = payload bit p). */
 function bitSet(signal: Signal): bigint {
 	let set = 0n;
-	for (const p of fieldBitPositions(signal.startBit, signal.length, signal.byteOrder)) if (p >= 0) set |= 1n << BigInt(p);
+	for (const p of fieldBitPositions(signal.startBit, signal.length, signal.byteOrder))
+		if (p >= 0) set |= 1n << BigInt(p);
 	return set;
 }
 
@@ -82,31 +86,89 @@ export function presentTogether(a: Signal, b: Signal): boolean {
 function lintSignal(frame: Frame, signal: Signal, report: Report): void {
 	const layout = fieldLayout(signal.startBit, signal.length, signal.byteOrder);
 	if (layout.lowByte < 0) {
-		report({ severity: 'error', code: 'beyond-payload', message: `"${signal.name}" is big-endian and ${signal.length} bits long, so with start bit ${signal.startBit} it would run before byte 0` }, 'startBit');
+		report(
+			{
+				severity: 'error',
+				code: 'beyond-payload',
+				message: `"${signal.name}" is big-endian and ${signal.length} bits long, so with start bit ${signal.startBit} it would run before byte 0`
+			},
+			'startBit'
+		);
 	} else if (layout.highByte >= frame.length) {
-		report({ severity: 'error', code: 'beyond-payload', message: `"${signal.name}" uses byte ${layout.highByte} but the frame carries ${frame.length} byte(s)` }, 'startBit');
+		report(
+			{
+				severity: 'error',
+				code: 'beyond-payload',
+				message: `"${signal.name}" uses byte ${layout.highByte} but the frame carries ${frame.length} byte(s)`
+			},
+			'startBit'
+		);
 	}
 	if (signal.scale === 0) {
-		report({ severity: 'error', code: 'zero-scale', message: `"${signal.name}" has scale 0: every raw value would read as the offset` }, 'scale');
+		report(
+			{
+				severity: 'error',
+				code: 'zero-scale',
+				message: `"${signal.name}" has scale 0: every raw value would read as the offset`
+			},
+			'scale'
+		);
 	}
 	if (signal.min !== null && signal.max !== null && signal.min > signal.max) {
-		report({ severity: 'error', code: 'min-above-max', message: `"${signal.name}" has min ${signal.min} above max ${signal.max}` }, 'min');
+		report(
+			{
+				severity: 'error',
+				code: 'min-above-max',
+				message: `"${signal.name}" has min ${signal.min} above max ${signal.max}`
+			},
+			'min'
+		);
 	}
-	const floatLength = signal.valueType === 'float32' ? 32 : signal.valueType === 'float64' ? 64 : null;
+	const floatLength =
+		signal.valueType === 'float32' ? 32 : signal.valueType === 'float64' ? 64 : null;
 	if (floatLength !== null && signal.length !== floatLength) {
-		report({ severity: 'error', code: 'float-length', message: `"${signal.name}" is ${signal.valueType}, which must be ${floatLength} bits long, not ${signal.length}` }, 'length');
+		report(
+			{
+				severity: 'error',
+				code: 'float-length',
+				message: `"${signal.name}" is ${signal.valueType}, which must be ${floatLength} bits long, not ${signal.length}`
+			},
+			'length'
+		);
 	}
 	if (floatLength === null) {
 		const { lo, hi } = rawBounds(signal);
-		const outside = Object.keys(signal.labels).filter((key) => BigInt(key) < lo || BigInt(key) > hi);
+		const outside = Object.keys(signal.labels).filter(
+			(key) => BigInt(key) < lo || BigInt(key) > hi
+		);
 		if (outside.length > 0) {
-			report({ severity: 'warning', code: 'label-out-of-range', message: `"${signal.name}" has label(s) for raw ${outside.join(', ')}, outside its raw range ${lo}…${hi}` }, 'labels');
+			report(
+				{
+					severity: 'warning',
+					code: 'label-out-of-range',
+					message: `"${signal.name}" has label(s) for raw ${outside.join(', ')}, outside its raw range ${lo}…${hi}`
+				},
+				'labels'
+			);
 		}
 		// A limit the field can never reach means a warning that can never fire, or one that always fires.
-		const ends = [Number(lo) * signal.scale + signal.offset, Number(hi) * signal.scale + signal.offset];
+		const ends = [
+			Number(lo) * signal.scale + signal.offset,
+			Number(hi) * signal.scale + signal.offset
+		];
 		const [low, high] = [Math.min(...ends), Math.max(...ends)];
-		if (signal.scale !== 0 && ((signal.min !== null && signal.min > high) || (signal.max !== null && signal.max < low))) {
-			report({ severity: 'warning', code: 'limit-unreachable', message: `"${signal.name}" can only carry ${low}…${high}, so its min/max ${signal.min ?? '–'}…${signal.max ?? '–'} cannot be met` }, signal.min !== null && signal.min > high ? 'min' : 'max');
+		if (
+			signal.scale !== 0 &&
+			((signal.min !== null && signal.min > high) || (signal.max !== null && signal.max < low))
+		) {
+			report(
+				{
+					severity: 'warning',
+					code: 'limit-unreachable',
+					message: `"${signal.name}" can only carry ${low}…${high}, so its min/max ${signal.min ?? '–'}…${signal.max ?? '–'} cannot be met`
+				},
+				signal.min !== null && signal.min > high ? 'min' : 'max'
+			);
 		}
 	}
 }
@@ -118,25 +180,66 @@ function lintFrameSignals(frame: Frame, f: number, problems: LintProblem[]): voi
 
 	frame.signals.forEach((signal, s) => {
 		const report: Report = (p, field) =>
-			problems.push({ ...p, frameIndex: f, signalIndex: s, path: field ? `${signalPath(f, s)}.${field}` : signalPath(f, s) });
+			problems.push({
+				...p,
+				frameIndex: f,
+				signalIndex: s,
+				path: field ? `${signalPath(f, s)}.${field}` : signalPath(f, s)
+			});
 		lintSignal(frame, signal, report);
 
 		const first = names.get(signal.name);
 		if (first === undefined) names.set(signal.name, s);
-		else report({ severity: 'error', code: 'duplicate-signal-name', message: `frame "${frame.name}" already has a signal "${signal.name}" (signal ${first})` }, 'name');
+		else
+			report(
+				{
+					severity: 'error',
+					code: 'duplicate-signal-name',
+					message: `frame "${frame.name}" already has a signal "${signal.name}" (signal ${first})`
+				},
+				'name'
+			);
 
 		if (signal.multiplexer && multiplexers[0] !== s) {
-			report({ severity: 'error', code: 'multiple-multiplexers', message: `frame "${frame.name}" already has multiplexer "${frame.signals[multiplexers[0]].name}"; only one is allowed` }, 'multiplexer');
+			report(
+				{
+					severity: 'error',
+					code: 'multiple-multiplexers',
+					message: `frame "${frame.name}" already has multiplexer "${frame.signals[multiplexers[0]].name}"; only one is allowed`
+				},
+				'multiplexer'
+			);
 		}
 		if (signal.muxValue !== null) {
 			if (multiplexers.length === 0) {
-				report({ severity: 'error', code: 'mux-without-multiplexer', message: `"${signal.name}" has mux value ${signal.muxValue} but frame "${frame.name}" has no multiplexer signal, so it is never decoded` }, 'muxValue');
+				report(
+					{
+						severity: 'error',
+						code: 'mux-without-multiplexer',
+						message: `"${signal.name}" has mux value ${signal.muxValue} but frame "${frame.name}" has no multiplexer signal, so it is never decoded`
+					},
+					'muxValue'
+				);
 			} else if (signal.multiplexer) {
-				report({ severity: 'warning', code: 'nested-multiplexer', message: `"${signal.name}" is a multiplexer with a mux value; it is treated as always present` }, 'muxValue');
+				report(
+					{
+						severity: 'warning',
+						code: 'nested-multiplexer',
+						message: `"${signal.name}" is a multiplexer with a mux value; it is treated as always present`
+					},
+					'muxValue'
+				);
 			} else {
 				const mux = frame.signals[multiplexers[0]];
 				if (BigInt(signal.muxValue) > rawBounds({ ...mux, valueType: 'unsigned' }).hi) {
-					report({ severity: 'warning', code: 'mux-value-out-of-range', message: `"${signal.name}" has mux value ${signal.muxValue}, which the ${mux.length}-bit multiplexer "${mux.name}" can never carry` }, 'muxValue');
+					report(
+						{
+							severity: 'warning',
+							code: 'mux-value-out-of-range',
+							message: `"${signal.name}" has mux value ${signal.muxValue}, which the ${mux.length}-bit multiplexer "${mux.name}" can never carry`
+						},
+						'muxValue'
+					);
 				}
 			}
 		}
@@ -145,7 +248,14 @@ function lintFrameSignals(frame: Frame, f: number, problems: LintProblem[]): voi
 			if (!presentTogether(frame.signals[other], signal)) continue;
 			const shared = sets[other] & sets[s];
 			if (shared !== 0n) {
-				report({ severity: 'error', code: 'signal-overlap', message: `"${signal.name}" overlaps "${frame.signals[other].name}" on payload ${describeBits(shared)}` }, 'startBit');
+				report(
+					{
+						severity: 'error',
+						code: 'signal-overlap',
+						message: `"${signal.name}" overlaps "${frame.signals[other].name}" on payload ${describeBits(shared)}`
+					},
+					'startBit'
+				);
 			}
 		}
 	});
@@ -159,39 +269,88 @@ export function lintMap(map: CanMap): LintProblem[] {
 
 	map.frames.forEach((frame, f) => {
 		const report = (p: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>, field?: string) =>
-			problems.push({ ...p, frameIndex: f, signalIndex: null, path: field ? `${framePath(f)}.${field}` : framePath(f) });
+			problems.push({
+				...p,
+				frameIndex: f,
+				signalIndex: null,
+				path: field ? `${framePath(f)}.${field}` : framePath(f)
+			});
 		const idText = formatCanId(frame.id, frame.extended);
 
 		if (!frame.extended && frame.id > MAX_STANDARD_ID) {
-			report({ severity: 'error', code: 'standard-id-range', message: `frame "${frame.name}" has ID ${idText}, above the 11-bit maximum 0x7FF; mark it extended or fix the ID` }, 'id');
+			report(
+				{
+					severity: 'error',
+					code: 'standard-id-range',
+					message: `frame "${frame.name}" has ID ${idText}, above the 11-bit maximum 0x7FF; mark it extended or fix the ID`
+				},
+				'id'
+			);
 		}
 		if (frame.j1939 && !frame.extended) {
-			report({ severity: 'error', code: 'j1939-standard-id', message: `frame "${frame.name}" is marked J1939 but has a standard ID; J1939 uses 29-bit extended IDs` }, 'j1939');
+			report(
+				{
+					severity: 'error',
+					code: 'j1939-standard-id',
+					message: `frame "${frame.name}" is marked J1939 but has a standard ID; J1939 uses 29-bit extended IDs`
+				},
+				'j1939'
+			);
 		}
 
 		const key = `${frame.extended ? 'x' : 's'}${frame.id}`;
 		const sameId = byId.get(key);
 		if (sameId === undefined) byId.set(key, f);
-		else report({ severity: 'error', code: 'duplicate-frame-id', message: `frame "${frame.name}" has the same ${frame.extended ? 'extended' : 'standard'} ID ${idText} as frame "${map.frames[sameId].name}"` }, 'id');
+		else
+			report(
+				{
+					severity: 'error',
+					code: 'duplicate-frame-id',
+					message: `frame "${frame.name}" has the same ${frame.extended ? 'extended' : 'standard'} ID ${idText} as frame "${map.frames[sameId].name}"`
+				},
+				'id'
+			);
 
 		if (frame.j1939 && frame.extended) {
 			const pgn = j1939Pgn(frame.id);
 			const samePgn = byPgn.get(pgn);
 			if (samePgn === undefined) byPgn.set(pgn, f);
 			else if (sameId === undefined) {
-				report({ severity: 'error', code: 'duplicate-pgn', message: `J1939 frame "${frame.name}" has PGN ${pgn} like frame "${map.frames[samePgn].name}"; received frames match by PGN, so only the first is used` }, 'id');
+				report(
+					{
+						severity: 'error',
+						code: 'duplicate-pgn',
+						message: `J1939 frame "${frame.name}" has PGN ${pgn} like frame "${map.frames[samePgn].name}"; received frames match by PGN, so only the first is used`
+					},
+					'id'
+				);
 			}
 		}
 
 		const sameName = byName.get(frame.name);
 		if (sameName === undefined) byName.set(frame.name, f);
-		else report({ severity: 'error', code: 'duplicate-frame-name', message: `frame name "${frame.name}" is already used by frame ${sameName}` }, 'name');
+		else
+			report(
+				{
+					severity: 'error',
+					code: 'duplicate-frame-name',
+					message: `frame name "${frame.name}" is already used by frame ${sameName}`
+				},
+				'name'
+			);
 
 		lintFrameSignals(frame, f, problems);
 	});
 	// Alert rules are checked against the map by the alert module; their paths are made map-relative.
 	for (const p of validateAlertRules(map.alertRules, map)) {
-		problems.push({ severity: p.severity, code: `alert-${p.code}`, message: p.message, frameIndex: null, signalIndex: null, path: `alertRules${p.path}` });
+		problems.push({
+			severity: p.severity,
+			code: `alert-${p.code}`,
+			message: p.message,
+			frameIndex: null,
+			signalIndex: null,
+			path: `alertRules${p.path}`
+		});
 	}
 	return problems;
 }

@@ -6,7 +6,15 @@ const base: CanMapInput = {
 	format: 'framewright-map@1',
 	name: 'Base',
 	frames: [
-		{ name: 'A', id: '0x100', cycleMs: 10, signals: [{ name: 'S1', startBit: 0, length: 8 }, { name: 'S2', startBit: 8, length: 8, labels: { '0': 'Off' } }] },
+		{
+			name: 'A',
+			id: '0x100',
+			cycleMs: 10,
+			signals: [
+				{ name: 'S1', startBit: 0, length: 8 },
+				{ name: 'S2', startBit: 8, length: 8, labels: { '0': 'Off' } }
+			]
+		},
 		{ name: 'B', id: '0x200', signals: [{ name: 'T', startBit: 0, length: 16 }] },
 		{ name: 'C', id: '0x300', signals: [] }
 	]
@@ -36,8 +44,22 @@ describe('diffMaps', () => {
 		const diff = diffMaps(original, next);
 		expect(diff.identical).toBe(false);
 		expect(diff.frames).toEqual([
-			{ key: '0x100', status: 'changed', name: 'A', changes: [], signals: [{ name: 'S1', status: 'changed', changes: [{ field: 'scale', from: 1, to: 0.5 }] }] },
-			{ key: '0x200', status: 'changed', name: 'B', changes: [], signals: [{ name: 'T', status: 'removed', changes: [] }] },
+			{
+				key: '0x100',
+				status: 'changed',
+				name: 'A',
+				changes: [],
+				signals: [
+					{ name: 'S1', status: 'changed', changes: [{ field: 'scale', from: 1, to: 0.5 }] }
+				]
+			},
+			{
+				key: '0x200',
+				status: 'changed',
+				name: 'B',
+				changes: [],
+				signals: [{ name: 'T', status: 'removed', changes: [] }]
+			},
 			{ key: '0x300', status: 'same', name: 'C', changes: [], signals: [] },
 			{ key: '0x400', status: 'added', name: 'D', changes: [], signals: [] }
 		]);
@@ -62,7 +84,11 @@ describe('diffMaps', () => {
 			['0x300', 'same']
 		]);
 		expect(diff.frames[0].changes).toEqual([{ field: 'cycleMs', from: 10, to: 20 }]);
-		expect(diff.frames[0].signals[0]).toEqual({ name: 'S2', status: 'changed', changes: [{ field: 'labels', from: { '0': 'Off' }, to: { '0': 'Off', '1': 'On' } }] });
+		expect(diff.frames[0].signals[0]).toEqual({
+			name: 'S2',
+			status: 'changed',
+			changes: [{ field: 'labels', from: { '0': 'Off' }, to: { '0': 'Off', '1': 'On' } }]
+		});
 		expect(diff.frames[1].signals).toEqual([{ name: 'T', status: 'removed', changes: [] }]);
 	});
 
@@ -95,14 +121,33 @@ describe('diffMaps', () => {
 	});
 
 	describe('alert rules', () => {
-		const hot = { id: 'hot', name: 'Hot', channel: { frame: 'A', signal: 'S1' }, severity: 'advisory', condition: 'above', setpoint: 100 } as const;
-		const withRules = (rules: unknown[]) => canMapSchema.parse({ ...structuredClone(base), alertRules: rules });
+		const hot = {
+			id: 'hot',
+			name: 'Hot',
+			channel: { frame: 'A', signal: 'S1' },
+			severity: 'advisory',
+			condition: 'above',
+			setpoint: 100
+		} as const;
+		const withRules = (rules: unknown[]) =>
+			canMapSchema.parse({ ...structuredClone(base), alertRules: rules });
 
 		it('are matched by id: a renamed rule with a new setpoint is changed, field by field', () => {
-			const diff = diffMaps(withRules([hot]), withRules([{ ...hot, name: 'Very hot', setpoint: 110 }]));
+			const diff = diffMaps(
+				withRules([hot]),
+				withRules([{ ...hot, name: 'Very hot', setpoint: 110 }])
+			);
 			expect(diff.identical).toBe(false);
 			expect(diff.alertRules).toEqual([
-				{ id: 'hot', name: 'Very hot', status: 'changed', changes: [{ field: 'name', from: 'Hot', to: 'Very hot' }, { field: 'setpoint', from: 100, to: 110 }] }
+				{
+					id: 'hot',
+					name: 'Very hot',
+					status: 'changed',
+					changes: [
+						{ field: 'name', from: 'Hot', to: 'Very hot' },
+						{ field: 'setpoint', from: 100, to: 110 }
+					]
+				}
 			]);
 		});
 
@@ -110,8 +155,15 @@ describe('diffMaps', () => {
 			const { setpoint: _unused, ...common } = hot;
 			const band = { ...common, condition: 'outside', low: 10, high: 90 };
 			const cold = { ...hot, id: 'cold', name: 'Cold', condition: 'below', setpoint: 5 };
-			const diff = diffMaps(withRules([hot, cold]), withRules([band, { ...hot, id: 'new', name: 'New' }]));
-			expect(diff.alertRules.map((r) => [r.id, r.status])).toEqual([['hot', 'changed'], ['cold', 'removed'], ['new', 'added']]);
+			const diff = diffMaps(
+				withRules([hot, cold]),
+				withRules([band, { ...hot, id: 'new', name: 'New' }])
+			);
+			expect(diff.alertRules.map((r) => [r.id, r.status])).toEqual([
+				['hot', 'changed'],
+				['cold', 'removed'],
+				['new', 'added']
+			]);
 			expect(diff.alertRules[0].changes).toEqual([
 				{ field: 'condition', from: 'above', to: 'outside' },
 				{ field: 'setpoint', from: 100, to: undefined },

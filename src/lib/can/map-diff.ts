@@ -49,7 +49,14 @@ export interface MapDiff {
 }
 
 const MAP_FIELDS = ['name', 'bitrate'] as const satisfies readonly (keyof CanMap)[];
-const FRAME_FIELDS = ['name', 'length', 'cycleMs', 'sender', 'j1939', 'comment'] as const satisfies readonly (keyof Frame)[];
+const FRAME_FIELDS = [
+	'name',
+	'length',
+	'cycleMs',
+	'sender',
+	'j1939',
+	'comment'
+] as const satisfies readonly (keyof Frame)[];
 const SIGNAL_FIELDS = [
 	'startBit',
 	'length',
@@ -88,11 +95,19 @@ function sameValue(a: unknown, b: unknown): boolean {
 	if (a === null || b === null || typeof a !== 'object' || typeof b !== 'object') return false;
 	const ka = Object.keys(a);
 	const kb = Object.keys(b);
-	return ka.length === kb.length && ka.every((k) => k in b && sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+	return (
+		ka.length === kb.length &&
+		ka.every(
+			(k) =>
+				k in b && sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k])
+		)
+	);
 }
 
 function fieldChanges<T, K extends keyof T>(a: T, b: T, fields: readonly K[]): FieldChange[] {
-	return fields.filter((f) => !sameValue(a[f], b[f])).map((f) => ({ field: String(f), from: a[f], to: b[f] }));
+	return fields
+		.filter((f) => !sameValue(a[f], b[f]))
+		.map((f) => ({ field: String(f), from: a[f], to: b[f] }));
 }
 
 /** Keys items by identity, numbering repeats so each one has a unique key. */
@@ -145,7 +160,8 @@ function diffAlertRules(a: readonly AlertRule[], b: readonly AlertRule[]): Alert
 		const from = before.get(key);
 		const to = after.get(key);
 		if (!from && to) out.push({ id: to.id, name: to.name, status: 'added', changes: [] });
-		else if (from && !to) out.push({ id: from.id, name: from.name, status: 'removed', changes: [] });
+		else if (from && !to)
+			out.push({ id: from.id, name: from.name, status: 'removed', changes: [] });
 		else if (from && to) {
 			const changes = fieldChanges<Record<string, unknown>, string>(from, to, ALERT_RULE_FIELDS);
 			if (changes.length > 0) out.push({ id: to.id, name: to.name, status: 'changed', changes });
@@ -161,13 +177,39 @@ export function diffMaps(a: CanMap, b: CanMap): MapDiff {
 	const frames: FrameDiff[] = mergedKeys(before, after).map((key) => {
 		const from = before.get(key);
 		const to = after.get(key);
-		if (!from) return { key, status: 'added', name: to!.name, changes: [], signals: diffSignals([], to!.signals) };
-		if (!to) return { key, status: 'removed', name: from.name, changes: [], signals: diffSignals(from.signals, []) };
+		if (!from)
+			return {
+				key,
+				status: 'added',
+				name: to!.name,
+				changes: [],
+				signals: diffSignals([], to!.signals)
+			};
+		if (!to)
+			return {
+				key,
+				status: 'removed',
+				name: from.name,
+				changes: [],
+				signals: diffSignals(from.signals, [])
+			};
 		const changes = fieldChanges(from, to, FRAME_FIELDS);
 		const signals = diffSignals(from.signals, to.signals);
-		return { key, status: changes.length + signals.length > 0 ? 'changed' : 'same', name: to.name, changes, signals };
+		return {
+			key,
+			status: changes.length + signals.length > 0 ? 'changed' : 'same',
+			name: to.name,
+			changes,
+			signals
+		};
 	});
 	const changes = fieldChanges(a, b, MAP_FIELDS);
 	const alertRules = diffAlertRules(a.alertRules, b.alertRules);
-	return { changes, frames, alertRules, identical: changes.length === 0 && alertRules.length === 0 && frames.every((f) => f.status === 'same') };
+	return {
+		changes,
+		frames,
+		alertRules,
+		identical:
+			changes.length === 0 && alertRules.length === 0 && frames.every((f) => f.status === 'same')
+	};
 }

@@ -33,7 +33,9 @@ export function formatJsonPath(path: readonly PropertyKey[]): string {
 function problemMessage(issue: z.core.$ZodIssue, input: unknown): string {
 	if (issue.code === 'invalid_type') {
 		const present = valueAt(input, issue.path) !== undefined;
-		return present ? `expected ${article(issue.expected)}, got ${describeValue(valueAt(input, issue.path))}` : `is required (${issue.expected})`;
+		return present
+			? `expected ${article(issue.expected)}, got ${describeValue(valueAt(input, issue.path))}`
+			: `is required (${issue.expected})`;
 	}
 	if (issue.code === 'unrecognized_keys') {
 		return `unknown field${issue.keys.length > 1 ? 's' : ''} ${issue.keys.map((k) => `"${k}"`).join(', ')}`;
@@ -51,7 +53,8 @@ function article(type: string): string {
 function describeValue(value: unknown): string {
 	if (value === null) return 'null';
 	if (Array.isArray(value)) return 'an array';
-	if (typeof value === 'string') return `the text ${JSON.stringify(value.length > 40 ? `${value.slice(0, 40)}…` : value)}`;
+	if (typeof value === 'string')
+		return `the text ${JSON.stringify(value.length > 40 ? `${value.slice(0, 40)}…` : value)}`;
 	if (typeof value === 'object') return 'an object';
 	return `${typeof value} ${String(value)}`;
 }
@@ -75,21 +78,32 @@ export function parseMap(input: string | unknown): ParseMapResult {
 		} catch (error) {
 			const found = findJsonSyntaxError(text);
 			const where = found ? { line: found.line, column: found.column } : {};
-			const detail = found ? `line ${found.line}, column ${found.column}: ${found.message}` : (error as Error).message;
-			return { ok: false, problems: [{ path: '', message: `JSON syntax error at ${detail}`, ...where }] };
+			const detail = found
+				? `line ${found.line}, column ${found.column}: ${found.message}`
+				: (error as Error).message;
+			return {
+				ok: false,
+				problems: [{ path: '', message: `JSON syntax error at ${detail}`, ...where }]
+			};
 		}
 	}
 	const parsed = canMapSchema.safeParse(value);
 	if (parsed.success) return { ok: true, map: parsed.data };
 	return {
 		ok: false,
-		problems: parsed.error.issues.map((issue) => ({ path: formatJsonPath(issue.path), message: problemMessage(issue, value) }))
+		problems: parsed.error.issues.map((issue) => ({
+			path: formatJsonPath(issue.path),
+			message: problemMessage(issue, value)
+		}))
 	};
 }
 
 /** IDs as "0x…" hex: 3 digits for standard, 8 for extended IDs, so they line up in a file. */
 export function formatCanId(id: number, extended: boolean): string {
-	return `0x${id.toString(16).toUpperCase().padStart(extended ? 8 : 3, '0')}`;
+	return `0x${id
+		.toString(16)
+		.toUpperCase()
+		.padStart(extended ? 8 : 3, '0')}`;
 }
 
 /** Pretty JSON in the model's field order; parseMap(serializeMap(m)) gives back m. */

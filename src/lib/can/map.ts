@@ -24,15 +24,22 @@ export type ValueType = z.infer<typeof valueTypeSchema>;
 
 /** A CAN ID written as a hex string ("0x360") or a plain number; always a number once parsed. */
 export const canIdSchema = z
-	.union([
-		z.number().int('must be a whole number').min(0, 'must not be negative').max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'),
-		z
-			.string()
-			.trim()
-			.regex(/^0[xX][0-9a-fA-F]{1,8}$/, 'a hex ID like "0x360"')
-			.transform((s) => Number.parseInt(s.slice(2), 16))
-			.pipe(z.number().int().max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'))
-	], { error: 'must be a hex string like "0x360" or a whole number from 0 to 0x1FFFFFFF' })
+	.union(
+		[
+			z
+				.number()
+				.int('must be a whole number')
+				.min(0, 'must not be negative')
+				.max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'),
+			z
+				.string()
+				.trim()
+				.regex(/^0[xX][0-9a-fA-F]{1,8}$/, 'a hex ID like "0x360"')
+				.transform((s) => Number.parseInt(s.slice(2), 16))
+				.pipe(z.number().int().max(MAX_EXTENDED_ID, 'above 0x1FFFFFFF'))
+		],
+		{ error: 'must be a hex string like "0x360" or a whole number from 0 to 0x1FFFFFFF' }
+	)
 	.describe('CAN identifier: hex string "0x…" or a number');
 
 const finite = () => z.number().refine(Number.isFinite, 'must be a finite number');
@@ -45,7 +52,11 @@ export const signalSchema = z.strictObject({
 		.min(0, 'must be 0–511 (a 64-byte payload has 512 bits)')
 		.max(511, 'must be 0–511 (a 64-byte payload has 512 bits)')
 		.describe('position of the least significant bit'),
-	length: z.number().int('must be a whole number').min(1, 'must be 1–64 bits').max(64, 'must be 1–64 bits'),
+	length: z
+		.number()
+		.int('must be a whole number')
+		.min(1, 'must be 1–64 bits')
+		.max(64, 'must be 1–64 bits'),
 	byteOrder: byteOrderSchema.default('little'),
 	valueType: valueTypeSchema.default('unsigned'),
 	scale: finite().default(1),
@@ -91,7 +102,10 @@ export const canMapSchema = z.strictObject({
 	bitrate: z.number().int().min(1000).max(8_000_000).default(500_000),
 	frames: z.array(frameSchema).default([]),
 	// Versioned with the map (part of every revision and export); optional so older files stay valid.
-	alertRules: z.array(alertRuleSchema).default([]).describe('alert rules on this map\'s channels, replayed over captures')
+	alertRules: z
+		.array(alertRuleSchema)
+		.default([])
+		.describe("alert rules on this map's channels, replayed over captures")
 });
 export type CanMap = z.output<typeof canMapSchema>;
 export type CanMapInput = z.input<typeof canMapSchema>;

@@ -2,11 +2,18 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { canMapSchema, type CanMap } from './map';
 import { parseMap } from './map-json';
-import { parseSignalTable, SIGNAL_TABLE_COLUMNS, signalTableTemplate, writeSignalTable } from './signal-table-csv';
+import {
+	parseSignalTable,
+	SIGNAL_TABLE_COLUMNS,
+	signalTableTemplate,
+	writeSignalTable
+} from './signal-table-csv';
 import { seededRandom } from './testing/seeded-random';
 
 function fixture(file: string): CanMap {
-	const parsed = parseMap(readFileSync(new URL(`../../../fixtures/${file}`, import.meta.url), 'utf8'));
+	const parsed = parseMap(
+		readFileSync(new URL(`../../../fixtures/${file}`, import.meta.url), 'utf8')
+	);
 	if (!parsed.ok) throw new Error(`${file} does not parse`);
 	return parsed.map;
 }
@@ -18,11 +25,14 @@ function roundTrip(map: CanMap) {
 const HEADER = SIGNAL_TABLE_COLUMNS.map((c) => c.name).join(',');
 
 describe('the CSV signal table round trip', () => {
-	it.each(['club-racer-ecu.map.json', 'genset-j1939.map.json'])('%s comes back unchanged but for its alert rules', (file) => {
-		const map = fixture(file);
-		// The table carries frames and signals only; alert rules travel in the JSON format.
-		expect(roundTrip(map)).toEqual({ ok: true, map: { ...map, alertRules: [] } });
-	});
+	it.each(['club-racer-ecu.map.json', 'genset-j1939.map.json'])(
+		'%s comes back unchanged but for its alert rules',
+		(file) => {
+			const map = fixture(file);
+			// The table carries frames and signals only; alert rules travel in the JSON format.
+			expect(roundTrip(map)).toEqual({ ok: true, map: { ...map, alertRules: [] } });
+		}
+	);
 
 	it('keeps awkward text, labels, FD lengths, extended IDs and frames without signals', () => {
 		const map = canMapSchema.parse({
@@ -41,8 +51,28 @@ describe('the CSV signal table round trip', () => {
 					j1939: true,
 					comment: 'two\nlines',
 					signals: [
-						{ name: 'Mode', startBit: 0, length: 4, multiplexer: true, labels: { '-1': 'Minus; one', '0': 'a=b', '3': 'back\\slash', '4': ' spaced ' } },
-						{ name: 'Tiny', startBit: 500, length: 12, byteOrder: 'big', valueType: 'signed', scale: 1e-7, offset: -0.1, min: -0.3, max: 0.3, muxValue: 2, spn: 524287, unit: '°C', comment: ' padded ' },
+						{
+							name: 'Mode',
+							startBit: 0,
+							length: 4,
+							multiplexer: true,
+							labels: { '-1': 'Minus; one', '0': 'a=b', '3': 'back\\slash', '4': ' spaced ' }
+						},
+						{
+							name: 'Tiny',
+							startBit: 500,
+							length: 12,
+							byteOrder: 'big',
+							valueType: 'signed',
+							scale: 1e-7,
+							offset: -0.1,
+							min: -0.3,
+							max: 0.3,
+							muxValue: 2,
+							spn: 524287,
+							unit: '°C',
+							comment: ' padded '
+						},
 						{ name: 'Real', startBit: 64, length: 64, valueType: 'float64', scale: 0.1 }
 					]
 				}
@@ -86,13 +116,22 @@ describe('the CSV signal table round trip', () => {
 		const text = signalTableTemplate();
 		expect(text.split('\r\n')[0]).toBe(HEADER);
 		const parsed = parseSignalTable(text);
-		expect(parsed.ok && parsed.map.frames[0].signals.map((s) => s.name)).toEqual(['EngineSpeed', 'CoolantTemp', 'FanState']);
+		expect(parsed.ok && parsed.map.frames[0].signals.map((s) => s.name)).toEqual([
+			'EngineSpeed',
+			'CoolantTemp',
+			'FanState'
+		]);
 	});
 });
 
 describe('reading a hand-written table', () => {
 	it('needs only the required columns; blank frame cells repeat the row above; IDs above 0x7FF are extended', () => {
-		const text = ['frame_name,frame_id,signal_name,start_bit,bit_length,labels', 'Engine,0x100,Speed,0,16,', ',0x100,Gear,16,4,0=N;1=First', 'Truck,0x18FEF100,,,,'].join('\n');
+		const text = [
+			'frame_name,frame_id,signal_name,start_bit,bit_length,labels',
+			'Engine,0x100,Speed,0,16,',
+			',0x100,Gear,16,4,0=N;1=First',
+			'Truck,0x18FEF100,,,,'
+		].join('\n');
 		const parsed = parseSignalTable(text, { name: 'Hand' });
 		expect(parsed.ok).toBe(true);
 		if (!parsed.ok) return;
@@ -125,11 +164,16 @@ describe('reading a hand-written table', () => {
 		]);
 		// The cycle-time conflict is found once the label problem on that row is fixed.
 		const fixed = parseSignalTable(text.replace('0:Off', '0=Off'));
-		expect(!fixed.ok && fixed.problems.find((p) => p.line === 4)).toMatchObject({ column: 'cycle_ms', message: expect.stringContaining('line 2') });
+		expect(!fixed.ok && fixed.problems.find((p) => p.line === 4)).toMatchObject({
+			column: 'cycle_ms',
+			message: expect.stringContaining('line 2')
+		});
 	});
 
 	it('refuses a header with unknown, duplicate or missing columns', () => {
-		const parsed = parseSignalTable('frame_name,frame_id,signal_name,start_bit,colour,frame_id\nA,1,S,0,red,1');
+		const parsed = parseSignalTable(
+			'frame_name,frame_id,signal_name,start_bit,colour,frame_id\nA,1,S,0,red,1'
+		);
 		expect(!parsed.ok && parsed.problems.map((p) => [p.line, p.column])).toEqual([
 			[1, 'colour'],
 			[1, 'frame_id'],

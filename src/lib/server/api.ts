@@ -9,7 +9,11 @@ export function apiRoute<E extends RequestEvent>(handler: (event: E) => Promise<
 			return await handler(event);
 		} catch (thrown) {
 			if (thrown instanceof Problem) {
-				const body = { error: thrown.message, ...(thrown.issues ? { issues: thrown.issues } : {}), ...thrown.extra };
+				const body = {
+					error: thrown.message,
+					...(thrown.issues ? { issues: thrown.issues } : {}),
+					...thrown.extra
+				};
 				return json(body, { status: thrown.status });
 			}
 			throw thrown;
@@ -17,12 +21,17 @@ export function apiRoute<E extends RequestEvent>(handler: (event: E) => Promise<
 	};
 }
 
-export async function readJsonBody<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
+export async function readJsonBody<S extends z.ZodType>(
+	request: Request,
+	schema: S
+): Promise<z.infer<S>> {
 	let body: unknown;
 	try {
 		body = await request.json();
 	} catch {
-		throw new Problem(400, 'The request body must be JSON.', [{ path: '(root)', message: 'Invalid JSON' }]);
+		throw new Problem(400, 'The request body must be JSON.', [
+			{ path: '(root)', message: 'Invalid JSON' }
+		]);
 	}
 	return parseOrProblem(schema, body);
 }

@@ -16,7 +16,11 @@ export interface AuthDeps {
 	secret?: string;
 }
 
-export const authPages = { signIn: '/signin', verifyRequest: '/signin/check', error: '/signin/error' } as const;
+export const authPages = {
+	signIn: '/signin',
+	verifyRequest: '/signin/check',
+	error: '/signin/error'
+} as const;
 
 /**
  * Auth.js settings: sign-in by e-mail link only, sessions kept in the database. Built from explicit
@@ -29,7 +33,10 @@ export function createAuthConfig({ db, config, sendMail, secret }: AuthDeps): Sv
 		providers: [
 			Nodemailer({
 				// Required by the provider's factory; our sendVerificationRequest uses sendMail instead.
-				server: { host: config.smtp?.host ?? '127.0.0.1', port: config.smtp?.port ?? config.standInSmtpPort },
+				server: {
+					host: config.smtp?.host ?? '127.0.0.1',
+					port: config.smtp?.port ?? config.standInSmtpPort
+				},
 				from: config.mailFrom,
 				maxAge: config.signinLinkMaxAgeSeconds,
 				async sendVerificationRequest({ identifier, url, expires }) {

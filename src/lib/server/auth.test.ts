@@ -5,13 +5,21 @@ import { requestSignInLink, safeCallbackUrl } from './auth';
 import { createAuthConfig } from './auth-config';
 import { claimSigninLink } from './db/signin-requests';
 import { extractLinks } from './mail/mailbox';
-import { countRows, createTestServices, makeEvent, outcome, type TestServices } from './test-support';
+import {
+	countRows,
+	createTestServices,
+	makeEvent,
+	outcome,
+	type TestServices
+} from './test-support';
 
 const origin = 'http://localhost';
 
 // Drives Auth.js itself (the same handler hooks.server.ts mounts under /auth) with our settings.
 function authFor(services: TestServices) {
-	const config = { ...createAuthConfig(services), skipCSRFCheck } as unknown as Parameters<typeof Auth>[1];
+	const config = { ...createAuthConfig(services), skipCSRFCheck } as unknown as Parameters<
+		typeof Auth
+	>[1];
 	return (request: Request) => Auth(request, config);
 }
 
@@ -35,18 +43,26 @@ describe('sign-in by e-mail link', () => {
 		const services = await createTestServices();
 		expect(await askForLink(services, 'Driver@Example.test')).toBe('/signin/check');
 		expect(services.outbox).toHaveLength(1);
-		expect(services.outbox[0]).toMatchObject({ to: 'driver@example.test', subject: 'Your Framewright sign-in link' });
+		expect(services.outbox[0]).toMatchObject({
+			to: 'driver@example.test',
+			subject: 'Your Framewright sign-in link'
+		});
 		const link = lastLink(services);
 		expect(link).toMatch(/^http:\/\/localhost\/auth\/callback\/nodemailer\?/);
 		// Only a hash of the token is stored.
 		const token = new URL(link).searchParams.get('token');
-		const stored = await services.db.selectFrom('VerificationToken').selectAll().executeTakeFirstOrThrow();
+		const stored = await services.db
+			.selectFrom('VerificationToken')
+			.selectAll()
+			.executeTakeFirstOrThrow();
 		expect(stored.token).not.toBe(token);
 
 		const response = await authFor(services)(new Request(link));
 		expect(response.status).toBe(302);
 		expect(response.headers.get('location')).toBe('http://localhost/w/team/maps');
-		expect(response.headers.getSetCookie().some((c) => c.startsWith('authjs.session-token='))).toBe(true);
+		expect(response.headers.getSetCookie().some((c) => c.startsWith('authjs.session-token='))).toBe(
+			true
+		);
 		expect(await countRows(services.db, 'Session')).toBe(1);
 		const user = await services.db.selectFrom('User').selectAll().executeTakeFirstOrThrow();
 		expect(user.email).toBe('driver@example.test');
@@ -57,7 +73,9 @@ describe('sign-in by e-mail link', () => {
 		await askForLink(services, 'once@example.test');
 		const link = lastLink(services);
 		const auth = authFor(services);
-		expect((await auth(new Request(link))).headers.get('location')).toBe('http://localhost/w/team/maps');
+		expect((await auth(new Request(link))).headers.get('location')).toBe(
+			'http://localhost/w/team/maps'
+		);
 		const again = await auth(new Request(link));
 		expect(again.headers.get('location')).toBe('http://localhost/signin/error?error=Verification');
 		expect(await countRows(services.db, 'Session')).toBe(1);
@@ -72,7 +90,9 @@ describe('sign-in by e-mail link', () => {
 		const link = lastLink(services);
 		vi.setSystemTime(new Date('2026-12-01T11:00:01Z'));
 		const response = await authFor(services)(new Request(link));
-		expect(response.headers.get('location')).toBe('http://localhost/signin/error?error=Verification');
+		expect(response.headers.get('location')).toBe(
+			'http://localhost/signin/error?error=Verification'
+		);
 		expect(await countRows(services.db, 'Session')).toBe(0);
 		expect(await countRows(services.db, 'User')).toBe(0);
 	});
@@ -82,7 +102,10 @@ describe('sign-in by e-mail link', () => {
 		vi.useFakeTimers({ toFake: ['Date'] });
 		vi.setSystemTime(new Date('2026-12-01T10:00:00Z'));
 		await askForLink(services, 'quick@example.test');
-		const stored = await services.db.selectFrom('VerificationToken').selectAll().executeTakeFirstOrThrow();
+		const stored = await services.db
+			.selectFrom('VerificationToken')
+			.selectAll()
+			.executeTakeFirstOrThrow();
 		expect(stored.expires).toBe('2026-12-01T10:10:00.000Z');
 		vi.setSystemTime(new Date('2026-12-01T10:09:59Z'));
 		const response = await authFor(services)(new Request(lastLink(services)));
@@ -121,7 +144,8 @@ describe('sign-in by e-mail link', () => {
 		const t0 = Date.parse('2026-12-01T10:00:00Z');
 		const minute = 60_000;
 		const results = [];
-		for (let i = 0; i < 3; i++) results.push(await claimSigninLink(services.db, 'A@example.test', 2, t0 + i * minute));
+		for (let i = 0; i < 3; i++)
+			results.push(await claimSigninLink(services.db, 'A@example.test', 2, t0 + i * minute));
 		expect(results).toEqual([true, true, false]);
 		expect(await claimSigninLink(services.db, 'a@example.test', 2, t0 + 59 * minute)).toBe(false);
 		// The first link is an hour old: one slot frees up, and only one.
@@ -135,8 +159,16 @@ describe('the /signin form action', () => {
 		const services = await createTestServices();
 		const form = new FormData();
 		form.set('email', 'not-an-address');
-		const event = makeEvent<Parameters<typeof signinPage.actions.default>[0]>({ services, user: null, routeId: '/signin', body: form });
-		const result = (await signinPage.actions.default(event)) as { status: number; data: { errors: { email?: string[] } } };
+		const event = makeEvent<Parameters<typeof signinPage.actions.default>[0]>({
+			services,
+			user: null,
+			routeId: '/signin',
+			body: form
+		});
+		const result = (await signinPage.actions.default(event)) as {
+			status: number;
+			data: { errors: { email?: string[] } };
+		};
 		expect(result.status).toBe(400);
 		expect(result.data.errors.email?.[0]).toMatch(/valid e-mail/);
 		expect(await countRows(services.db, 'VerificationToken')).toBe(0);
@@ -149,8 +181,17 @@ describe('the /signin form action', () => {
 		const form = new FormData();
 		form.set('email', ' crew@example.test ');
 		form.set('callbackUrl', 'https://elsewhere.example/steal');
-		const event = makeEvent<Parameters<typeof signinPage.actions.default>[0]>({ services, user: null, routeId: '/signin', body: form });
-		expect(await outcome(() => signinPage.actions.default(event))).toEqual({ kind: 'redirect', status: 303, location: '/signin/check' });
+		const event = makeEvent<Parameters<typeof signinPage.actions.default>[0]>({
+			services,
+			user: null,
+			routeId: '/signin',
+			body: form
+		});
+		expect(await outcome(() => signinPage.actions.default(event))).toEqual({
+			kind: 'redirect',
+			status: 303,
+			location: '/signin/check'
+		});
 		expect(new URL(lastLink(services)).searchParams.get('callbackUrl')).toBe('http://localhost/');
 	});
 

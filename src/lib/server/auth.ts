@@ -9,7 +9,10 @@ export const { handle: authHandle, signOut } = SvelteKitAuth(async (event) =>
 
 /** Keeps redirects on this site: only a local path ("/…", not "//…") is accepted. */
 export function safeCallbackUrl(value: unknown, fallback = '/'): string {
-	return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') && !value.startsWith('/\\')
+	return typeof value === 'string' &&
+		value.startsWith('/') &&
+		!value.startsWith('//') &&
+		!value.startsWith('/\\')
 		? value
 		: fallback;
 }
@@ -26,7 +29,9 @@ export async function requestSignInLink(
 ): Promise<string> {
 	// SvelteKit's own origin check already protects this form post, as in @auth/sveltekit's signIn.
 	// (The cast bridges two pinned copies of @auth/core: the adapter's and @auth/sveltekit's.)
-	const config = { ...createAuthConfig(services), skipCSRFCheck } as unknown as Parameters<typeof Auth>[1];
+	const config = { ...createAuthConfig(services), skipCSRFCheck } as unknown as Parameters<
+		typeof Auth
+	>[1];
 	const request = new Request(`${origin}/auth/signin/nodemailer`, {
 		method: 'POST',
 		headers: { 'content-type': 'application/x-www-form-urlencoded' },

@@ -19,14 +19,70 @@ async function setup() {
 	return { services, owner, workspace, snapshot };
 }
 
-const cases: { name: string; handler: Handler; routeId: string; method: string; body: unknown; paths: string[] }[] = [
-	{ name: 'empty workspace name', handler: workspacesRoute.POST as Handler, routeId: '/api/workspaces', method: 'POST', body: { name: ' ' }, paths: ['name'] },
-	{ name: 'missing workspace name', handler: workspacesRoute.POST as Handler, routeId: '/api/workspaces', method: 'POST', body: {}, paths: ['name'] },
-	{ name: 'unknown field', handler: workspacesRoute.POST as Handler, routeId: '/api/workspaces', method: 'POST', body: { name: 'Fine name', colour: 'red' }, paths: ['(root)'] },
-	{ name: 'body not JSON', handler: workspacesRoute.POST as Handler, routeId: '/api/workspaces', method: 'POST', body: '{name:', paths: ['(root)'] },
-	{ name: 'rename too long', handler: workspaceRoute.PATCH as Handler, routeId: '/api/workspaces/[ws]', method: 'PATCH', body: { name: 'x'.repeat(81) }, paths: ['name'] },
-	{ name: 'invitation bad address and role', handler: invitationsRoute.POST as Handler, routeId: '/api/workspaces/[ws]/invitations', method: 'POST', body: { email: 'nobody', role: 'admin' }, paths: ['email', 'role'] },
-	{ name: 'role change to an unknown role', handler: memberRoute.PATCH as Handler, routeId: '/api/workspaces/[ws]/members/[userId]', method: 'PATCH', body: { role: 'superuser' }, paths: ['role'] }
+const cases: {
+	name: string;
+	handler: Handler;
+	routeId: string;
+	method: string;
+	body: unknown;
+	paths: string[];
+}[] = [
+	{
+		name: 'empty workspace name',
+		handler: workspacesRoute.POST as Handler,
+		routeId: '/api/workspaces',
+		method: 'POST',
+		body: { name: ' ' },
+		paths: ['name']
+	},
+	{
+		name: 'missing workspace name',
+		handler: workspacesRoute.POST as Handler,
+		routeId: '/api/workspaces',
+		method: 'POST',
+		body: {},
+		paths: ['name']
+	},
+	{
+		name: 'unknown field',
+		handler: workspacesRoute.POST as Handler,
+		routeId: '/api/workspaces',
+		method: 'POST',
+		body: { name: 'Fine name', colour: 'red' },
+		paths: ['(root)']
+	},
+	{
+		name: 'body not JSON',
+		handler: workspacesRoute.POST as Handler,
+		routeId: '/api/workspaces',
+		method: 'POST',
+		body: '{name:',
+		paths: ['(root)']
+	},
+	{
+		name: 'rename too long',
+		handler: workspaceRoute.PATCH as Handler,
+		routeId: '/api/workspaces/[ws]',
+		method: 'PATCH',
+		body: { name: 'x'.repeat(81) },
+		paths: ['name']
+	},
+	{
+		name: 'invitation bad address and role',
+		handler: invitationsRoute.POST as Handler,
+		routeId: '/api/workspaces/[ws]/invitations',
+		method: 'POST',
+		body: { email: 'nobody', role: 'admin' },
+		paths: ['email', 'role']
+	},
+	{
+		name: 'role change to an unknown role',
+		handler: memberRoute.PATCH as Handler,
+		routeId: '/api/workspaces/[ws]/members/[userId]',
+		method: 'PATCH',
+		body: { role: 'superuser' },
+		paths: ['role']
+	}
 ];
 
 describe('bad API input', () => {
@@ -34,10 +90,20 @@ describe('bad API input', () => {
 		const { services, owner, workspace, snapshot } = await setup();
 		const before = await snapshot();
 		const response = await c.handler(
-			makeEvent({ services, user: owner, routeId: c.routeId, params: { ws: workspace.slug, userId: owner.id }, method: c.method, body: c.body })
+			makeEvent({
+				services,
+				user: owner,
+				routeId: c.routeId,
+				params: { ws: workspace.slug, userId: owner.id },
+				method: c.method,
+				body: c.body
+			})
 		);
 		expect(response.status).toBe(400);
-		const body = (await response.json()) as { error: string; issues: { path: string; message: string }[] };
+		const body = (await response.json()) as {
+			error: string;
+			issues: { path: string; message: string }[];
+		};
 		expect(body.error).toBeTruthy();
 		expect(body.issues.map((i) => i.path).sort()).toEqual(c.paths);
 		expect(body.issues.every((i) => i.message.length > 0)).toBe(true);
@@ -52,12 +118,17 @@ describe('the create-workspace form action', () => {
 		const before = await snapshot();
 		const form = new FormData();
 		form.set('name', 'x');
-		const result = (await homePage.actions.create(makeEvent({ services, user: owner, routeId: '/', body: form }) as never)) as {
+		const result = (await homePage.actions.create(
+			makeEvent({ services, user: owner, routeId: '/', body: form }) as never
+		)) as {
 			status: number;
 			data: { errors: { name?: string[] }; values: { name: string } };
 		};
 		expect(result.status).toBe(400);
-		expect(result.data).toEqual({ errors: { name: ['Use at least 2 characters.'] }, values: { name: 'x' } });
+		expect(result.data).toEqual({
+			errors: { name: ['Use at least 2 characters.'] },
+			values: { name: 'x' }
+		});
 		expect(await snapshot()).toEqual(before);
 	});
 
@@ -65,9 +136,15 @@ describe('the create-workspace form action', () => {
 		const { services, owner } = await setup();
 		const form = new FormData();
 		form.set('name', 'Input Team!');
-		const thrown = await homePage.actions.create(makeEvent({ services, user: owner, routeId: '/', body: form }) as never).catch((e: unknown) => e);
+		const thrown = await homePage.actions
+			.create(makeEvent({ services, user: owner, routeId: '/', body: form }) as never)
+			.catch((e: unknown) => e);
 		expect(thrown).toMatchObject({ status: 303, location: '/w/input-team-2/maps' });
-		const created = await services.db.selectFrom('workspaces').selectAll().where('slug', '=', 'input-team-2').executeTakeFirstOrThrow();
+		const created = await services.db
+			.selectFrom('workspaces')
+			.selectAll()
+			.where('slug', '=', 'input-team-2')
+			.executeTakeFirstOrThrow();
 		expect(created.name).toBe('Input Team!');
 	});
 });

@@ -10,7 +10,14 @@ import { createInvitation } from './db/invitations';
 import { createWorkspace } from './db/workspaces';
 import type { SessionUser } from './guard';
 import type { Role } from './roles';
-import { countRows, createTestServices, createUser, makeEvent, outcome, type TestServices } from './test-support';
+import {
+	countRows,
+	createTestServices,
+	createUser,
+	makeEvent,
+	outcome,
+	type TestServices
+} from './test-support';
 
 type Actor = Role | 'outsider' | 'signed-out';
 
@@ -34,8 +41,15 @@ async function buildWorld(): Promise<World> {
 	};
 	const ws = await createWorkspace(db, { name: 'Guard test team', ownerId: users.owner.id });
 	const now = new Date().toISOString();
-	for (const [key, role] of [['editor', 'editor'], ['viewer', 'viewer'], ['target', 'viewer']] as const) {
-		await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: users[key].id, role, joined_at: now }).execute();
+	for (const [key, role] of [
+		['editor', 'editor'],
+		['viewer', 'viewer'],
+		['target', 'viewer']
+	] as const) {
+		await db
+			.insertInto('memberships')
+			.values({ workspace_id: ws.id, user_id: users[key].id, role, joined_at: now })
+			.execute();
 	}
 	const { invitation } = await createInvitation(db, {
 		workspaceId: ws.id,
@@ -61,13 +75,72 @@ interface ApiCase {
 }
 
 const apiCases: ApiCase[] = [
-	{ name: 'list members', minimum: 'viewer', successStatus: 200, routeId: '/api/workspaces/[ws]/members', method: 'GET', handler: membersRoute.GET as Handler, params: (w) => ({ ws: w.slug }) },
-	{ name: 'invite', minimum: 'owner', successStatus: 201, routeId: '/api/workspaces/[ws]/invitations', method: 'POST', handler: invitationsRoute.POST as Handler, params: (w) => ({ ws: w.slug }), body: { email: 'new@example.test', role: 'editor' } },
-	{ name: 'revoke invitation', minimum: 'owner', successStatus: 204, routeId: '/api/workspaces/[ws]/invitations/[id]', method: 'DELETE', handler: invitationRoute.DELETE as Handler, params: (w) => ({ ws: w.slug, id: w.invitationId }) },
-	{ name: 'change a role', minimum: 'owner', successStatus: 200, routeId: '/api/workspaces/[ws]/members/[userId]', method: 'PATCH', handler: memberRoute.PATCH as Handler, params: (w) => ({ ws: w.slug, userId: w.users.target.id }), body: { role: 'editor' } },
-	{ name: 'remove a member', minimum: 'owner', successStatus: 204, routeId: '/api/workspaces/[ws]/members/[userId]', method: 'DELETE', handler: memberRoute.DELETE as Handler, params: (w) => ({ ws: w.slug, userId: w.users.target.id }) },
-	{ name: 'rename workspace', minimum: 'owner', successStatus: 200, routeId: '/api/workspaces/[ws]', method: 'PATCH', handler: workspaceRoute.PATCH as Handler, params: (w) => ({ ws: w.slug }), body: { name: 'Renamed team' } },
-	{ name: 'delete workspace', minimum: 'owner', successStatus: 204, routeId: '/api/workspaces/[ws]', method: 'DELETE', handler: workspaceRoute.DELETE as Handler, params: (w) => ({ ws: w.slug }) }
+	{
+		name: 'list members',
+		minimum: 'viewer',
+		successStatus: 200,
+		routeId: '/api/workspaces/[ws]/members',
+		method: 'GET',
+		handler: membersRoute.GET as Handler,
+		params: (w) => ({ ws: w.slug })
+	},
+	{
+		name: 'invite',
+		minimum: 'owner',
+		successStatus: 201,
+		routeId: '/api/workspaces/[ws]/invitations',
+		method: 'POST',
+		handler: invitationsRoute.POST as Handler,
+		params: (w) => ({ ws: w.slug }),
+		body: { email: 'new@example.test', role: 'editor' }
+	},
+	{
+		name: 'revoke invitation',
+		minimum: 'owner',
+		successStatus: 204,
+		routeId: '/api/workspaces/[ws]/invitations/[id]',
+		method: 'DELETE',
+		handler: invitationRoute.DELETE as Handler,
+		params: (w) => ({ ws: w.slug, id: w.invitationId })
+	},
+	{
+		name: 'change a role',
+		minimum: 'owner',
+		successStatus: 200,
+		routeId: '/api/workspaces/[ws]/members/[userId]',
+		method: 'PATCH',
+		handler: memberRoute.PATCH as Handler,
+		params: (w) => ({ ws: w.slug, userId: w.users.target.id }),
+		body: { role: 'editor' }
+	},
+	{
+		name: 'remove a member',
+		minimum: 'owner',
+		successStatus: 204,
+		routeId: '/api/workspaces/[ws]/members/[userId]',
+		method: 'DELETE',
+		handler: memberRoute.DELETE as Handler,
+		params: (w) => ({ ws: w.slug, userId: w.users.target.id })
+	},
+	{
+		name: 'rename workspace',
+		minimum: 'owner',
+		successStatus: 200,
+		routeId: '/api/workspaces/[ws]',
+		method: 'PATCH',
+		handler: workspaceRoute.PATCH as Handler,
+		params: (w) => ({ ws: w.slug }),
+		body: { name: 'Renamed team' }
+	},
+	{
+		name: 'delete workspace',
+		minimum: 'owner',
+		successStatus: 204,
+		routeId: '/api/workspaces/[ws]',
+		method: 'DELETE',
+		handler: workspaceRoute.DELETE as Handler,
+		params: (w) => ({ ws: w.slug })
+	}
 ];
 
 const rank: Record<Role, number> = { viewer: 1, editor: 2, owner: 3 };
@@ -79,7 +152,9 @@ function expectedStatus(actor: Actor, c: ApiCase): number {
 	return rank[actor] >= rank[c.minimum] ? c.successStatus : 403;
 }
 
-const matrix = apiCases.flatMap((c) => actors.map((actor) => ({ ...c, actor, expected: expectedStatus(actor, c) })));
+const matrix = apiCases.flatMap((c) =>
+	actors.map((actor) => ({ ...c, actor, expected: expectedStatus(actor, c) }))
+);
 
 describe('role guard on every JSON API route', () => {
 	it.each(matrix)('$name as $actor → $expected', async (c) => {
@@ -87,7 +162,14 @@ describe('role guard on every JSON API route', () => {
 		const auditBefore = await countRows(w.services.db, 'audit_log');
 		const user = c.actor === 'signed-out' ? null : w.users[c.actor];
 		const response = await c.handler(
-			makeEvent({ services: w.services, user, routeId: c.routeId, params: c.params(w), method: c.method, body: c.body })
+			makeEvent({
+				services: w.services,
+				user,
+				routeId: c.routeId,
+				params: c.params(w),
+				method: c.method,
+				body: c.body
+			})
 		);
 		expect(response.status).toBe(c.expected);
 		const auditAfter = await countRows(w.services.db, 'audit_log');
@@ -105,11 +187,23 @@ describe('role guard on every JSON API route', () => {
 	it('lets any member leave (remove themself), but not remove someone else below owner', async () => {
 		const w = await buildWorld();
 		const leave = await memberRoute.DELETE(
-			makeEvent({ services: w.services, user: w.users.viewer, routeId: '/api/workspaces/[ws]/members/[userId]', params: { ws: w.slug, userId: w.users.viewer.id }, method: 'DELETE' })
+			makeEvent({
+				services: w.services,
+				user: w.users.viewer,
+				routeId: '/api/workspaces/[ws]/members/[userId]',
+				params: { ws: w.slug, userId: w.users.viewer.id },
+				method: 'DELETE'
+			})
 		);
 		expect(leave.status).toBe(204);
 		const removeOther = await memberRoute.DELETE(
-			makeEvent({ services: w.services, user: w.users.editor, routeId: '/api/workspaces/[ws]/members/[userId]', params: { ws: w.slug, userId: w.users.target.id }, method: 'DELETE' })
+			makeEvent({
+				services: w.services,
+				user: w.users.editor,
+				routeId: '/api/workspaces/[ws]/members/[userId]',
+				params: { ws: w.slug, userId: w.users.target.id },
+				method: 'DELETE'
+			})
 		);
 		expect(removeOther.status).toBe(403);
 	});
@@ -118,7 +212,14 @@ describe('role guard on every JSON API route', () => {
 		const w = await buildWorld();
 		const list = async (user: SessionUser) =>
 			(await (
-				await membersRoute.GET(makeEvent({ services: w.services, user, routeId: '/api/workspaces/[ws]/members', params: { ws: w.slug } }))
+				await membersRoute.GET(
+					makeEvent({
+						services: w.services,
+						user,
+						routeId: '/api/workspaces/[ws]/members',
+						params: { ws: w.slug }
+					})
+				)
 			).json()) as { invitations: unknown[]; members: unknown[]; myRole: Role };
 		const asOwner = await list(w.users.owner);
 		const asEditor = await list(w.users.editor);
@@ -140,14 +241,22 @@ describe('role guard on the workspace pages (layout load)', () => {
 	it.each(expectations)('%s → %s', async (actor, expected) => {
 		const w = await buildWorld();
 		const user = actor === 'signed-out' ? null : w.users[actor];
-		const event = makeEvent<Parameters<typeof workspaceLayout.load>[0]>({ services: w.services, user, routeId: '/w/[ws]', params: { ws: w.slug }, path: `/w/${w.slug}/maps` });
+		const event = makeEvent<Parameters<typeof workspaceLayout.load>[0]>({
+			services: w.services,
+			user,
+			routeId: '/w/[ws]',
+			params: { ws: w.slug },
+			path: `/w/${w.slug}/maps`
+		});
 		const result = await outcome(() => workspaceLayout.load(event));
 		if (result.kind === 'value') {
 			expect(expected).toBe('value');
 			expect(result.value).toMatchObject({ workspace: { slug: w.slug }, role: actor });
 		} else if (result.kind === 'redirect') {
 			expect(`redirect ${result.status}`).toBe(expected);
-			expect(result.location).toBe(`/signin?callbackUrl=${encodeURIComponent(`/w/${w.slug}/maps`)}`);
+			expect(result.location).toBe(
+				`/signin?callbackUrl=${encodeURIComponent(`/w/${w.slug}/maps`)}`
+			);
 		} else {
 			expect(`error ${result.status}`).toBe(expected);
 			expect(result.message).toBe('Workspace not found.');
@@ -156,7 +265,16 @@ describe('role guard on the workspace pages (layout load)', () => {
 
 	it('gives the same 404 for a workspace that does not exist', async () => {
 		const w = await buildWorld();
-		const event = makeEvent<Parameters<typeof workspaceLayout.load>[0]>({ services: w.services, user: w.users.owner, routeId: '/w/[ws]', params: { ws: 'no-such-team' } });
-		expect(await outcome(() => workspaceLayout.load(event))).toEqual({ kind: 'error', status: 404, message: 'Workspace not found.' });
+		const event = makeEvent<Parameters<typeof workspaceLayout.load>[0]>({
+			services: w.services,
+			user: w.users.owner,
+			routeId: '/w/[ws]',
+			params: { ws: 'no-such-team' }
+		});
+		expect(await outcome(() => workspaceLayout.load(event))).toEqual({
+			kind: 'error',
+			status: 404,
+			message: 'Workspace not found.'
+		});
 	});
 });

@@ -49,7 +49,11 @@ export async function requireRole(event: GuardEvent, minimum: Role): Promise<Wor
 	const membership = workspace ? await findMembership(db, workspace.id, user.id) : undefined;
 	if (!workspace || !membership) deny(event, 404, 'Workspace not found.');
 	if (!roleAtLeast(membership.role, minimum)) {
-		deny(event, 403, `This needs the ${minimum} role in this workspace (your role: ${membership.role}).`);
+		deny(
+			event,
+			403,
+			`This needs the ${minimum} role in this workspace (your role: ${membership.role}).`
+		);
 	}
 	return {
 		user,

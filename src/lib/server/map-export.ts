@@ -15,7 +15,8 @@ export function exportResponse(map: CanMap, label: string, format: ExportFormat)
 	const body = format === 'json' ? serializeMap(map) : writeSignalTable(map);
 	return new Response(body, {
 		headers: {
-			'content-type': format === 'json' ? 'application/json; charset=utf-8' : 'text/csv; charset=utf-8',
+			'content-type':
+				format === 'json' ? 'application/json; charset=utf-8' : 'text/csv; charset=utf-8',
 			'content-disposition': `attachment; filename="${exportFileName(map.name, label, format)}"`,
 			'x-framewright-revision': label,
 			'cache-control': 'no-store'

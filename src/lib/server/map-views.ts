@@ -6,22 +6,46 @@ import { lintMap, type LintProblem } from '$lib/can/lint';
 import type { CanMap } from '$lib/can/map';
 import type { DB } from './db/connection';
 import { requireMap, type PersonRef } from './db/maps';
-import { listRevisions, requireRevision, type RevisionRef, type RevisionSummary } from './db/revisions';
+import {
+	listRevisions,
+	requireRevision,
+	type RevisionRef,
+	type RevisionSummary
+} from './db/revisions';
 import { findSharedRevision } from './db/share-links';
 import { Problem } from './problem';
 import type { Role } from './roles';
 
 export interface MapView {
-	map: { id: string; name: string; draft: CanMap; version: number; updatedAt: string; updatedBy: PersonRef | null };
+	map: {
+		id: string;
+		name: string;
+		draft: CanMap;
+		version: number;
+		updatedAt: string;
+		updatedBy: PersonRef | null;
+	};
 	lint: LintProblem[];
 	revisions: RevisionSummary[];
 	role: Role;
 }
 
-export async function mapView(db: DB, workspaceId: string, mapId: string, role: Role): Promise<MapView> {
+export async function mapView(
+	db: DB,
+	workspaceId: string,
+	mapId: string,
+	role: Role
+): Promise<MapView> {
 	const map = await requireMap(db, workspaceId, mapId);
 	return {
-		map: { id: map.id, name: map.name, draft: map.draft, version: map.version, updatedAt: map.updatedAt, updatedBy: map.updatedBy },
+		map: {
+			id: map.id,
+			name: map.name,
+			draft: map.draft,
+			version: map.version,
+			updatedAt: map.updatedAt,
+			updatedBy: map.updatedBy
+		},
 		lint: lintMap(map.draft),
 		revisions: await listRevisions(db, map.id),
 		role
@@ -33,7 +57,12 @@ export interface RevisionView {
 	lint: LintProblem[];
 }
 
-export async function revisionView(db: DB, workspaceId: string, mapId: string, number: number): Promise<RevisionView> {
+export async function revisionView(
+	db: DB,
+	workspaceId: string,
+	mapId: string,
+	number: number
+): Promise<RevisionView> {
 	await requireMap(db, workspaceId, mapId);
 	const { id: _id, ...revision } = await requireRevision(db, mapId, number);
 	return { revision, lint: lintMap(revision.map) };
@@ -52,9 +81,11 @@ export function readRevisionRef(url: URL, name: string, fallback?: RevisionRef):
 	if (raw === null && fallback !== undefined) return fallback;
 	const parsed = revisionRefSchema.safeParse(raw ?? '');
 	if (!parsed.success) {
-		throw new Problem(400, `The "${name}" parameter ${raw === null ? 'is missing' : 'is not valid'}.`, [
-			{ path: name, message: parsed.error.issues[0]?.message ?? 'invalid' }
-		]);
+		throw new Problem(
+			400,
+			`The "${name}" parameter ${raw === null ? 'is missing' : 'is not valid'}.`,
+			[{ path: name, message: parsed.error.issues[0]?.message ?? 'invalid' }]
+		);
 	}
 	return parsed.data;
 }

@@ -41,6 +41,7 @@ export function fieldErrorsOf(error: z.ZodError): Record<string, string[]> {
 
 export function parseOrProblem<S extends z.ZodType>(schema: S, input: unknown): z.infer<S> {
 	const result = schema.safeParse(input);
-	if (!result.success) throw new Problem(400, 'The request has invalid fields.', issuesOf(result.error));
+	if (!result.success)
+		throw new Problem(400, 'The request has invalid fields.', issuesOf(result.error));
 	return result.data;
 }

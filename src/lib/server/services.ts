@@ -38,8 +38,13 @@ async function createServices(): Promise<Services> {
 		sendMail = createSendMail(config.smtp, config.mailFrom);
 	} else {
 		const standIn = await startStandIn(db, config.standInSmtpPort);
-		console.log(`Framewright demo mode: e-mail goes to the stand-in SMTP server on 127.0.0.1:${standIn.port}; read it at /dev/mailbox`);
-		sendMail = createSendMail({ host: '127.0.0.1', port: standIn.port, plain: true }, config.mailFrom);
+		console.log(
+			`Framewright demo mode: e-mail goes to the stand-in SMTP server on 127.0.0.1:${standIn.port}; read it at /dev/mailbox`
+		);
+		sendMail = createSendMail(
+			{ host: '127.0.0.1', port: standIn.port, plain: true },
+			config.mailFrom
+		);
 	}
 	// Demo data only on a brand-new demo database, never on one people already use.
 	if (config.demoMode && (await countUsers(db)) === 0) await seedDemo(db, { storage });

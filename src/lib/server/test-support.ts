@@ -43,13 +43,34 @@ export async function createTestServices(env: Record<string, string> = {}): Prom
 	};
 }
 
-export async function createUser(db: DB, email: string, name: string | null = null): Promise<SessionUser> {
+export async function createUser(
+	db: DB,
+	email: string,
+	name: string | null = null
+): Promise<SessionUser> {
 	const user = { id: crypto.randomUUID(), email, name };
-	await db.insertInto('User').values({ ...user, emailVerified: null, image: null }).execute();
+	await db
+		.insertInto('User')
+		.values({ ...user, emailVerified: null, image: null })
+		.execute();
 	return user;
 }
 
-export async function countRows(db: DB, table: 'User' | 'workspaces' | 'memberships' | 'invitations' | 'audit_log' | 'VerificationToken' | 'signin_requests' | 'Session' | 'maps' | 'map_revisions' | 'share_links'): Promise<number> {
+export async function countRows(
+	db: DB,
+	table:
+		| 'User'
+		| 'workspaces'
+		| 'memberships'
+		| 'invitations'
+		| 'audit_log'
+		| 'VerificationToken'
+		| 'signin_requests'
+		| 'Session'
+		| 'maps'
+		| 'map_revisions'
+		| 'share_links'
+): Promise<number> {
 	const { n } = await db
 		.selectFrom(table)
 		.select((eb) => eb.fn.countAll<number>().as('n'))
@@ -71,7 +92,8 @@ export interface EventInit {
 /** A RequestEvent good enough for our loads, actions and +server.ts handlers. */
 export function makeEvent<E = RequestEvent>(init: EventInit): E {
 	const params = init.params ?? {};
-	const path = init.path ?? init.routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name] ?? name);
+	const path =
+		init.path ?? init.routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name] ?? name);
 	const url = new URL(`http://localhost${path}`);
 	let body: BodyInit | undefined;
 	const headers = new Headers();
@@ -80,7 +102,11 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 		body = JSON.stringify(init.body);
 		headers.set('content-type', 'application/json');
 	}
-	const request = new Request(url, { method: init.method ?? (body ? 'POST' : 'GET'), body, headers });
+	const request = new Request(url, {
+		method: init.method ?? (body ? 'POST' : 'GET'),
+		body,
+		headers
+	});
 	const cookies = new Map<string, string>();
 	return {
 		locals: { services: init.services, user: init.user },
@@ -108,7 +134,9 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 }
 
 /** Runs a load or action and reports a thrown redirect or error as a value. */
-export async function outcome(run: () => unknown): Promise<
+export async function outcome(
+	run: () => unknown
+): Promise<
 	| { kind: 'value'; value: unknown }
 	| { kind: 'redirect'; status: number; location: string }
 	| { kind: 'error'; status: number; message: string }
@@ -120,7 +148,8 @@ export async function outcome(run: () => unknown): Promise<
 		if (typeof t.location === 'string' && typeof t.status === 'number') {
 			return { kind: 'redirect', status: t.status, location: t.location };
 		}
-		if (typeof t.status === 'number' && t.body) return { kind: 'error', status: t.status, message: t.body.message ?? '' };
+		if (typeof t.status === 'number' && t.body)
+			return { kind: 'error', status: t.status, message: t.body.message ?? '' };
 		throw thrown;
 	}
 }

@@ -17,12 +17,19 @@ export const actions = {
 	default: async (event) => {
 		const form = await event.request.formData();
 		const values = { email: String(form.get('email') ?? '') };
-		const callbackUrl = safeCallbackUrl(form.get('callbackUrl') ?? event.url.searchParams.get('callbackUrl'));
+		const callbackUrl = safeCallbackUrl(
+			form.get('callbackUrl') ?? event.url.searchParams.get('callbackUrl')
+		);
 		const parsed = signInFormSchema.safeParse(values);
 		if (!parsed.success) {
 			return fail(400, { errors: fieldErrorsOf(parsed.error) as { email?: string[] }, values });
 		}
-		const next = await requestSignInLink(event.locals.services, event.url.origin, parsed.data.email, callbackUrl);
+		const next = await requestSignInLink(
+			event.locals.services,
+			event.url.origin,
+			parsed.data.email,
+			callbackUrl
+		);
 		redirect(303, next);
 	}
 } satisfies Actions;

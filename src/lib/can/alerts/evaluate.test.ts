@@ -7,7 +7,12 @@ import { alertRuleSchema, type AlertRuleInput } from './rule';
 // unacknowledged waits in "returned to normal, unacknowledged" until acknowledged. Deadband and
 // on/off-delays are the standard's nuisance-alarm remedies. All data below is invented.
 
-const base = { id: 'r1', name: 'Coolant hot', channel: { frame: 'Engine', signal: 'Coolant' }, severity: 'advisory' } as const;
+const base = {
+	id: 'r1',
+	name: 'Coolant hot',
+	channel: { frame: 'Engine', signal: 'Coolant' },
+	severity: 'advisory'
+} as const;
 
 function rule(overrides: Partial<AlertRuleInput> & Record<string, unknown> = {}) {
 	const condition = overrides.condition === 'outside' ? {} : { condition: 'above', setpoint: 100 };
@@ -16,7 +21,10 @@ function rule(overrides: Partial<AlertRuleInput> & Record<string, unknown> = {})
 
 /** Channel from [time, value] pairs. */
 function channel(samples: [number, number][]) {
-	return { time: Float64Array.from(samples, ([t]) => t), value: Float64Array.from(samples, ([, v]) => v) };
+	return {
+		time: Float64Array.from(samples, ([t]) => t),
+		value: Float64Array.from(samples, ([, v]) => v)
+	};
 }
 
 /** One sample a second from t = 0. */
@@ -24,7 +32,11 @@ function everySecond(values: number[]) {
 	return channel(values.map((v, i) => [i, v]));
 }
 
-function run(r: ReturnType<typeof rule>, samples: { time: Float64Array; value: Float64Array }, opts = {}) {
+function run(
+	r: ReturnType<typeof rule>,
+	samples: { time: Float64Array; value: Float64Array },
+	opts = {}
+) {
 	return evaluateAlertRule(r, samples.time, samples.value, opts);
 }
 
@@ -45,7 +57,14 @@ describe('deadband (ISA-18.2 / IEC 62682 hysteresis, from memory)', () => {
 	it('a 3 °C deadband gives one event: the value must fall below 97 °C to return', () => {
 		const { events, transitions } = run(rule({ deadband: 3 }), noisy);
 		expect(events).toHaveLength(1);
-		expect(events[0]).toMatchObject({ start: 1, end: 9, returnedAt: 9, peak: 102, duration: 8, latched: false });
+		expect(events[0]).toMatchObject({
+			start: 1,
+			end: 9,
+			returnedAt: 9,
+			peak: 102,
+			duration: 8,
+			latched: false
+		});
 		expect(transitions).toEqual([
 			{ time: 1, from: 'normal', to: 'unacknowledged' },
 			{ time: 9, from: 'unacknowledged', to: 'normal' }
@@ -117,25 +136,50 @@ describe('latching and acknowledgement (ISA-18.2 / IEC 62682 state model, from m
 	const excursion = everySecond([90, 110, 120, 95, 90, 90, 90]);
 
 	it('a latching rule stays active after return until acknowledged: RTN unacknowledged, then normal', () => {
-		const { events, transitions } = run(rule({ latching: true }), excursion, { acknowledgements: [5.5] });
+		const { events, transitions } = run(rule({ latching: true }), excursion, {
+			acknowledgements: [5.5]
+		});
 		expect(transitions).toEqual([
 			{ time: 1, from: 'normal', to: 'unacknowledged' },
 			{ time: 3, from: 'unacknowledged', to: 'rtnUnacknowledged' },
 			{ time: 5.5, from: 'rtnUnacknowledged', to: 'normal' }
 		]);
 		expect(events).toEqual([
-			{ rule: 'r1', severity: 'advisory', start: 1, end: 5.5, peak: 120, duration: 4.5, latched: true, acknowledgedAt: 5.5, returnedAt: 3 }
+			{
+				rule: 'r1',
+				severity: 'advisory',
+				start: 1,
+				end: 5.5,
+				peak: 120,
+				duration: 4.5,
+				latched: true,
+				acknowledgedAt: 5.5,
+				returnedAt: 3
+			}
 		]);
 	});
 
 	it('a latched, never acknowledged alert is still active at the end of the recording', () => {
 		const { events, transitions } = run(rule({ latching: true }), excursion);
-		expect(events[0]).toMatchObject({ start: 1, end: null, duration: 5, latched: true, acknowledgedAt: null, returnedAt: 3 });
-		expect(transitions.at(-1)).toEqual({ time: 3, from: 'unacknowledged', to: 'rtnUnacknowledged' });
+		expect(events[0]).toMatchObject({
+			start: 1,
+			end: null,
+			duration: 5,
+			latched: true,
+			acknowledgedAt: null,
+			returnedAt: 3
+		});
+		expect(transitions.at(-1)).toEqual({
+			time: 3,
+			from: 'unacknowledged',
+			to: 'rtnUnacknowledged'
+		});
 	});
 
 	it('an acknowledgement while active moves to acknowledged, and the return then goes to normal without latching', () => {
-		const { events, transitions } = run(rule({ latching: true }), excursion, { acknowledgements: [2, 6] });
+		const { events, transitions } = run(rule({ latching: true }), excursion, {
+			acknowledgements: [2, 6]
+		});
 		expect(transitions).toEqual([
 			{ time: 1, from: 'normal', to: 'unacknowledged' },
 			{ time: 2, from: 'unacknowledged', to: 'acknowledged' },
@@ -145,8 +189,18 @@ describe('latching and acknowledgement (ISA-18.2 / IEC 62682 state model, from m
 	});
 
 	it('a re-alarm while latched continues the same event', () => {
-		const { events, transitions } = run(rule({ latching: true }), everySecond([90, 110, 90, 115, 90, 90]), { acknowledgements: [5] });
-		expect(transitions.map((t) => t.to)).toEqual(['unacknowledged', 'rtnUnacknowledged', 'unacknowledged', 'rtnUnacknowledged', 'normal']);
+		const { events, transitions } = run(
+			rule({ latching: true }),
+			everySecond([90, 110, 90, 115, 90, 90]),
+			{ acknowledgements: [5] }
+		);
+		expect(transitions.map((t) => t.to)).toEqual([
+			'unacknowledged',
+			'rtnUnacknowledged',
+			'unacknowledged',
+			'rtnUnacknowledged',
+			'normal'
+		]);
 		expect(events).toHaveLength(1);
 		expect(events[0]).toMatchObject({ start: 1, end: 5, peak: 115, returnedAt: 4, latched: true });
 	});
@@ -157,11 +211,19 @@ describe('latching and acknowledgement (ISA-18.2 / IEC 62682 state model, from m
 			{ time: 1, from: 'normal', to: 'unacknowledged' },
 			{ time: 3, from: 'unacknowledged', to: 'normal' }
 		]);
-		expect(events[0]).toMatchObject({ start: 1, end: 3, latched: false, acknowledgedAt: null, returnedAt: 3 });
+		expect(events[0]).toMatchObject({
+			start: 1,
+			end: 3,
+			latched: false,
+			acknowledgedAt: null,
+			returnedAt: 3
+		});
 	});
 
 	it('ignores acknowledgements in normal and after the end of the recording', () => {
-		const { transitions } = run(rule({ latching: true }), excursion, { acknowledgements: [0.5, 99] });
+		const { transitions } = run(rule({ latching: true }), excursion, {
+			acknowledgements: [0.5, 99]
+		});
 		expect(transitions.map((t) => t.to)).toEqual(['unacknowledged', 'rtnUnacknowledged']);
 	});
 });
@@ -187,7 +249,12 @@ describe('samples and recording end', () => {
 	it('endTime extends the recording past the last sample, so a delay can still run out', () => {
 		const samples = everySecond([90, 110]);
 		expect(run(rule({ onDelayS: 3 }), samples).events).toEqual([]);
-		expect(run(rule({ onDelayS: 3 }), samples, { endTime: 10 }).events[0]).toMatchObject({ start: 4, end: null, duration: 6, peak: 110 });
+		expect(run(rule({ onDelayS: 3 }), samples, { endTime: 10 }).events[0]).toMatchObject({
+			start: 4,
+			end: null,
+			duration: 6,
+			peak: 110
+		});
 	});
 
 	it('ignores samples after endTime', () => {
@@ -197,8 +264,19 @@ describe('samples and recording end', () => {
 
 	it('rejects series of different lengths and times out of order, naming the sample', () => {
 		const r = rule();
-		expect(() => evaluateAlertRule(r, new Float64Array(2), new Float64Array(3))).toThrow(/same length/);
-		expect(() => run(r, channel([[0, 1], [2, 1], [1, 1]]))).toThrow(/sample 2: time 1 is earlier/);
+		expect(() => evaluateAlertRule(r, new Float64Array(2), new Float64Array(3))).toThrow(
+			/same length/
+		);
+		expect(() =>
+			run(
+				r,
+				channel([
+					[0, 1],
+					[2, 1],
+					[1, 1]
+				])
+			)
+		).toThrow(/sample 2: time 1 is earlier/);
 	});
 
 	it('gives nothing for an empty channel', () => {

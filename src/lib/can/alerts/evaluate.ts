@@ -60,19 +60,25 @@ export interface EvaluateOptions {
 
 function checkSeries(time: Float64Array, value: Float64Array): void {
 	if (time.length !== value.length) {
-		throw new RangeError(`time and value must have the same length (got ${time.length} times and ${value.length} values)`);
+		throw new RangeError(
+			`time and value must have the same length (got ${time.length} times and ${value.length} values)`
+		);
 	}
 	for (let i = 0; i < time.length; i++) {
-		if (!Number.isFinite(time[i])) throw new RangeError(`sample ${i}: time ${time[i]} is not a finite number`);
+		if (!Number.isFinite(time[i]))
+			throw new RangeError(`sample ${i}: time ${time[i]} is not a finite number`);
 		if (i > 0 && time[i] < time[i - 1]) {
-			throw new RangeError(`sample ${i}: time ${time[i]} is earlier than the previous sample (${time[i - 1]}); samples must be in time order`);
+			throw new RangeError(
+				`sample ${i}: time ${time[i]} is earlier than the previous sample (${time[i - 1]}); samples must be in time order`
+			);
 		}
 	}
 }
 
 /** Whether a later present sample has the same time as sample `i` (and so replaces its value). */
 function supersededAtSameTime(time: Float64Array, value: Float64Array, i: number): boolean {
-	for (let j = i + 1; j < time.length && time[j] === time[i]; j++) if (value[j] === value[j]) return true;
+	for (let j = i + 1; j < time.length && time[j] === time[i]; j++)
+		if (value[j] === value[j]) return true;
 	return false;
 }
 
@@ -89,7 +95,14 @@ function firstAfter(time: Float64Array, t: number, inclusive: boolean): number {
 }
 
 /** The held value with the largest excursion over [start, end) — or [start, end] when `closedEnd`. */
-function peakWithin(rule: AlertRule, time: Float64Array, value: Float64Array, start: number, end: number, closedEnd: boolean): number {
+function peakWithin(
+	rule: AlertRule,
+	time: Float64Array,
+	value: Float64Array,
+	start: number,
+	end: number,
+	closedEnd: boolean
+): number {
 	let peak = NaN;
 	let best = -Infinity;
 	const consider = (v: number) => {
@@ -121,7 +134,8 @@ export function evaluateAlertRule(
 	const endTime = opts.endTime ?? (time.length > 0 ? time[time.length - 1] : -Infinity);
 	if (Number.isNaN(endTime)) throw new RangeError('endTime must be a number');
 	const acks = [...(opts.acknowledgements ?? [])].filter((t) => t <= endTime).sort((a, b) => a - b);
-	if (acks.some((t) => !Number.isFinite(t))) throw new RangeError('acknowledgement times must be finite numbers');
+	if (acks.some((t) => !Number.isFinite(t)))
+		throw new RangeError('acknowledgement times must be finite numbers');
 
 	const events: AlertEvent[] = [];
 	const transitions: AlarmTransition[] = [];
@@ -144,7 +158,17 @@ export function evaluateAlertRule(
 	const activate = (t: number) => {
 		processActive = true;
 		if (state === 'normal') {
-			current = { rule: rule.id, severity: rule.severity, start: t, end: null, peak: NaN, duration: 0, latched: false, acknowledgedAt: null, returnedAt: null };
+			current = {
+				rule: rule.id,
+				severity: rule.severity,
+				start: t,
+				end: null,
+				peak: NaN,
+				duration: 0,
+				latched: false,
+				acknowledgedAt: null,
+				returnedAt: null
+			};
 			events.push(current);
 		} else current!.returnedAt = null; // re-alarm while latched: the same event goes on
 		move(t, 'unacknowledged');

@@ -11,7 +11,8 @@ import { decodeCapture } from '../capture/decode-capture';
 import { ingestCapture } from '../capture/ingest';
 import { replayAlertRules, UnknownRuleError } from './replay';
 
-const fixture = (name: string) => readFile(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
+const fixture = (name: string) =>
+	readFile(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
 
 async function load() {
 	const parsed = parseMap(await fixture('club-racer-ecu.map.json'));
@@ -20,7 +21,11 @@ async function load() {
 	const { store } = await ingestCapture(csv);
 	const decoded = decodeCapture(store, compileMap(parsed.map));
 	// Reference series straight from the CSV text, times from the first frame like the capture's.
-	const rows = csv.trim().split('\n').slice(1).map((line) => line.split(','));
+	const rows = csv
+		.trim()
+		.split('\n')
+		.slice(1)
+		.map((line) => line.split(','));
 	const t0 = Number(rows[0][0]);
 	const series = (id: string, read: (view: DataView) => number) =>
 		rows
@@ -35,7 +40,11 @@ async function load() {
 }
 
 /** First sample (at or after `from`) meeting `test`. */
-const firstWhere = (s: { t: number; v: number }[], test: (v: number) => boolean, from = -Infinity) => s.find((p) => p.t >= from && test(p.v))!;
+const firstWhere = (
+	s: { t: number; v: number }[],
+	test: (v: number) => boolean,
+	from = -Infinity
+) => s.find((p) => p.t >= from && test(p.v))!;
 
 describe('replayAlertRules over the demo capture', () => {
 	it('finds the oil-pressure dip (latched) and the coolant climb (still active at the end)', async () => {
@@ -51,29 +60,59 @@ describe('replayAlertRules over the demo capture', () => {
 		expect(coolant.filter((p) => p.t > hot.t).every((p) => p.v > 78)).toBe(true);
 
 		expect(decoded.duration).toBeCloseTo(end, 9);
-		expect(replay.events.map((e) => ({ ...e, start: round(e.start), duration: round(e.duration), returnedAt: e.returnedAt === null ? null : round(e.returnedAt) }))).toEqual([
+		expect(
+			replay.events.map((e) => ({
+				...e,
+				start: round(e.start),
+				duration: round(e.duration),
+				returnedAt: e.returnedAt === null ? null : round(e.returnedAt)
+			}))
+		).toEqual([
 			{
-				rule: 'coolant-hot', ruleName: 'Coolant hot', severity: 'advisory', channelIndex: expect.any(Number),
-				start: round(hot.t + 1), end: null, duration: round(end - hot.t - 1), peak: Math.max(...coolant.map((p) => p.v)),
-				latched: false, acknowledgedAt: null, returnedAt: null, message: 'Coolant hot: coolant at 85 °C, above 80 °C'
+				rule: 'coolant-hot',
+				ruleName: 'Coolant hot',
+				severity: 'advisory',
+				channelIndex: expect.any(Number),
+				start: round(hot.t + 1),
+				end: null,
+				duration: round(end - hot.t - 1),
+				peak: Math.max(...coolant.map((p) => p.v)),
+				latched: false,
+				acknowledgedAt: null,
+				returnedAt: null,
+				message: 'Coolant hot: coolant at 85 °C, above 80 °C'
 			},
 			{
-				rule: 'oil-pressure-low', ruleName: 'Oil pressure low', severity: 'critical', channelIndex: expect.any(Number),
-				start: round(dip.t + 0.1), end: null, duration: round(end - dip.t - 0.1), peak: expect.closeTo(lowest, 9),
-				latched: true, acknowledgedAt: null, returnedAt: round(back.t), message: `Oil pressure low: ${Number(lowest.toPrecision(6))} kPa, below 250 kPa`
+				rule: 'oil-pressure-low',
+				ruleName: 'Oil pressure low',
+				severity: 'critical',
+				channelIndex: expect.any(Number),
+				start: round(dip.t + 0.1),
+				end: null,
+				duration: round(end - dip.t - 0.1),
+				peak: expect.closeTo(lowest, 9),
+				latched: true,
+				acknowledgedAt: null,
+				returnedAt: round(back.t),
+				message: `Oil pressure low: ${Number(lowest.toPrecision(6))} kPa, below 250 kPa`
 			}
 		]);
 		expect(replay.summary.map((s) => [s.rule, s.count, s.latchedCount, s.openCount])).toEqual([
 			['coolant-hot', 1, 0, 1],
 			['oil-pressure-low', 1, 1, 1]
 		]);
-		expect(replay.rules.map((r) => [r.id, r.unit, r.channelIndex !== null])).toEqual([['coolant-hot', '°C', true], ['oil-pressure-low', 'kPa', true]]);
+		expect(replay.rules.map((r) => [r.id, r.unit, r.channelIndex !== null])).toEqual([
+			['coolant-hot', '°C', true],
+			['oil-pressure-low', 'kPa', true]
+		]);
 	});
 
 	it('an acknowledgement after the return clears the latched event at that time', async () => {
 		const { map, decoded, oil } = await load();
 		const back = firstWhere(oil, (v) => v > 275, firstWhere(oil, (v) => v < 250).t);
-		const replay = replayAlertRules(map, decoded.channels, decoded.duration, [{ ruleId: 'oil-pressure-low', time: back.t + 2 }]);
+		const replay = replayAlertRules(map, decoded.channels, decoded.duration, [
+			{ ruleId: 'oil-pressure-low', time: back.t + 2 }
+		]);
 		const event = replay.events.find((e) => e.rule === 'oil-pressure-low')!;
 		expect(event).toMatchObject({ end: back.t + 2, acknowledgedAt: back.t + 2, latched: true });
 		expect(replay.summary.find((s) => s.rule === 'oil-pressure-low')!.openCount).toBe(0);
@@ -81,18 +120,27 @@ describe('replayAlertRules over the demo capture', () => {
 
 	it('lists a rule whose channel the map lacks without events, and lists rules without events with zero counts', async () => {
 		const { map, decoded } = await load();
-		const rules = [{ ...map.alertRules[0], id: 'ghost', name: 'Ghost', channel: { frame: 'Nope', signal: 'x' } }, { ...map.alertRules[0], id: 'never', name: 'Never', setpoint: 200 }];
+		const rules = [
+			{ ...map.alertRules[0], id: 'ghost', name: 'Ghost', channel: { frame: 'Nope', signal: 'x' } },
+			{ ...map.alertRules[0], id: 'never', name: 'Never', setpoint: 200 }
+		];
 		const replay = replayAlertRules({ alertRules: rules }, decoded.channels, decoded.duration);
 		expect(replay.events).toEqual([]);
 		expect(replay.rules.map((r) => r.channelIndex === null)).toEqual([true, false]);
-		expect(replay.summary.map((s) => [s.rule, s.count, s.totalActiveS])).toEqual([['ghost', 0, 0], ['never', 0, 0]]);
+		expect(replay.summary.map((s) => [s.rule, s.count, s.totalActiveS])).toEqual([
+			['ghost', 0, 0],
+			['never', 0, 0]
+		]);
 	});
 
 	it('refuses an acknowledgement for a rule the map does not have, naming it', async () => {
 		const { map, decoded } = await load();
-		expect(() => replayAlertRules(map, decoded.channels, decoded.duration, [{ ruleId: 'oil-pressure-low', time: 1 }, { ruleId: 'nope', time: 2 }])).toThrow(
-			new UnknownRuleError(1, 'nope')
-		);
+		expect(() =>
+			replayAlertRules(map, decoded.channels, decoded.duration, [
+				{ ruleId: 'oil-pressure-low', time: 1 },
+				{ ruleId: 'nope', time: 2 }
+			])
+		).toThrow(new UnknownRuleError(1, 'nope'));
 	});
 });
 

@@ -10,11 +10,16 @@ import { formatAlertMessage, type AlertRule } from './rule';
 import { summarizeAlertEvents, type AlertRuleSummary } from './summary';
 
 export const alertReplayInputSchema = z.strictObject({
-	decode: z.string({ error: 'name the decode to replay the rules over (its id)' }).trim().min(1, 'name the decode to replay the rules over (its id)'),
+	decode: z
+		.string({ error: 'name the decode to replay the rules over (its id)' })
+		.trim()
+		.min(1, 'name the decode to replay the rules over (its id)'),
 	acknowledgements: z
 		.array(
 			z.strictObject({
-				ruleId: z.string({ error: 'ruleId must be the id of a rule' }).min(1, 'ruleId must be the id of a rule'),
+				ruleId: z
+					.string({ error: 'ruleId must be the id of a rule' })
+					.min(1, 'ruleId must be the id of a rule'),
 				time: z.number({ error: 'time must be a number of seconds from the start of the capture' })
 			})
 		)
@@ -53,7 +58,10 @@ export interface AlertReplay {
 }
 
 export class UnknownRuleError extends Error {
-	constructor(readonly index: number, readonly ruleId: string) {
+	constructor(
+		readonly index: number,
+		readonly ruleId: string
+	) {
 		super(`acknowledgement ${index} names rule "${ruleId}", which this map revision does not have`);
 	}
 }
@@ -75,19 +83,41 @@ export function replayAlertRules(
 	const rules: ReplayedRule[] = [];
 	const events: ReplayedEvent[] = [];
 	for (const rule of map.alertRules) {
-		const channel = channels.find((c) => c.info.frameName === rule.channel.frame && c.info.signalName === rule.channel.signal);
-		rules.push({ ...rule, channelIndex: channel?.info.index ?? null, unit: channel?.info.unit ?? '' });
+		const channel = channels.find(
+			(c) => c.info.frameName === rule.channel.frame && c.info.signalName === rule.channel.signal
+		);
+		rules.push({
+			...rule,
+			channelIndex: channel?.info.index ?? null,
+			unit: channel?.info.unit ?? ''
+		});
 		if (!channel) continue;
 		const acks = acknowledgements.filter((a) => a.ruleId === rule.id).map((a) => a.time);
-		const { events: found } = evaluateAlertRule(rule, channel.time, channel.value, { acknowledgements: acks, endTime });
+		const { events: found } = evaluateAlertRule(rule, channel.time, channel.value, {
+			acknowledgements: acks,
+			endTime
+		});
 		for (const event of found) {
-			events.push({ ...event, ruleName: rule.name, channelIndex: channel.info.index, message: formatAlertMessage(rule, event.peak, channel.info.unit) });
+			events.push({
+				...event,
+				ruleName: rule.name,
+				channelIndex: channel.info.index,
+				message: formatAlertMessage(rule, event.peak, channel.info.unit)
+			});
 		}
 	}
 	events.sort((a, b) => a.start - b.start);
 	const byRule = new Map(summarizeAlertEvents(events).map((s) => [s.rule, s]));
 	const summary = map.alertRules.map(
-		(rule) => byRule.get(rule.id) ?? { rule: rule.id, severity: rule.severity, count: 0, totalActiveS: 0, latchedCount: 0, openCount: 0 }
+		(rule) =>
+			byRule.get(rule.id) ?? {
+				rule: rule.id,
+				severity: rule.severity,
+				count: 0,
+				totalActiveS: 0,
+				latchedCount: 0,
+				openCount: 0
+			}
 	);
 	return { rules, events, summary, endTime };
 }

@@ -10,7 +10,10 @@ export const alertSeveritySchema = z.enum(['advisory', 'critical']);
 export type AlertSeverity = z.infer<typeof alertSeveritySchema>;
 
 /** How a severity is shown to people. */
-export const SEVERITY_LABELS: Record<AlertSeverity, string> = { advisory: 'Advisory', critical: 'Critical' };
+export const SEVERITY_LABELS: Record<AlertSeverity, string> = {
+	advisory: 'Advisory',
+	critical: 'Critical'
+};
 
 export const MESSAGE_PLACEHOLDERS = ['value', 'unit', 'setpoint', 'name'] as const;
 export const DEFAULT_ALERT_MESSAGE = '{name}: {value} {unit}';
@@ -52,7 +55,11 @@ const messageSchema = z
 
 const ruleBase = z.strictObject({
 	id: z.string().trim().min(1, 'a rule needs an id').max(64, 'an id must be at most 64 characters'),
-	name: z.string().trim().min(1, 'a rule needs a name').max(120, 'a name must be at most 120 characters'),
+	name: z
+		.string()
+		.trim()
+		.min(1, 'a rule needs a name')
+		.max(120, 'a name must be at most 120 characters'),
 	channel: z
 		.strictObject({
 			frame: z.string().trim().min(1, 'name the frame that carries the signal'),
@@ -64,9 +71,15 @@ const ruleBase = z.strictObject({
 		.number({ error: 'deadband must be a finite number' })
 		.min(0, 'deadband must be 0 or more (in the signal unit)')
 		.default(0)
-		.describe('hysteresis in the signal unit: how far back past the setpoint the value must go to return'),
-	onDelayS: delay('on-delay').describe('seconds the condition must hold before the alert activates'),
-	offDelayS: delay('off-delay').describe('seconds the return condition must hold before the alert returns'),
+		.describe(
+			'hysteresis in the signal unit: how far back past the setpoint the value must go to return'
+		),
+	onDelayS: delay('on-delay').describe(
+		'seconds the condition must hold before the alert activates'
+	),
+	offDelayS: delay('off-delay').describe(
+		'seconds the return condition must hold before the alert returns'
+	),
 	latching: z.boolean({ error: 'latching must be true or false' }).default(false),
 	message: messageSchema
 });
@@ -76,7 +89,11 @@ export const alertRuleSchema = z.discriminatedUnion(
 	[
 		ruleBase.extend({ condition: z.literal('above'), setpoint: finite('setpoint') }),
 		ruleBase.extend({ condition: z.literal('below'), setpoint: finite('setpoint') }),
-		ruleBase.extend({ condition: z.literal('outside'), low: finite('band low'), high: finite('band high') })
+		ruleBase.extend({
+			condition: z.literal('outside'),
+			low: finite('band low'),
+			high: finite('band high')
+		})
 	],
 	{ error: 'condition must be "above", "below" or "outside"' }
 );
@@ -132,5 +149,7 @@ export function formatAlertMessage(rule: AlertRule, value: number, unit: string)
 		setpoint: setpointText(rule, value),
 		name: rule.name
 	};
-	return rule.message.replace(/\{(value|unit|setpoint|name)\}/g, (_, key: keyof typeof fill) => fill[key]).trim();
+	return rule.message
+		.replace(/\{(value|unit|setpoint|name)\}/g, (_, key: keyof typeof fill) => fill[key])
+		.trim();
 }

@@ -19,7 +19,14 @@ export function summarizeAlertEvents(events: readonly AlertEvent[]): AlertRuleSu
 	for (const event of events) {
 		let summary = byRule.get(event.rule);
 		if (!summary) {
-			summary = { rule: event.rule, severity: event.severity, count: 0, totalActiveS: 0, latchedCount: 0, openCount: 0 };
+			summary = {
+				rule: event.rule,
+				severity: event.severity,
+				count: 0,
+				totalActiveS: 0,
+				latchedCount: 0,
+				openCount: 0
+			};
 			byRule.set(event.rule, summary);
 		}
 		summary.count++;

@@ -9,10 +9,21 @@ import { summarizeAlertEvents } from './summary';
 
 const channel = { frame: 'PedalAndThrottle', signal: 'ThrottlePosition' };
 const advisory = alertRuleSchema.parse({
-	id: 'throttle-advisory', name: 'Throttle above half', channel, condition: 'above', setpoint: 50, severity: 'advisory'
+	id: 'throttle-advisory',
+	name: 'Throttle above half',
+	channel,
+	condition: 'above',
+	setpoint: 50,
+	severity: 'advisory'
 });
 const critical = alertRuleSchema.parse({
-	id: 'throttle-critical', name: 'Throttle wide open', channel, condition: 'above', setpoint: 85, severity: 'critical', latching: true
+	id: 'throttle-critical',
+	name: 'Throttle wide open',
+	channel,
+	condition: 'above',
+	setpoint: 85,
+	severity: 'critical',
+	latching: true
 });
 
 /**
@@ -32,7 +43,13 @@ const value = time.map(throttleAt);
 describe('throttle sweep (common practice: advisory above 50 %, latching critical above 85 %)', () => {
 	it('the sweep is what the comments say', () => {
 		expect([time[0], time.at(-1)]).toEqual([0, 38]);
-		expect([throttleAt(5), throttleAt(10), throttleAt(15.5), throttleAt(29), throttleAt(30)]).toEqual([50, 100, 45, 90, 80]);
+		expect([
+			throttleAt(5),
+			throttleAt(10),
+			throttleAt(15.5),
+			throttleAt(29),
+			throttleAt(30)
+		]).toEqual([50, 100, 45, 90, 80]);
 	});
 
 	it('Advisory: two events, each from the first sample above 50 % to the first sample below it', () => {
@@ -40,8 +57,28 @@ describe('throttle sweep (common practice: advisory above 50 %, latching critica
 		// Sweep 2: 55 % at 25.5 s activates; 50 % at 33 s holds; 45 % at 33.5 s returns. Peaks are the sweep tops.
 		const { events } = evaluateAlertRule(advisory, time, value);
 		expect(events).toEqual([
-			{ rule: 'throttle-advisory', severity: 'advisory', start: 5.5, end: 15.5, peak: 100, duration: 10, latched: false, acknowledgedAt: null, returnedAt: 15.5 },
-			{ rule: 'throttle-advisory', severity: 'advisory', start: 25.5, end: 33.5, peak: 90, duration: 8, latched: false, acknowledgedAt: null, returnedAt: 33.5 }
+			{
+				rule: 'throttle-advisory',
+				severity: 'advisory',
+				start: 5.5,
+				end: 15.5,
+				peak: 100,
+				duration: 10,
+				latched: false,
+				acknowledgedAt: null,
+				returnedAt: 15.5
+			},
+			{
+				rule: 'throttle-advisory',
+				severity: 'advisory',
+				start: 25.5,
+				end: 33.5,
+				peak: 90,
+				duration: 8,
+				latched: false,
+				acknowledgedAt: null,
+				returnedAt: 33.5
+			}
 		]);
 	});
 
@@ -49,10 +86,32 @@ describe('throttle sweep (common practice: advisory above 50 %, latching critica
 		// Sweep 1: 85 % at 8.5 s is not above, 90 % at 9 s activates; falling, 85 % at 11.5 s holds, 80 % at 12 s
 		//          returns → latched (RTN unacknowledged) until the acknowledgement at 16 s → normal. 16 − 9 = 7 s.
 		// Sweep 2: 90 % at 29 s activates, 80 % at 30 s returns → latched, never acknowledged: open, 38 − 29 = 9 s.
-		const { events, transitions } = evaluateAlertRule(critical, time, value, { acknowledgements: [16] });
+		const { events, transitions } = evaluateAlertRule(critical, time, value, {
+			acknowledgements: [16]
+		});
 		expect(events).toEqual([
-			{ rule: 'throttle-critical', severity: 'critical', start: 9, end: 16, peak: 100, duration: 7, latched: true, acknowledgedAt: 16, returnedAt: 12 },
-			{ rule: 'throttle-critical', severity: 'critical', start: 29, end: null, peak: 90, duration: 9, latched: true, acknowledgedAt: null, returnedAt: 30 }
+			{
+				rule: 'throttle-critical',
+				severity: 'critical',
+				start: 9,
+				end: 16,
+				peak: 100,
+				duration: 7,
+				latched: true,
+				acknowledgedAt: 16,
+				returnedAt: 12
+			},
+			{
+				rule: 'throttle-critical',
+				severity: 'critical',
+				start: 29,
+				end: null,
+				peak: 90,
+				duration: 9,
+				latched: true,
+				acknowledgedAt: null,
+				returnedAt: 30
+			}
 		]);
 		expect(transitions).toEqual([
 			{ time: 9, from: 'normal', to: 'unacknowledged' },
@@ -69,8 +128,22 @@ describe('throttle sweep (common practice: advisory above 50 %, latching critica
 			...evaluateAlertRule(critical, time, value, { acknowledgements: [16] }).events
 		];
 		expect(summarizeAlertEvents(events)).toEqual([
-			{ rule: 'throttle-advisory', severity: 'advisory', count: 2, totalActiveS: 18, latchedCount: 0, openCount: 0 },
-			{ rule: 'throttle-critical', severity: 'critical', count: 2, totalActiveS: 16, latchedCount: 2, openCount: 1 }
+			{
+				rule: 'throttle-advisory',
+				severity: 'advisory',
+				count: 2,
+				totalActiveS: 18,
+				latchedCount: 0,
+				openCount: 0
+			},
+			{
+				rule: 'throttle-critical',
+				severity: 'critical',
+				count: 2,
+				totalActiveS: 16,
+				latchedCount: 2,
+				openCount: 1
+			}
 		]);
 	});
 });

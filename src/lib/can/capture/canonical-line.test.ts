@@ -9,7 +9,12 @@ async function importBoth(text: string | string[]) {
 	const routes = await Promise.all(
 		[true, false].map(async (canonicalFastPath) => {
 			const { store, ...report } = await ingestCapture(text, { canonicalFastPath });
-			const frames = Array.from({ length: store.count }, (_, i) => [store.time[i], store.id[i], store.flags[i], Array.from(store.payload(i))]);
+			const frames = Array.from({ length: store.count }, (_, i) => [
+				store.time[i],
+				store.id[i],
+				store.flags[i],
+				Array.from(store.payload(i))
+			]);
 			return { report, frames };
 		})
 	);
@@ -55,7 +60,9 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		const rand = seededRandom(0xfa57);
 		const lines = ['time,id,extended,dlc,data'];
 		for (let i = 0; i < 3000; i++) {
-			const bytes = Array.from(rand.bytes(rand.pick([0, 1, 8, 12])), (b) => b.toString(16).padStart(2, '0'));
+			const bytes = Array.from(rand.bytes(rand.pick([0, 1, 8, 12])), (b) =>
+				b.toString(16).padStart(2, '0')
+			);
 			const extended = rand.int(0, 1);
 			const id = rand.int(0, extended ? 0x1fffffff : 0x7ff).toString(16);
 			const line = `${(i / 1000).toFixed(rand.int(0, 7))},${id},${extended},${rand.pick([bytes.length, bytes.length > 8 ? 9 : 3])},${bytes.join(rand.pick([' ', '']))}`;
@@ -63,7 +70,7 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		}
 		const text = lines.join('\n') + '\n';
 		const chunks: string[] = [];
-		for (let at = 0; at < text.length; ) {
+		for (let at = 0; at < text.length;) {
 			const size = rand.int(1, 5000);
 			chunks.push(text.slice(at, at + size));
 			at += size;
@@ -79,6 +86,14 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		const out = createParsedRow();
 		const start = text.indexOf('\n') + 1;
 		expect(readCanonicalLine(text, start, text.lastIndexOf('\n'), out, 'either')).toBe(true);
-		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([1.5, 0x1a0, false, 3, 1, 2, 255]);
+		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([
+			1.5,
+			0x1a0,
+			false,
+			3,
+			1,
+			2,
+			255
+		]);
 	});
 });

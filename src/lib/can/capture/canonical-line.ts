@@ -35,7 +35,13 @@ export function fitsCanonicalLine(layout: CaptureLayout): boolean {
 }
 
 /** Reads text[start, end) into `out`; true only when the general route would accept it identically. */
-export function readCanonicalLine(text: string, start: number, end: number, out: ParsedRow, dlcMeaning: CaptureLayout['dlcMeaning']): boolean {
+export function readCanonicalLine(
+	text: string,
+	start: number,
+	end: number,
+	out: ParsedRow,
+	dlcMeaning: CaptureLayout['dlcMeaning']
+): boolean {
 	// time: digits with at most one point, same arithmetic as the general parseTime
 	let i = text.indexOf(',', start);
 	if (i < 0 || i >= end) return false;

@@ -5,7 +5,6 @@
 import { SIGNAL_STATUS, type ChannelInfo, type CompiledMap } from '../decoder';
 import { FLAG_EXTENDED, type FrameStore } from './frame-store';
 
-
 export interface Channel {
 	info: ChannelInfo;
 	/**
@@ -40,8 +39,22 @@ interface ColumnSummary {
 }
 
 /** Statistics of one decoded column (NaN = absent or flagged); `status` only for J1939 frames. */
-function summarise(values: Float64Array, status: Uint8Array | null, lo: number, hi: number): ColumnSummary {
-	const s: ColumnSummary = { count: 0, min: Infinity, max: -Infinity, sum: 0, last: NaN, outOfRange: 0, notAvailable: 0, error: 0 };
+function summarise(
+	values: Float64Array,
+	status: Uint8Array | null,
+	lo: number,
+	hi: number
+): ColumnSummary {
+	const s: ColumnSummary = {
+		count: 0,
+		min: Infinity,
+		max: -Infinity,
+		sum: 0,
+		last: NaN,
+		outOfRange: 0,
+		notAvailable: 0,
+		error: 0
+	};
 	for (let j = 0; j < values.length; j++) {
 		const v = values[j];
 		if (v === v) {
@@ -81,7 +94,9 @@ export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channe
 	const frameTime = frames.map((_, f) => new Float64Array(rows[f]));
 	const table = frames.map((frame, f) => new Float64Array(rows[f] * frame.channelCount));
 	// Statuses tell "not available" from "error" from absent; only J1939 frames can flag values.
-	const tableStatus = frames.map((frame, f) => (frame.frame.j1939 ? new Uint8Array(rows[f] * frame.channelCount) : undefined));
+	const tableStatus = frames.map((frame, f) =>
+		frame.frame.j1939 ? new Uint8Array(rows[f] * frame.channelCount) : undefined
+	);
 	const row = new Uint32Array(frames.length);
 	for (let i = 0; i < n; i++) {
 		const f = frameOf[i];

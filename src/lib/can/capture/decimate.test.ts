@@ -19,7 +19,13 @@ function randomSeries(seed: number, n: number) {
 }
 
 /** Brute force: every sample in [from, to] checked one by one, slice by slice. */
-function linearScan(time: Float64Array, value: Float64Array, from: number, to: number, buckets: number) {
+function linearScan(
+	time: Float64Array,
+	value: Float64Array,
+	from: number,
+	to: number,
+	buckets: number
+) {
 	const slices = new Map<number, { min: number; max: number }>();
 	for (let i = 0; i < time.length; i++) {
 		if (time[i] < from || time[i] > to || Number.isNaN(value[i])) continue;
@@ -36,41 +42,51 @@ describe('binary search bounds', () => {
 	it('match a linear scan on a series with repeated times', () => {
 		const time = Float64Array.from([0, 1, 1, 1, 2, 3, 3, 5]);
 		for (const t of [-1, 0, 0.5, 1, 2, 3, 4, 5, 6]) {
-			expect(lowerBound(time, t)).toBe(time.findIndex((x) => x >= t) === -1 ? time.length : time.findIndex((x) => x >= t));
-			expect(upperBound(time, t)).toBe(time.findIndex((x) => x > t) === -1 ? time.length : time.findIndex((x) => x > t));
+			expect(lowerBound(time, t)).toBe(
+				time.findIndex((x) => x >= t) === -1 ? time.length : time.findIndex((x) => x >= t)
+			);
+			expect(upperBound(time, t)).toBe(
+				time.findIndex((x) => x > t) === -1 ? time.length : time.findIndex((x) => x > t)
+			);
 		}
 	});
 });
 
 describe('decimateMinMax', () => {
-	it.each([1, 2, 3, 4, 5])('keeps every slice’s true min and max on random series (seed %i)', (seed) => {
-		const { time, value } = randomSeries(seed, 20_000);
-		const rnd = seededRandom(seed * 7919);
-		const span = time[time.length - 1] - time[0];
-		const from = time[0] + rnd.next() * span * 0.3;
-		const to = from + span * (0.2 + rnd.next() * 0.5);
-		const buckets = rnd.int(50, 800);
-		const d = decimateMinMax(time, value, from, to, buckets);
-		expect(d.raw).toBe(false);
+	it.each([1, 2, 3, 4, 5])(
+		'keeps every slice’s true min and max on random series (seed %i)',
+		(seed) => {
+			const { time, value } = randomSeries(seed, 20_000);
+			const rnd = seededRandom(seed * 7919);
+			const span = time[time.length - 1] - time[0];
+			const from = time[0] + rnd.next() * span * 0.3;
+			const to = from + span * (0.2 + rnd.next() * 0.5);
+			const buckets = rnd.int(50, 800);
+			const d = decimateMinMax(time, value, from, to, buckets);
+			expect(d.raw).toBe(false);
 
-		const expected = linearScan(time, value, from, to, buckets);
-		const inside = [...d.time.keys()].filter((j) => d.time[j] >= from && d.time[j] <= to);
-		const got = new Map<number, number[]>();
-		for (const j of inside) {
-			const k = bucketOf(d.time[j], from, to, buckets);
-			got.set(k, [...(got.get(k) ?? []), d.value[j]]);
+			const expected = linearScan(time, value, from, to, buckets);
+			const inside = [...d.time.keys()].filter((j) => d.time[j] >= from && d.time[j] <= to);
+			const got = new Map<number, number[]>();
+			for (const j of inside) {
+				const k = bucketOf(d.time[j], from, to, buckets);
+				got.set(k, [...(got.get(k) ?? []), d.value[j]]);
+			}
+			expect([...got.keys()].sort((a, b) => a - b)).toEqual(
+				[...expected.keys()].sort((a, b) => a - b)
+			);
+			for (const [k, s] of expected) {
+				const values = got.get(k)!;
+				expect(values.length).toBeLessThanOrEqual(2);
+				expect(Math.min(...values)).toBe(s.min);
+				expect(Math.max(...values)).toBe(s.max);
+			}
+			// Each point is a real sample, in time order.
+			for (let j = 1; j < d.time.length; j++)
+				expect(d.time[j]).toBeGreaterThanOrEqual(d.time[j - 1]);
+			expect(d.inRange).toBe(time.filter((t) => t >= from && t <= to).length);
 		}
-		expect([...got.keys()].sort((a, b) => a - b)).toEqual([...expected.keys()].sort((a, b) => a - b));
-		for (const [k, s] of expected) {
-			const values = got.get(k)!;
-			expect(values.length).toBeLessThanOrEqual(2);
-			expect(Math.min(...values)).toBe(s.min);
-			expect(Math.max(...values)).toBe(s.max);
-		}
-		// Each point is a real sample, in time order.
-		for (let j = 1; j < d.time.length; j++) expect(d.time[j]).toBeGreaterThanOrEqual(d.time[j - 1]);
-		expect(d.inRange).toBe(time.filter((t) => t >= from && t <= to).length);
-	});
+	);
 
 	it('keeps a one-sample spike among a million flat samples', () => {
 		const n = 1_000_000;

@@ -66,12 +66,22 @@ function nearestValid(value: Float64Array, start: number, step: 1 | -1): number 
  * plus at most one neighbour on each side. `time` must be non-decreasing (a channel's times are);
  * NaN values are skipped.
  */
-export function decimateMinMax(time: Float64Array, value: Float64Array, from: number, to: number, buckets: number): Decimation {
+export function decimateMinMax(
+	time: Float64Array,
+	value: Float64Array,
+	from: number,
+	to: number,
+	buckets: number
+): Decimation {
 	if (time.length !== value.length) {
-		throw new RangeError(`time and value must have the same length (${time.length} ≠ ${value.length})`);
+		throw new RangeError(
+			`time and value must have the same length (${time.length} ≠ ${value.length})`
+		);
 	}
 	if (!Number.isFinite(from) || !Number.isFinite(to) || from > to) {
-		throw new RangeError(`the range must be two finite times with from ≤ to, got from=${from}, to=${to}`);
+		throw new RangeError(
+			`the range must be two finite times with from ≤ to, got from=${from}, to=${to}`
+		);
 	}
 	if (!Number.isInteger(buckets) || buckets < 1) {
 		throw new RangeError(`buckets must be a whole number of at least 1, got ${buckets}`);
@@ -102,8 +112,13 @@ export function decimateMinMax(time: Float64Array, value: Float64Array, from: nu
 			if (minAt < 0) return;
 			// In time order, so the line between the two points is drawn the way the signal went.
 			if (minAt === maxAt) emit(minAt);
-			else if (minAt < maxAt) (emit(minAt), emit(maxAt));
-			else (emit(maxAt), emit(minAt));
+			else if (minAt < maxAt) {
+				emit(minAt);
+				emit(maxAt);
+			} else {
+				emit(maxAt);
+				emit(minAt);
+			}
 		};
 		for (let i = lo; i < hi; i++) {
 			const v = value[i];

@@ -68,10 +68,24 @@ describe('decodeCapture', () => {
 		expect(Array.from(speed.time)).toEqual([0, 0.01, 0.021, 0.03]);
 		expect(Array.from(speed.value)).toEqual([8, 100, 200, 0]);
 		// mean (8 + 100 + 200 + 0) / 4 = 77; one sample above max 100
-		expect(speed).toMatchObject({ count: 4, min: 0, max: 200, mean: 77, last: 0, outOfRangeCount: 1 });
+		expect(speed).toMatchObject({
+			count: 4,
+			min: 0,
+			max: 200,
+			mean: 77,
+			last: 0,
+			outOfRangeCount: 1
+		});
 		const temp = channel('temp');
 		// (10 + 60 + 0 − 40) / 4 = 7.5; 60 is above max 50; −40 equals min, so in range
-		expect(temp).toMatchObject({ count: 4, min: -40, max: 60, mean: 7.5, last: -40, outOfRangeCount: 1 });
+		expect(temp).toMatchObject({
+			count: 4,
+			min: -40,
+			max: 60,
+			mean: 7.5,
+			last: -40,
+			outOfRangeCount: 1
+		});
 	});
 
 	it('keeps only present samples of multiplexed signals', () => {
@@ -105,7 +119,11 @@ describe('decodeCapture', () => {
 	});
 
 	it('measures bus load within the published bounds for classical frames', () => {
-		const one = decodeCapture(store([[0, 0x100, false, [1, 2, 3, 4, 5, 6, 7, 8]]]), compileMap(map), { loadWindowSeconds: 0.001 });
+		const one = decodeCapture(
+			store([[0, 0x100, false, [1, 2, 3, 4, 5, 6, 7, 8]]]),
+			compileMap(map),
+			{ loadWindowSeconds: 0.001 }
+		);
 		// An 8-byte base-format frame: 108 unstuffed bits + 3 intermission (ISO 11898-1) at least,
 		// at most 135 bits including intermission (Davis et al. 2007). 500 bit in 1 ms at 500 kbit/s.
 		const bits = (one.busLoad.windows[0].percent / 100) * 500;
@@ -138,14 +156,22 @@ describe('decodeCapture J1939 pass', () => {
 			[1.1, true, 2]
 		]);
 		expect(scan.dm1[0].lamps.amberWarning.state).toBe('on');
-		expect(scan.troubleCodes.map((c) => [c.sourceAddress, c.spn, c.fmi, c.occurrenceCount])).toEqual([
+		expect(
+			scan.troubleCodes.map((c) => [c.sourceAddress, c.spn, c.fmi, c.occurrenceCount])
+		).toEqual([
 			[0, 100, 1, 3],
 			[0, 110, 3, 1],
 			[0, 190, 16, 2]
 		]);
 		// The reassembled bytes are the two packets' payloads after their sequence numbers, cut at the announced 10 bytes (J1939-21).
 		expect(scan.transportMessages).toEqual([
-			{ time: 1.1, pgn: 0xfeca, sourceAddress: 0, length: 10, data: new Uint8Array([0x04, 0xff, 0x6e, 0x00, 0x03, 0x01, 0xbe, 0x00, 0x10, 0x02]) }
+			{
+				time: 1.1,
+				pgn: 0xfeca,
+				sourceAddress: 0,
+				length: 10,
+				data: new Uint8Array([0x04, 0xff, 0x6e, 0x00, 0x03, 0x01, 0xbe, 0x00, 0x10, 0x02])
+			}
 		]);
 		expect(scan.transportProblems).toEqual([]);
 	});

@@ -28,7 +28,11 @@ export interface DecodeCaptureOptions {
 	loadWindowSeconds?: number;
 }
 
-export function decodeCapture(store: FrameStore, compiled: CompiledMap, options: DecodeCaptureOptions = {}): CaptureDecoding {
+export function decodeCapture(
+	store: FrameStore,
+	compiled: CompiledMap,
+	options: DecodeCaptureOptions = {}
+): CaptureDecoding {
 	const { ids, unknownIds } = surveyIds(store, compiled);
 	let first = Infinity;
 	let last = -Infinity;
@@ -42,7 +46,11 @@ export function decodeCapture(store: FrameStore, compiled: CompiledMap, options:
 		channels: decodeChannels(store, compiled),
 		ids,
 		unknownIds,
-		busLoad: loadOverTime(store, options.bitrate ?? compiled.map.bitrate, options.loadWindowSeconds),
+		busLoad: loadOverTime(
+			store,
+			options.bitrate ?? compiled.map.bitrate,
+			options.loadWindowSeconds
+		),
 		j1939: ids.some((s) => s.extended) ? scanJ1939(store) : null
 	};
 }

@@ -29,10 +29,39 @@ export const SAMPLE_ROWS = 200;
 const normalise = (name: string) => name.toLowerCase().replace(/[^a-z0-9µ]/g, '');
 
 const TIME_NAME = /^(timestamp|time|ts|t)(.*)$/;
-const ID_NAMES = new Set(['id', 'canid', 'identifier', 'arbid', 'arbitrationid', 'msgid', 'messageid', 'frameid', 'idhex', 'iddec', 'iddecimal']);
-const EXTENDED_NAMES = new Set(['extended', 'ext', 'ide', 'isextended', 'xtd', 'eff', 'extid', 'extendedid']);
+const ID_NAMES = new Set([
+	'id',
+	'canid',
+	'identifier',
+	'arbid',
+	'arbitrationid',
+	'msgid',
+	'messageid',
+	'frameid',
+	'idhex',
+	'iddec',
+	'iddecimal'
+]);
+const EXTENDED_NAMES = new Set([
+	'extended',
+	'ext',
+	'ide',
+	'isextended',
+	'xtd',
+	'eff',
+	'extid',
+	'extendedid'
+]);
 const DLC_NAMES = new Set(['dlc', 'len', 'length', 'size', 'datalength', 'bytecount', 'numbytes']);
-const DATA_NAMES = new Set(['data', 'payload', 'hex', 'datahex', 'databytes', 'bytes', 'payloadhex']);
+const DATA_NAMES = new Set([
+	'data',
+	'payload',
+	'hex',
+	'datahex',
+	'databytes',
+	'bytes',
+	'payloadhex'
+]);
 const BYTE_COLUMN = /^(d|b|byte|data|db|databyte)(\d{1,2})$/;
 
 function unitFromSuffix(suffix: string): TimeUnit | null {
@@ -54,7 +83,16 @@ interface HeaderMapping {
 }
 
 function mapHeader(header: string[]): HeaderMapping {
-	const m: HeaderMapping = { time: null, timeUnit: null, id: null, idDecimal: false, extended: null, dlc: null, data: null, bytes: [] };
+	const m: HeaderMapping = {
+		time: null,
+		timeUnit: null,
+		id: null,
+		idDecimal: false,
+		extended: null,
+		dlc: null,
+		data: null,
+		bytes: []
+	};
 	const numbered: [number, number][] = [];
 	header.forEach((raw, column) => {
 		const name = normalise(raw);
@@ -77,7 +115,10 @@ function mapHeader(header: string[]): HeaderMapping {
 	return m;
 }
 
-type Columns = Pick<CaptureLayout, 'timeColumn' | 'idColumn' | 'extendedColumn' | 'dlcColumn' | 'dataColumn' | 'byteColumns'>;
+type Columns = Pick<
+	CaptureLayout,
+	'timeColumn' | 'idColumn' | 'extendedColumn' | 'dlcColumn' | 'dataColumn' | 'byteColumns'
+>;
 
 /** Column arrangements to try when the header does not say, most usual first. */
 function positionalCandidates(columnCount: number): Columns[] {
@@ -89,17 +130,24 @@ function positionalCandidates(columnCount: number): Columns[] {
 			if (dataStart >= columnCount) continue;
 			const base = { timeColumn: 0, idColumn: 1, extendedColumn, dlcColumn };
 			out.push({ ...base, dataColumn: dataStart, byteColumns: [] });
-			const byteColumns = Array.from({ length: Math.min(64, columnCount - dataStart) }, (_, k) => dataStart + k);
+			const byteColumns = Array.from(
+				{ length: Math.min(64, columnCount - dataStart) },
+				(_, k) => dataStart + k
+			);
 			if (byteColumns.length > 1) out.push({ ...base, dataColumn: null, byteColumns });
 		}
 	}
 	return out;
 }
 
-function guessTimeUnit(texts: string[], hinted: TimeUnit | null): { unit: TimeUnit; epoch: boolean; why: string } {
+function guessTimeUnit(
+	texts: string[],
+	hinted: TimeUnit | null
+): { unit: TimeUnit; epoch: boolean; why: string } {
 	const values = texts.map(parseTime).filter(Number.isFinite);
 	if (hinted && values.length === 0) return { unit: hinted, epoch: false, why: 'the column name' };
-	if (values.length === 0) return { unit: 's', epoch: false, why: 'the canonical layout (no rows to judge by)' };
+	if (values.length === 0)
+		return { unit: 's', epoch: false, why: 'the canonical layout (no rows to judge by)' };
 	const first = values[0];
 	if (hinted) {
 		const seconds = first * { s: 1, ms: 1e-3, us: 1e-6 }[hinted];
@@ -107,10 +155,14 @@ function guessTimeUnit(texts: string[], hinted: TimeUnit | null): { unit: TimeUn
 		return { unit: hinted, epoch: seconds > 1e8, why: 'the column name' };
 	}
 	// Unix epoch times of years 2001–2286 in s, ms or µs have these magnitudes.
-	if (first >= 1e9 && first < 1e10) return { unit: 's', epoch: true, why: 'the size of the values' };
-	if (first >= 1e12 && first < 1e13) return { unit: 'ms', epoch: true, why: 'the size of the values' };
-	if (first >= 1e15 && first < 1e16) return { unit: 'us', epoch: true, why: 'the size of the values' };
-	if (texts.some((t) => /[.,]\d/.test(t))) return { unit: 's', epoch: false, why: 'the decimal fractions' };
+	if (first >= 1e9 && first < 1e10)
+		return { unit: 's', epoch: true, why: 'the size of the values' };
+	if (first >= 1e12 && first < 1e13)
+		return { unit: 'ms', epoch: true, why: 'the size of the values' };
+	if (first >= 1e15 && first < 1e16)
+		return { unit: 'us', epoch: true, why: 'the size of the values' };
+	if (texts.some((t) => /[.,]\d/.test(t)))
+		return { unit: 's', epoch: false, why: 'the decimal fractions' };
 	// Whole numbers: frames at least ~44 µs apart even at 1 Mbit/s (ISO 11898-1 minimum frame of
 	// 44 bits), so a typical gap of 40 or more is microseconds; a few units is milliseconds.
 	const gaps = values
@@ -124,8 +176,17 @@ function guessTimeUnit(texts: string[], hinted: TimeUnit | null): { unit: TimeUn
 		: { unit: 'ms', epoch: false, why: `whole numbers about ${median} apart` };
 }
 
-const DELIMITER_NAMES: Record<string, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', '|': 'vertical bar' };
-const UNIT_NAMES: Record<TimeUnit, string> = { s: 'seconds', ms: 'milliseconds', us: 'microseconds' };
+const DELIMITER_NAMES: Record<string, string> = {
+	',': 'comma',
+	';': 'semicolon',
+	'\t': 'tab',
+	'|': 'vertical bar'
+};
+const UNIT_NAMES: Record<TimeUnit, string> = {
+	s: 'seconds',
+	ms: 'milliseconds',
+	us: 'microseconds'
+};
 
 /** Reads the first rows of `sample` (whole lines) and returns the most likely layout. */
 export function detectCaptureLayout(sample: string): LayoutGuess {
@@ -135,7 +196,8 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 		delimitersToGuess: [...CAPTURE_DELIMITERS]
 	});
 	const rows = parsed.data;
-	if (rows.length === 0) throw new CaptureFormatError('The capture is empty: it has no rows to read.');
+	if (rows.length === 0)
+		throw new CaptureFormatError('The capture is empty: it has no rows to read.');
 	const delimiter = (CAPTURE_DELIMITERS as readonly string[]).includes(parsed.meta.delimiter)
 		? (parsed.meta.delimiter as CaptureLayout['delimiter'])
 		: ',';
@@ -148,7 +210,12 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 	// A named ID column is hex (the canonical layout) unless its name says decimal; unnamed, try both.
 	let idFormats: CaptureLayout['idFormat'][] = ['hex', 'decimal'];
 	const header = hasHeader ? mapHeader(rows[0]) : null;
-	if (header && header.time !== null && header.id !== null && (header.data !== null || header.bytes.length > 0)) {
+	if (
+		header &&
+		header.time !== null &&
+		header.id !== null &&
+		(header.data !== null || header.bytes.length > 0)
+	) {
 		candidates = [
 			{
 				timeColumn: header.time,
@@ -161,7 +228,9 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 		];
 		hintedUnit = header.timeUnit;
 		idFormats = [header.idDecimal ? 'decimal' : 'hex'];
-		notes.push(`Header row: yes; columns found by name (${rows[0].map((h) => h.trim()).join(', ')}).`);
+		notes.push(
+			`Header row: yes; columns found by name (${rows[0].map((h) => h.trim()).join(', ')}).`
+		);
 	} else {
 		if (dataRows.length === 0) {
 			throw new CaptureFormatError(
@@ -175,7 +244,11 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 			);
 		}
 		candidates = positionalCandidates(columnCount);
-		notes.push(hasHeader ? 'Header row: yes, but its names were not recognised; columns guessed from their contents.' : 'Header row: none; columns guessed from their contents.');
+		notes.push(
+			hasHeader
+				? 'Header row: yes, but its names were not recognised; columns guessed from their contents.'
+				: 'Header row: none; columns guessed from their contents.'
+		);
 	}
 
 	// Score every candidate (and both ID notations) by how many sample rows it reads; first wins ties.
@@ -185,7 +258,15 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 	let best: { layout: CaptureLayout; score: number; firstProblem: string | null } | null = null;
 	for (const columns of candidates) {
 		for (const idFormat of idFormats) {
-			const layout: CaptureLayout = { delimiter, hasHeader, ...columns, timeUnit: time.unit, epochTime: time.epoch, idFormat, dlcMeaning: 'either' };
+			const layout: CaptureLayout = {
+				delimiter,
+				hasHeader,
+				...columns,
+				timeUnit: time.unit,
+				epochTime: time.epoch,
+				idFormat,
+				dlcMeaning: 'either'
+			};
 			const parse = createRowParser(layout);
 			let score = 0;
 			let firstProblem: string | null = null;
@@ -209,13 +290,17 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 		layout.extendedColumn === null
 			? 'Extended flag: no column; IDs above 0x7FF are taken as extended (29-bit).'
 			: `Extended flag: column ${layout.extendedColumn + 1}.`,
-		layout.dlcColumn === null ? 'DLC: no column; the data decides the length.' : `DLC: column ${layout.dlcColumn + 1}.`,
+		layout.dlcColumn === null
+			? 'DLC: no column; the data decides the length.'
+			: `DLC: column ${layout.dlcColumn + 1}.`,
 		layout.dataColumn !== null
 			? `Data: column ${layout.dataColumn + 1}, hex bytes.`
 			: `Data: one byte per column, columns ${layout.byteColumns[0] + 1}–${layout.byteColumns[layout.byteColumns.length - 1] + 1}.`
 	);
 	if (dataRows.length > 0 && best.score < dataRows.length) {
-		notes.push(`${dataRows.length - best.score} of the ${dataRows.length} sample rows do not fit this layout (first: ${best.firstProblem}).`);
+		notes.push(
+			`${dataRows.length - best.score} of the ${dataRows.length} sample rows do not fit this layout (first: ${best.firstProblem}).`
+		);
 	}
 	return { layout, notes };
 }

@@ -19,10 +19,17 @@ import {
 import { FrameStore } from './frame-store';
 import { ingestCapture } from './ingest';
 
-const fixture = (name: string) => readFile(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
+const fixture = (name: string) =>
+	readFile(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
 const text = (chunks: Iterable<string>) => [...chunks].join('');
 
-function channel(frameName: string, signalName: string, unit: string, time: number[], value: number[]): ExportChannel {
+function channel(
+	frameName: string,
+	signalName: string,
+	unit: string,
+	time: number[],
+	value: number[]
+): ExportChannel {
 	return {
 		info: { index: 0, frameIndex: 0, frameName, signalName, unit, min: null, max: null },
 		time: Float64Array.from(time),
@@ -40,7 +47,15 @@ function expectSameFrames(a: FrameStore, b: FrameStore) {
 }
 
 // ISO 11898-1 CAN FD data length codes: 0–8 bytes are codes 0–8; 12, 16, 20, 24, 32, 48, 64 bytes are 9–15.
-const FD_LENGTHS: [number, number][] = [[12, 9], [16, 10], [20, 11], [24, 12], [32, 13], [48, 14], [64, 15]];
+const FD_LENGTHS: [number, number][] = [
+	[12, 9],
+	[16, 10],
+	[20, 11],
+	[24, 12],
+	[32, 13],
+	[48, 14],
+	[64, 15]
+];
 
 describe('canonicalCaptureCsv', () => {
 	it('reads back through the importer as the same frames, CAN FD lengths and extended IDs included', async () => {
@@ -89,7 +104,8 @@ describe('longFormCsv', () => {
 		expect(records[0].fields).toEqual(['time', 'frame', 'signal', 'value', 'unit']);
 		const rows = records.slice(1).map((r) => r.fields);
 		expect(rows.length).toBe(channels.reduce((sum, c) => sum + c.count, 0));
-		for (let j = 1; j < rows.length; j++) expect(Number(rows[j][0])).toBeGreaterThanOrEqual(Number(rows[j - 1][0]));
+		for (let j = 1; j < rows.length; j++)
+			expect(Number(rows[j][0])).toBeGreaterThanOrEqual(Number(rows[j - 1][0]));
 
 		const byChannel = new Map<string, string[][]>();
 		for (const row of rows) {
@@ -110,13 +126,27 @@ describe('longFormCsv', () => {
 		const csv = text(longFormCsv([c]));
 		// RFC 4180 §2.6–2.7: fields with commas, quotes or line breaks are enclosed in double quotes;
 		// a double quote inside is written twice.
-		expect(csv).toBe('time,frame,signal,value,unit\n0.5,"Body, rear","Say ""hi""",-1.25,"two\nlines"\n');
-		expect(readCsvRecords(csv)[1].fields).toEqual(['0.5', 'Body, rear', 'Say "hi"', '-1.25', 'two\nlines']);
+		expect(csv).toBe(
+			'time,frame,signal,value,unit\n0.5,"Body, rear","Say ""hi""",-1.25,"two\nlines"\n'
+		);
+		expect(readCsvRecords(csv)[1].fields).toEqual([
+			'0.5',
+			'Body, rear',
+			'Say "hi"',
+			'-1.25',
+			'two\nlines'
+		]);
 	});
 
 	it('streams in bounded chunks instead of one string', () => {
 		const n = 50_000;
-		const c = channel('F', 'S', 'u', Array.from({ length: n }, (_, i) => i / 1000), Array.from({ length: n }, (_, i) => i * 0.1));
+		const c = channel(
+			'F',
+			'S',
+			'u',
+			Array.from({ length: n }, (_, i) => i / 1000),
+			Array.from({ length: n }, (_, i) => i * 0.1)
+		);
 		const chunks = [...longFormCsv([c])];
 		expect(chunks.length).toBeGreaterThan(5);
 		expect(Math.max(...chunks.map((s) => s.length))).toBeLessThan(70_000);
@@ -144,17 +174,25 @@ describe('wideFormCsv', () => {
 	it('writes row times without binary noise and honours from/to', () => {
 		const c = channel('F', 'S', '', [0, 0.3], [5, 6]);
 		// 3 × 0.1 is 0.30000000000000004 in binary floating point; the row is written (and compared) as 0.3.
-		expect(text(wideFormCsv([c], { interval: 0.1, mode: 'last' }))).toBe('time,F.S\n0,5\n0.1,5\n0.2,5\n0.3,6\n');
-		expect(text(wideFormCsv([c], { interval: 0.1, mode: 'last', from: 0.2, to: 0.35 }))).toBe('time,F.S\n0.2,5\n0.3,6\n');
+		expect(text(wideFormCsv([c], { interval: 0.1, mode: 'last' }))).toBe(
+			'time,F.S\n0,5\n0.1,5\n0.2,5\n0.3,6\n'
+		);
+		expect(text(wideFormCsv([c], { interval: 0.1, mode: 'last', from: 0.2, to: 0.35 }))).toBe(
+			'time,F.S\n0.2,5\n0.3,6\n'
+		);
 	});
 
 	it('refuses a non-positive interval and an interval that would make too many rows', () => {
 		expect(() => text(wideFormCsv([a], { interval: 0, mode: 'last' }))).toThrow(/positive/);
-		expect(() => text(wideFormCsv([a], { interval: 1 / MAX_WIDE_ROWS / 2, mode: 'last' }))).toThrow(/longer interval/);
+		expect(() => text(wideFormCsv([a], { interval: 1 / MAX_WIDE_ROWS / 2, mode: 'last' }))).toThrow(
+			/longer interval/
+		);
 	});
 
 	it('gives the header alone when no channel has samples', () => {
-		expect(text(wideFormCsv([channel('F', 'S', 'V', [], [])], { interval: 1, mode: 'mean' }))).toBe('time,F.S [V]\n');
+		expect(text(wideFormCsv([channel('F', 'S', 'V', [], [])], { interval: 1, mode: 'mean' }))).toBe(
+			'time,F.S [V]\n'
+		);
 	});
 });
 
@@ -168,10 +206,12 @@ describe('csvByteStream', () => {
 
 describe('captureExportFileName', () => {
 	it('puts the map and revision into decoded exports’ names', () => {
-		expect(captureExportFileName('Lap 3 (wet)', 'long', { mapName: 'Engine Map', revision: 'r2' })).toBe(
-			'lap-3-wet.long.engine-map-r2.csv'
-		);
-		expect(captureExportFileName('Lap 3', 'wide', { mapName: 'Engine Map', revision: 'draft' })).toBe('lap-3.wide.engine-map-draft.csv');
+		expect(
+			captureExportFileName('Lap 3 (wet)', 'long', { mapName: 'Engine Map', revision: 'r2' })
+		).toBe('lap-3-wet.long.engine-map-r2.csv');
+		expect(
+			captureExportFileName('Lap 3', 'wide', { mapName: 'Engine Map', revision: 'draft' })
+		).toBe('lap-3.wide.engine-map-draft.csv');
 		expect(captureExportFileName('../../etc', 'frames')).toBe('etc.frames.csv');
 		expect(() => captureExportFileName('Lap 3', 'long')).toThrow(/map and revision/);
 	});

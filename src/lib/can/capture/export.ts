@@ -40,7 +40,9 @@ export const LONG_FORM_HEADER = 'time,frame,signal,value,unit';
  * merge over a binary heap); samples at the same time keep the channels' order (the map's order).
  */
 export function* longFormCsv(channels: readonly ExportChannel[]): Generator<string> {
-	const middle = channels.map((c) => `,${csvField(c.info.frameName)},${csvField(c.info.signalName)},`);
+	const middle = channels.map(
+		(c) => `,${csvField(c.info.frameName)},${csvField(c.info.signalName)},`
+	);
 	const tail = channels.map((c) => `,${csvField(c.info.unit)}\n`);
 	const next = new Uint32Array(channels.length); // each channel's next sample
 	// Heap of channel indices ordered by (next sample's time, channel index).
@@ -110,10 +112,15 @@ export function wideColumnName(info: ExportChannel['info']): string {
 }
 
 /** One column per channel, resampled on a fixed interval (see WideFormOptions for the two modes). */
-export function* wideFormCsv(channels: readonly ExportChannel[], options: WideFormOptions): Generator<string> {
+export function* wideFormCsv(
+	channels: readonly ExportChannel[],
+	options: WideFormOptions
+): Generator<string> {
 	const { interval, mode } = options;
 	if (!(interval > 0) || !Number.isFinite(interval)) {
-		throw new RangeError(`the resampling interval must be a positive number of seconds, got ${interval}`);
+		throw new RangeError(
+			`the resampling interval must be a positive number of seconds, got ${interval}`
+		);
 	}
 	const withSamples = channels.filter((c) => c.time.length > 0);
 	const from = options.from ?? Math.min(...withSamples.map((c) => c.time[0]));
@@ -160,7 +167,9 @@ export function* wideFormCsv(channels: readonly ExportChannel[], options: WideFo
 	yield* chunked(rows());
 }
 
-const HEX_BYTE = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
+const HEX_BYTE = Array.from({ length: 256 }, (_, b) =>
+	b.toString(16).toUpperCase().padStart(2, '0')
+);
 
 /**
  * The raw frames in the canonical layout `time,id,extended,dlc,data`: time in seconds from the
@@ -174,8 +183,12 @@ export function* canonicalCaptureCsv(store: FrameStore): Generator<string> {
 		for (let i = 0; i < store.count; i++) {
 			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
 			let bytes = '';
-			for (let b = dataOffset[i], end = b + length[i]; b < end; b++) bytes += (bytes ? ' ' : '') + HEX_BYTE[data[b]];
-			const idHex = id[i].toString(16).toUpperCase().padStart(extended ? 8 : 3, '0');
+			for (let b = dataOffset[i], end = b + length[i]; b < end; b++)
+				bytes += (bytes ? ' ' : '') + HEX_BYTE[data[b]];
+			const idHex = id[i]
+				.toString(16)
+				.toUpperCase()
+				.padStart(extended ? 8 : 3, '0');
 			yield `${String(time[i])},${idHex},${extended ? 1 : 0},${lengthToDlc(length[i])},${bytes}\n`;
 		}
 	}
@@ -214,7 +227,11 @@ export function captureExportFileName(
 	kind: CaptureExportKind,
 	decodedWith?: { mapName: string; revision: string }
 ): string {
-	if (kind !== 'frames' && !decodedWith) throw new Error(`a ${kind}-form export must name the map and revision it was decoded with`);
-	const map = kind === 'frames' || !decodedWith ? '' : `.${fileNamePart(decodedWith.mapName)}-${fileNamePart(decodedWith.revision)}`;
+	if (kind !== 'frames' && !decodedWith)
+		throw new Error(`a ${kind}-form export must name the map and revision it was decoded with`);
+	const map =
+		kind === 'frames' || !decodedWith
+			? ''
+			: `.${fileNamePart(decodedWith.mapName)}-${fileNamePart(decodedWith.revision)}`;
 	return `${fileNamePart(captureName)}.${kind}${map}.csv`;
 }

@@ -140,10 +140,13 @@ export class FrameStore implements FrameSink {
 			throw new Error(`not a stored capture: ${bytes.byteLength} bytes is shorter than the header`);
 		}
 		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-		if (view.getUint32(0, true) !== MAGIC) throw new Error('not a stored capture: wrong magic number');
+		if (view.getUint32(0, true) !== MAGIC)
+			throw new Error('not a stored capture: wrong magic number');
 		const version = view.getUint32(4, true);
 		if (version !== FORMAT_VERSION) {
-			throw new Error(`stored capture format ${version} is not supported (expected ${FORMAT_VERSION})`);
+			throw new Error(
+				`stored capture format ${version} is not supported (expected ${FORMAT_VERSION})`
+			);
 		}
 		const n = view.getUint32(8, true);
 		const dataBytes = view.getUint32(12, true);

@@ -110,7 +110,9 @@ export function surveyIds(store: FrameStore, compiled: CompiledMap): IdSurvey {
 		}
 	}
 
-	const sorted = [...tallies.values()].sort((a, b) => Number(a.extended) - Number(b.extended) || a.id - b.id);
+	const sorted = [...tallies.values()].sort(
+		(a, b) => Number(a.extended) - Number(b.extended) || a.id - b.id
+	);
 	const ids = sorted.map((t): IdStatistics => {
 		const frame = t.unknown ? undefined : compiled.lookup(t.id, t.extended);
 		const gaps = t.count - 1;

@@ -51,7 +51,9 @@ describe('capture ingest: layout variants', () => {
 	});
 
 	it('reads millisecond timestamps named in the header', async () => {
-		const { list, layout } = await frames('time_ms,id,dlc,data\n0,100,1,01\n12.5,100,1,02\n1000,100,1,03\n');
+		const { list, layout } = await frames(
+			'time_ms,id,dlc,data\n0,100,1,01\n12.5,100,1,02\n1000,100,1,03\n'
+		);
 		expect(layout.timeUnit).toBe('ms');
 		expect(list.map((f) => f.time)).toEqual([0, 0.0125, 1]);
 	});
@@ -65,7 +67,10 @@ describe('capture ingest: layout variants', () => {
 	it('guesses microseconds from whole-number gaps without a header', async () => {
 		// Gaps of 230 whole units: far below the ~44 µs minimum frame (ISO 11898-1, 44 bits at
 		// 1 Mbit/s, from memory) if they were nanoseconds-scale, and too busy for milliseconds.
-		const rows = Array.from({ length: 10 }, (_, i) => `${1000 + 230 * i},${(0x100 + i).toString(16)},0,1,0${i}`);
+		const rows = Array.from(
+			{ length: 10 },
+			(_, i) => `${1000 + 230 * i},${(0x100 + i).toString(16)},0,1,0${i}`
+		);
 		const { layout, list, layoutNotes } = await frames(rows.join('\n'));
 		expect(layout.hasHeader).toBe(false);
 		expect(layout.timeUnit).toBe('us');
@@ -83,24 +88,33 @@ describe('capture ingest: layout variants', () => {
 		['seconds with decimals', '1718000000.250000', '1718000000.260000', 's', 1718000000.25],
 		['milliseconds', '1718000000250', '1718000000260', 'ms', 1718000000.25],
 		['microseconds', '1718000000250000', '1718000000260000', 'us', 1718000000.25]
-	])('turns absolute epoch %s into times relative to the first frame', async (_, t0, t1, unit, origin) => {
-		const { list, layout, timeOrigin, store } = await frames(`${t0},100,0,1,01\n${t1},100,0,1,02\n`);
-		expect(layout.epochTime).toBe(true);
-		expect(layout.timeUnit).toBe(unit);
-		expect(timeOrigin).toBeCloseTo(origin, 5);
-		expect(store.origin.epoch).toBe(true);
-		expect(list[0].time).toBe(0);
-		// A double near 1.7e9 s resolves about 0.24 µs (IEEE 754 binary64: 52-bit fraction), so 1e-6 is the honest tolerance.
-		expect(list[1].time).toBeCloseTo(0.01, 6);
-	});
+	])(
+		'turns absolute epoch %s into times relative to the first frame',
+		async (_, t0, t1, unit, origin) => {
+			const { list, layout, timeOrigin, store } = await frames(
+				`${t0},100,0,1,01\n${t1},100,0,1,02\n`
+			);
+			expect(layout.epochTime).toBe(true);
+			expect(layout.timeUnit).toBe(unit);
+			expect(timeOrigin).toBeCloseTo(origin, 5);
+			expect(store.origin.epoch).toBe(true);
+			expect(list[0].time).toBe(0);
+			// A double near 1.7e9 s resolves about 0.24 µs (IEEE 754 binary64: 52-bit fraction), so 1e-6 is the honest tolerance.
+			expect(list[1].time).toBeCloseTo(0.01, 6);
+		}
+	);
 
 	it('accepts 0x prefixes on IDs', async () => {
-		const { list } = await frames('time,id,extended,dlc,data\n0,0x1A0,0,1,FF\n0.1,0X18DAF110,1,1,00\n');
+		const { list } = await frames(
+			'time,id,extended,dlc,data\n0,0x1A0,0,1,FF\n0.1,0X18DAF110,1,1,00\n'
+		);
 		expect(list.map((f) => f.id)).toEqual([0x1a0, 0x18daf110]);
 	});
 
 	it('infers the extended flag when the column is missing (ID > 0x7FF ⇒ extended)', async () => {
-		const { list, layout } = await frames('time,id,dlc,data\n0,7FF,1,01\n0.1,800,1,02\n0.2,1FFFFFFF,1,03\n');
+		const { list, layout } = await frames(
+			'time,id,dlc,data\n0,7FF,1,01\n0.1,800,1,02\n0.2,1FFFFFFF,1,03\n'
+		);
 		expect(layout.extendedColumn).toBeNull();
 		expect(list.map((f) => f.extended)).toEqual([false, true, true]);
 	});
@@ -109,7 +123,11 @@ describe('capture ingest: layout variants', () => {
 		['semicolon', ';'],
 		['tab', '\t']
 	])('detects a %s delimiter', async (_, d) => {
-		const csv = ['time', 'id', 'extended', 'dlc', 'data'].join(d) + '\n' + ['0.1', '123', '0', '2', '12 34'].join(d) + '\n';
+		const csv =
+			['time', 'id', 'extended', 'dlc', 'data'].join(d) +
+			'\n' +
+			['0.1', '123', '0', '2', '12 34'].join(d) +
+			'\n';
 		const { list, layout } = await frames(csv);
 		expect(layout.delimiter).toBe(d);
 		expect(list).toEqual([{ time: 0, id: 0x123, extended: false, data: [0x12, 0x34] }]);
@@ -131,8 +149,12 @@ describe('capture ingest: layout variants', () => {
 		[14, 48],
 		[15, 64]
 	])('reads CAN FD DLC %i as %i bytes', async (dlc, bytes) => {
-		const hex = Array.from({ length: bytes }, (_, i) => (i & 0xff).toString(16).padStart(2, '0')).join('');
-		const { list, badRows, store } = await frames(`time,id,extended,dlc,data\n0,100,0,${dlc},${hex}\n`);
+		const hex = Array.from({ length: bytes }, (_, i) =>
+			(i & 0xff).toString(16).padStart(2, '0')
+		).join('');
+		const { list, badRows, store } = await frames(
+			`time,id,extended,dlc,data\n0,100,0,${dlc},${hex}\n`
+		);
 		expect(badRows).toEqual([]);
 		expect(list[0].data).toHaveLength(bytes);
 		expect(store.flags[0] & 2).toBe(2); // FD flag: payload longer than 8 bytes
@@ -145,7 +167,9 @@ describe('capture ingest: layout variants', () => {
 	});
 
 	it('reads Windows line endings and a byte-order mark', async () => {
-		const { list } = await frames('\ufefftime,id,extended,dlc,data\r\n0,100,0,1,AB\r\n0.1,101,0,1,CD\r\n');
+		const { list } = await frames(
+			'\ufefftime,id,extended,dlc,data\r\n0,100,0,1,AB\r\n0.1,101,0,1,CD\r\n'
+		);
 		expect(list.map((f) => [f.id, f.data[0]])).toEqual([
 			[0x100, 0xab],
 			[0x101, 0xcd]
@@ -162,8 +186,16 @@ describe('capture ingest: layout variants', () => {
 
 describe('capture ingest: layouts without a header', () => {
 	it('finds flag, DLC and byte columns by content', async () => {
-		const { layout, list } = await frames('0.000100;18FF1027;1;3;9E;0F;F4\n0.000200;100;0;2;01;02;\n');
-		expect(layout).toMatchObject({ delimiter: ';', hasHeader: false, extendedColumn: 2, dlcColumn: 3, byteColumns: [4, 5, 6] });
+		const { layout, list } = await frames(
+			'0.000100;18FF1027;1;3;9E;0F;F4\n0.000200;100;0;2;01;02;\n'
+		);
+		expect(layout).toMatchObject({
+			delimiter: ';',
+			hasHeader: false,
+			extendedColumn: 2,
+			dlcColumn: 3,
+			byteColumns: [4, 5, 6]
+		});
 		expect(list.map((f) => f.data)).toEqual([
 			[0x9e, 0x0f, 0xf4],
 			[1, 2]
@@ -172,7 +204,9 @@ describe('capture ingest: layouts without a header', () => {
 
 	it('rejects a hand-corrected layout that names no data column', async () => {
 		const layout = { ...CANONICAL_LAYOUT, dataColumn: null };
-		await expect(ingestCapture('0,100,0,1,01\n', { layout })).rejects.toThrow(/layout is not valid: dataColumn/);
+		await expect(ingestCapture('0,100,0,1,01\n', { layout })).rejects.toThrow(
+			/layout is not valid: dataColumn/
+		);
 	});
 });
 
@@ -231,7 +265,9 @@ describe('capture ingest: bad input', () => {
 	});
 
 	it('notes times that go backwards but keeps the rows', async () => {
-		const result = await ingestCapture('time,id,dlc,data\n0.2,100,1,01\n0.1,100,1,02\n0.3,100,1,03\n');
+		const result = await ingestCapture(
+			'time,id,dlc,data\n0.2,100,1,01\n0.1,100,1,02\n0.3,100,1,03\n'
+		);
 		expect(result.frameCount).toBe(3);
 		expect(result.backwardsTimeCount).toBe(1);
 		expect(result.firstBackwardsLine).toBe(3);
@@ -260,6 +296,8 @@ describe('capture ingest: bad input', () => {
 	});
 
 	it('explains a file whose columns cannot be recognised', async () => {
-		await expect(ingestCapture('hello,world\nfoo,bar\n')).rejects.toThrow(/Could not recognise|at least a time/);
+		await expect(ingestCapture('hello,world\nfoo,bar\n')).rejects.toThrow(
+			/Could not recognise|at least a time/
+		);
 	});
 });

@@ -16,10 +16,7 @@ import { createParsedRow, createRowParser, type ParsedRow } from './row-parser';
 
 export type CaptureChunk = string | Uint8Array;
 export type CaptureSource =
-	| string
-	| ReadableStream<CaptureChunk>
-	| AsyncIterable<CaptureChunk>
-	| Iterable<CaptureChunk>;
+	string | ReadableStream<CaptureChunk> | AsyncIterable<CaptureChunk> | Iterable<CaptureChunk>;
 
 export interface BadRow {
 	/** 1-based line number in the file. */
@@ -67,11 +64,13 @@ function isReadableStream(source: unknown): source is ReadableStream<CaptureChun
 /** Decodes any supported source into text chunks (UTF-8, split multi-byte characters handled). */
 async function* textChunks(source: CaptureSource): AsyncGenerator<string> {
 	if (typeof source === 'string') {
-		for (let at = 0; at < source.length; at += PARSE_CHUNK_CHARS) yield source.slice(at, at + PARSE_CHUNK_CHARS);
+		for (let at = 0; at < source.length; at += PARSE_CHUNK_CHARS)
+			yield source.slice(at, at + PARSE_CHUNK_CHARS);
 		return;
 	}
 	const decoder = new TextDecoder('utf-8');
-	const text = (chunk: CaptureChunk) => (typeof chunk === 'string' ? chunk : decoder.decode(chunk, { stream: true }));
+	const text = (chunk: CaptureChunk) =>
+		typeof chunk === 'string' ? chunk : decoder.decode(chunk, { stream: true });
 	if (isReadableStream(source)) {
 		const reader = source.getReader();
 		try {
@@ -228,7 +227,8 @@ export async function ingestCaptureInto(
 		}
 		pending += text;
 		if (!parser) {
-			if (pending.length < SAMPLE_CHARS && countLines(pending, SAMPLE_ROWS + 2) < SAMPLE_ROWS + 2) continue;
+			if (pending.length < SAMPLE_CHARS && countLines(pending, SAMPLE_ROWS + 2) < SAMPLE_ROWS + 2)
+				continue;
 			start(pending, false);
 		}
 		if (pending.length < PARSE_CHUNK_CHARS) continue;
@@ -248,7 +248,11 @@ export async function ingestCaptureInto(
 	const finalLayout = layout as unknown as CaptureLayout;
 	const warnings: string[] = [];
 	if (frameCount === 0) {
-		warnings.push(badRowCount > 0 ? 'No row could be read as a frame.' : 'The capture has no frames (header only or empty).');
+		warnings.push(
+			badRowCount > 0
+				? 'No row could be read as a frame.'
+				: 'The capture has no frames (header only or empty).'
+		);
 	}
 	if (badRowCount > 0) {
 		warnings.push(

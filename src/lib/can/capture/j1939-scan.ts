@@ -38,14 +38,25 @@ export interface J1939Scan {
 	dm1: Dm1Message[];
 	troubleCodes: ActiveTroubleCode[];
 	/** Reassembled messages with their bytes (at most 1785 each, SAE J1939-21), so a view can show them. */
-	transportMessages: { time: number; pgn: number; sourceAddress: number; length: number; data: Uint8Array }[];
+	transportMessages: {
+		time: number;
+		pgn: number;
+		sourceAddress: number;
+		length: number;
+		data: Uint8Array;
+	}[];
 	transportProblems: TransportProblem[];
 }
 
 const MAX_LISTED = 10_000;
 
 export function scanJ1939(store: FrameStore): J1939Scan {
-	const scan: J1939Scan = { dm1: [], troubleCodes: [], transportMessages: [], transportProblems: [] };
+	const scan: J1939Scan = {
+		dm1: [],
+		troubleCodes: [],
+		transportMessages: [],
+		transportProblems: []
+	};
 	const codes = new Map<string, ActiveTroubleCode>();
 	const reassembler = createTransportReassembler({
 		onProblem: (p) => {
@@ -53,9 +64,15 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 		}
 	});
 
-	const recordDm1 = (time: number, sourceAddress: number, payload: Uint8Array, viaTransport: boolean) => {
+	const recordDm1 = (
+		time: number,
+		sourceAddress: number,
+		payload: Uint8Array,
+		viaTransport: boolean
+	) => {
 		const { lamps, troubleCodes } = parseDm1(payload);
-		if (scan.dm1.length < MAX_LISTED) scan.dm1.push({ time, sourceAddress, viaTransport, lamps, troubleCodes });
+		if (scan.dm1.length < MAX_LISTED)
+			scan.dm1.push({ time, sourceAddress, viaTransport, lamps, troubleCodes });
 		for (const code of troubleCodes) {
 			const key = `${sourceAddress}:${code.spn}:${code.fmi}`;
 			const known = codes.get(key);
@@ -64,7 +81,15 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 				known.reports++;
 				known.occurrenceCount = code.occurrenceCount;
 			} else {
-				codes.set(key, { sourceAddress, spn: code.spn, fmi: code.fmi, occurrenceCount: code.occurrenceCount, firstTime: time, lastTime: time, reports: 1 });
+				codes.set(key, {
+					sourceAddress,
+					spn: code.spn,
+					fmi: code.fmi,
+					occurrenceCount: code.occurrenceCount,
+					firstTime: time,
+					lastTime: time,
+					reports: 1
+				});
 			}
 		}
 	};
@@ -87,7 +112,8 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 					data: message.data
 				});
 			}
-			if (message.pgn === PGN_DM1) recordDm1(message.time, message.sourceAddress, message.data, true);
+			if (message.pgn === PGN_DM1)
+				recordDm1(message.time, message.sourceAddress, message.data, true);
 		}
 	}
 	scan.troubleCodes = [...codes.values()];

@@ -27,7 +27,12 @@ describe('loadOverTime', () => {
 		}
 		const result = loadOverTime(store, 250_000, 0.1);
 		expect(result.fdFramesSkipped).toBe(6);
-		const expected = captureBusLoad(Float64Array.from(times), Float64Array.from(expectedBits), 250_000, 0.1);
+		const expected = captureBusLoad(
+			Float64Array.from(times),
+			Float64Array.from(expectedBits),
+			250_000,
+			0.1
+		);
 		expect(result.windows).toEqual(expected);
 		expect(result.peakPercent).toBe(Math.max(...expected.map((w) => w.percent)));
 	});

@@ -20,7 +20,11 @@ export interface LoadOverTime {
 /** Upper bound on windows returned, so a long capture still gives a chart-sized series. */
 const MAX_WINDOWS = 10_000;
 
-export function loadOverTime(store: FrameStore, bitrate: number, windowSeconds = 0.1): LoadOverTime {
+export function loadOverTime(
+	store: FrameStore,
+	bitrate: number,
+	windowSeconds = 0.1
+): LoadOverTime {
 	const times = store.time;
 	const ids = store.id;
 	const flags = store.flags;
@@ -40,7 +44,13 @@ export function loadOverTime(store: FrameStore, bitrate: number, windowSeconds =
 			continue;
 		}
 		// Straight from the payload pool: no view per frame.
-		bits[i] = frameBusBitsAt(ids[i], (flags[i] & FLAG_EXTENDED) !== 0, pool, offsets[i], lengths[i]);
+		bits[i] = frameBusBitsAt(
+			ids[i],
+			(flags[i] & FLAG_EXTENDED) !== 0,
+			pool,
+			offsets[i],
+			lengths[i]
+		);
 	}
 	const span = store.count ? last - first : 0;
 	const window = Math.max(windowSeconds, span / MAX_WINDOWS);

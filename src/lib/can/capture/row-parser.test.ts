@@ -9,7 +9,9 @@ describe('parseTime', () => {
 		const rand = seededRandom(0x71e5);
 		for (let round = 0; round < 20000; round++) {
 			const whole = String(rand.int(0, 10 ** rand.int(0, 9)));
-			const fraction = Array.from({ length: rand.int(0, 15 - Math.min(whole.length, 15)) }, () => rand.int(0, 9)).join('');
+			const fraction = Array.from({ length: rand.int(0, 15 - Math.min(whole.length, 15)) }, () =>
+				rand.int(0, 9)
+			).join('');
 			const text = fraction ? `${whole}.${fraction}` : whole;
 			expect(Object.is(parseTime(text), Number(text))).toBe(true);
 		}

@@ -181,7 +181,11 @@ const FD_LENGTHS = new Set<number>(PAYLOAD_LENGTHS);
 export const isPayloadLength = (length: number): boolean => FD_LENGTHS.has(length);
 
 /** Checks the DLC column against the payload actually given (design.md: the data column decides). */
-export function dlcMatches(dlc: number, length: number, meaning: CaptureLayout['dlcMeaning']): boolean {
+export function dlcMatches(
+	dlc: number,
+	length: number,
+	meaning: CaptureLayout['dlcMeaning']
+): boolean {
 	const asCode = dlc <= 15 && dlcToLength(dlc) === length;
 	if (meaning === 'code') return asCode;
 	if (meaning === 'bytes') return dlc === length;
@@ -190,7 +194,13 @@ export function dlcMatches(dlc: number, length: number, meaning: CaptureLayout['
 
 export function createRowParser(layout: CaptureLayout): RowParser {
 	const { timeColumn, idColumn, extendedColumn, dlcColumn, dataColumn, byteColumns } = layout;
-	const needed = Math.max(timeColumn, idColumn, extendedColumn ?? 0, dlcColumn ?? 0, dataColumn ?? 0);
+	const needed = Math.max(
+		timeColumn,
+		idColumn,
+		extendedColumn ?? 0,
+		dlcColumn ?? 0,
+		dataColumn ?? 0
+	);
 
 	return (fields, out) => {
 		if (fields.length <= needed) {
@@ -237,7 +247,8 @@ export function createRowParser(layout: CaptureLayout): RowParser {
 				if (field.length === 0) break;
 				const a = hexDigit(field.charCodeAt(0));
 				const b = field.length === 2 ? hexDigit(field.charCodeAt(1)) : 0;
-				if (field.length > 2 || a < 0 || b < 0) return `data byte ${k} "${field}" is not a hex byte`;
+				if (field.length > 2 || a < 0 || b < 0)
+					return `data byte ${k} "${field}" is not a hex byte`;
 				out.data[length++] = field.length === 2 ? a * 16 + b : a;
 			}
 		}

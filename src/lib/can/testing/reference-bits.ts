@@ -19,11 +19,15 @@ export function referencePositions(startBit: number, length: number, order: Byte
 	return out;
 }
 
-export function referenceExtract(data: Uint8Array, startBit: number, length: number, order: ByteOrder): bigint {
+export function referenceExtract(
+	data: Uint8Array,
+	startBit: number,
+	length: number,
+	order: ByteOrder
+): bigint {
 	let value = '';
 	for (const p of referencePositions(startBit, length, order)) {
-		value = String((data[Math.floor(p / 8)] >> p % 8) & 1) + value; // build MSB-first bit string
+		value = String((data[Math.floor(p / 8)] >> (p % 8)) & 1) + value; // build MSB-first bit string
 	}
 	return BigInt('0b' + value);
 }
-

@@ -13,7 +13,12 @@ export function referenceFrameBits(
 	const field = (value: number, width: number) => value.toString(2).padStart(width, '0');
 	const header = extended
 		? // SOF, base ID (top 11 bits), SRR=1, IDE=1, 18-bit extension, RTR=0, r1=0, r0=0, DLC
-			'0' + field(Math.floor(id / 2 ** 18), 11) + '11' + field(id % 2 ** 18, 18) + '000' + field(data.length, 4)
+			'0' +
+			field(Math.floor(id / 2 ** 18), 11) +
+			'11' +
+			field(id % 2 ** 18, 18) +
+			'000' +
+			field(data.length, 4)
 		: // SOF, 11-bit ID, RTR=0, IDE=0, r0=0, DLC
 			'0' + field(id, 11) + '000' + field(data.length, 4);
 	const body = header + Array.from(data, (b) => field(b, 8)).join('');

@@ -58,7 +58,9 @@ describe('bitActivity', () => {
 	});
 
 	it('gives zero fractions for a single frame (no chance to change)', () => {
-		expect(bitActivity([3, 0, 0, 0, 0, 0, 0, 0], 1, 1)[0].cells.every((c) => c.fraction === 0)).toBe(true);
+		expect(
+			bitActivity([3, 0, 0, 0, 0, 0, 0, 0], 1, 1)[0].cells.every((c) => c.fraction === 0)
+		).toBe(true);
 	});
 });
 

@@ -31,7 +31,11 @@ export function shadeOf(fraction: number): number {
 	return Math.min(SHADE_STEPS, Math.max(1, Math.ceil(fraction * SHADE_STEPS)));
 }
 
-export function bitActivity(bitChanges: readonly number[], maxLength: number, frameCount: number): ActivityRow[] {
+export function bitActivity(
+	bitChanges: readonly number[],
+	maxLength: number,
+	frameCount: number
+): ActivityRow[] {
 	const chances = Math.max(0, frameCount - 1);
 	const rows: ActivityRow[] = [];
 	for (let byte = 0; byte < maxLength; byte++) {

@@ -40,13 +40,23 @@ export function summarizeLoad(points: readonly LoadPoint[]): LoadSummary {
  * SVG `points` attribute for the line, x across [0, width], y down from `height` (0 %) to 0
  * (`yTop` %). Values above yTop are drawn at the top edge.
  */
-export function loadPolyline(points: readonly LoadPoint[], width: number, height: number, yTop: number): string {
+export function loadPolyline(
+	points: readonly LoadPoint[],
+	width: number,
+	height: number,
+	yTop: number
+): string {
 	if (points.length === 0) return '';
 	const t0 = points[0].start;
 	const span = points[points.length - 1].start - t0;
 	return points
 		.map((p, i) => {
-			const x = span > 0 ? ((p.start - t0) / span) * width : points.length > 1 ? (i / (points.length - 1)) * width : width / 2;
+			const x =
+				span > 0
+					? ((p.start - t0) / span) * width
+					: points.length > 1
+						? (i / (points.length - 1)) * width
+						: width / 2;
 			const y = height - (Math.min(p.percent, yTop) / yTop) * height;
 			return `${round(x)},${round(y)}`;
 		})

@@ -41,25 +41,52 @@ export function fetchSeries(
 	query: { decode: string; channel: number; points: number; from?: number; to?: number },
 	signal?: AbortSignal
 ): Promise<SeriesResponse> {
-	const params = new URLSearchParams({ decode: query.decode, channel: String(query.channel), points: String(query.points) });
+	const params = new URLSearchParams({
+		decode: query.decode,
+		channel: String(query.channel),
+		points: String(query.points)
+	});
 	if (query.from !== undefined) params.set('from', String(query.from));
 	if (query.to !== undefined) params.set('to', String(query.to));
 	const fetcher: typeof fetch = (input, init) => fetch(input, { ...init, signal });
 	return requestJson<SeriesResponse>(fetcher, 'GET', `${base(slug, captureId)}/series?${params}`);
 }
 
-export function fetchFrames(slug: string, captureId: string, query: { offset: number; limit: number; id?: string }): Promise<FramesResponse> {
+export function fetchFrames(
+	slug: string,
+	captureId: string,
+	query: { offset: number; limit: number; id?: string }
+): Promise<FramesResponse> {
 	const params = new URLSearchParams({ offset: String(query.offset), limit: String(query.limit) });
 	if (query.id) params.set('id', query.id);
 	return requestJson<FramesResponse>(fetch, 'GET', `${base(slug, captureId)}/frames?${params}`);
 }
 
-export function fetchFrameDetail(slug: string, captureId: string, index: number, decodeId: string): Promise<FrameDetail> {
-	return requestJson<FrameDetail>(fetch, 'GET', `${base(slug, captureId)}/frames/${index}?decode=${encodeURIComponent(decodeId)}`);
+export function fetchFrameDetail(
+	slug: string,
+	captureId: string,
+	index: number,
+	decodeId: string
+): Promise<FrameDetail> {
+	return requestJson<FrameDetail>(
+		fetch,
+		'GET',
+		`${base(slug, captureId)}/frames/${index}?decode=${encodeURIComponent(decodeId)}`
+	);
 }
 
-export function defineFrame(slug: string, captureId: string, body: { decode: string; id: number; extended: boolean }): Promise<DefineFrameResponse> {
-	return requestJson<DefineFrameResponse>(fetch, 'POST', `${base(slug, captureId)}/define-frame`, body, {
-		409: 'The map already defines this ID.'
-	});
+export function defineFrame(
+	slug: string,
+	captureId: string,
+	body: { decode: string; id: number; extended: boolean }
+): Promise<DefineFrameResponse> {
+	return requestJson<DefineFrameResponse>(
+		fetch,
+		'POST',
+		`${base(slug, captureId)}/define-frame`,
+		body,
+		{
+			409: 'The map already defines this ID.'
+		}
+	);
 }

@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { clampRange, MAX_POINTS, panRange, pointsForWidth, unionBounds, valueExtent, visibleMarkerSpans, zoomRange } from './plot-range';
+import {
+	clampRange,
+	MAX_POINTS,
+	panRange,
+	pointsForWidth,
+	unionBounds,
+	valueExtent,
+	visibleMarkerSpans,
+	zoomRange
+} from './plot-range';
 
 const bounds = { from: 0, to: 100 };
 
@@ -9,13 +18,16 @@ describe('zoomRange', () => {
 		{ range: { from: 20, to: 60 }, factor: 0.5, anchor: 30 },
 		{ range: { from: 20, to: 60 }, factor: 0.25, anchor: 55 },
 		{ range: { from: 10, to: 30 }, factor: 2, anchor: 20 }
-	])('keeps the anchor $anchor in place when zooming $range by $factor', ({ range, factor, anchor }) => {
-		const next = zoomRange(range, factor, bounds, anchor);
-		expect(next.to - next.from).toBeCloseTo((range.to - range.from) * factor, 12);
-		const before = (anchor - range.from) / (range.to - range.from);
-		const after = (anchor - next.from) / (next.to - next.from);
-		expect(after).toBeCloseTo(before, 12);
-	});
+	])(
+		'keeps the anchor $anchor in place when zooming $range by $factor',
+		({ range, factor, anchor }) => {
+			const next = zoomRange(range, factor, bounds, anchor);
+			expect(next.to - next.from).toBeCloseTo((range.to - range.from) * factor, 12);
+			const before = (anchor - range.from) / (range.to - range.from);
+			const after = (anchor - next.from) / (next.to - next.from);
+			expect(after).toBeCloseTo(before, 12);
+		}
+	);
 
 	it('never zooms out past the capture and never below the minimum span', () => {
 		expect(zoomRange({ from: 40, to: 60 }, 100, bounds)).toEqual(bounds);

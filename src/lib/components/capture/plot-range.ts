@@ -15,9 +15,13 @@ export const MIN_SPAN_SECONDS = 1e-6;
 export const MAX_POINTS = 10_000;
 
 /** Pulls a window back inside the bounds, keeping its width when it fits. */
-export function clampRange(range: TimeRange, bounds: TimeRange, minSpan = MIN_SPAN_SECONDS): TimeRange {
+export function clampRange(
+	range: TimeRange,
+	bounds: TimeRange,
+	minSpan = MIN_SPAN_SECONDS
+): TimeRange {
 	const boundSpan = bounds.to - bounds.from;
-	let span = Math.max(range.to - range.from, Math.min(minSpan, boundSpan));
+	const span = Math.max(range.to - range.from, Math.min(minSpan, boundSpan));
 	if (!(span < boundSpan)) return { ...bounds };
 	let from = range.from;
 	if (from < bounds.from) from = bounds.from;
@@ -29,7 +33,12 @@ export function clampRange(range: TimeRange, bounds: TimeRange, minSpan = MIN_SP
  * Zooms by `factor` (< 1 zooms in, > 1 out) around the time `anchor`, which keeps its place on
  * screen — the behaviour people expect from a wheel or pinch at the cursor.
  */
-export function zoomRange(range: TimeRange, factor: number, bounds: TimeRange, anchor = (range.from + range.to) / 2): TimeRange {
+export function zoomRange(
+	range: TimeRange,
+	factor: number,
+	bounds: TimeRange,
+	anchor = (range.from + range.to) / 2
+): TimeRange {
 	const from = anchor - (anchor - range.from) * factor;
 	const to = anchor + (range.to - anchor) * factor;
 	return clampRange({ from, to }, bounds);
@@ -49,7 +58,9 @@ export function pointsForWidth(cssWidth: number, devicePixelRatio = 1): number {
 
 export function sameRange(a: TimeRange, b: TimeRange, tolerance = 1e-12): boolean {
 	const scale = Math.max(1, Math.abs(a.from), Math.abs(a.to));
-	return Math.abs(a.from - b.from) <= tolerance * scale && Math.abs(a.to - b.to) <= tolerance * scale;
+	return (
+		Math.abs(a.from - b.from) <= tolerance * scale && Math.abs(a.to - b.to) <= tolerance * scale
+	);
 }
 
 /** Union of the time spans of several series, or null when none has a sample. */
@@ -75,7 +86,10 @@ export interface PlotMarker {
  * The part of each marker inside the visible window; a marker still active at the end of the
  * capture (endTime null) runs to the window's right edge. Markers wholly outside are dropped.
  */
-export function visibleMarkerSpans(markers: readonly PlotMarker[], range: TimeRange): (PlotMarker & { from: number; to: number })[] {
+export function visibleMarkerSpans(
+	markers: readonly PlotMarker[],
+	range: TimeRange
+): (PlotMarker & { from: number; to: number })[] {
 	const out: (PlotMarker & { from: number; to: number })[] = [];
 	for (const m of markers) {
 		const end = m.endTime ?? range.to;

@@ -2,9 +2,17 @@ import { describe, expect, it } from 'vitest';
 import { fieldBitPositions } from '$lib/can/bits';
 import { signalSchema, type ByteOrder, type SignalInput } from '$lib/can/map';
 import { seededRandom } from '$lib/can/testing/seeded-random';
-import { abbreviate, buildBitGrid, dragToField, nudgeField, signalHue, type GridCell } from './bit-grid-model';
+import {
+	abbreviate,
+	buildBitGrid,
+	dragToField,
+	nudgeField,
+	signalHue,
+	type GridCell
+} from './bit-grid-model';
 
-const signal = (input: Partial<SignalInput> & Pick<SignalInput, 'name' | 'startBit' | 'length'>) => signalSchema.parse(input);
+const signal = (input: Partial<SignalInput> & Pick<SignalInput, 'name' | 'startBit' | 'length'>) =>
+	signalSchema.parse(input);
 
 function cellAt(model: ReturnType<typeof buildBitGrid>, bit: number): GridCell {
 	for (const row of model.rows) for (const cell of row.cells) if (cell.bit === bit) return cell;
@@ -16,7 +24,8 @@ function ownedBits(model: ReturnType<typeof buildBitGrid>, index: number): numbe
 	const owned: { bit: number; valueBit: number }[] = [];
 	for (const row of model.rows)
 		for (const cell of row.cells)
-			for (const o of cell.owners) if (o.signal === index) owned.push({ bit: cell.bit, valueBit: o.valueBit });
+			for (const o of cell.owners)
+				if (o.signal === index) owned.push({ bit: cell.bit, valueBit: o.valueBit });
 	return owned.sort((a, b) => a.valueBit - b.valueBit).map((o) => o.bit);
 }
 
@@ -29,7 +38,10 @@ describe('buildBitGrid', () => {
 	});
 
 	it('little-endian: value bit i sits on payload bit startBit + i (design.md), LSB marked at startBit', () => {
-		const model = buildBitGrid({ length: 8, signals: [signal({ name: 'Rpm', startBit: 4, length: 12 })] });
+		const model = buildBitGrid({
+			length: 8,
+			signals: [signal({ name: 'Rpm', startBit: 4, length: 12 })]
+		});
 		expect(ownedBits(model, 0)).toEqual(Array.from({ length: 12 }, (_, i) => 4 + i));
 		expect(cellAt(model, 4).owners[0]).toMatchObject({ lsb: true, valueBit: 0 });
 		expect(cellAt(model, 15).owners[0]).toMatchObject({ msb: true, valueBit: 11, continues: null });
@@ -38,7 +50,10 @@ describe('buildBitGrid', () => {
 	});
 
 	it('big-endian: the design.md example (startBit 8, length 16) fills bytes 0–1 and continues into the byte before', () => {
-		const model = buildBitGrid({ length: 8, signals: [signal({ name: 'Boost', startBit: 8, length: 16, byteOrder: 'big' })] });
+		const model = buildBitGrid({
+			length: 8,
+			signals: [signal({ name: 'Boost', startBit: 8, length: 16, byteOrder: 'big' })]
+		});
 		// design.md: a big-endian field filling bytes k … k+m−1 has startBit = 8·(k+m−1); here k = 0, m = 2.
 		expect(ownedBits(model, 0)).toEqual([8, 9, 10, 11, 12, 13, 14, 15, 0, 1, 2, 3, 4, 5, 6, 7]);
 		expect(cellAt(model, 8).owners[0].lsb).toBe(true);
@@ -52,7 +67,10 @@ describe('buildBitGrid', () => {
 			const byteOrder: ByteOrder = random() < 0.5 ? 'little' : 'big';
 			const length = 1 + Math.floor(random() * 64);
 			const startBit = Math.floor(random() * 128);
-			const model = buildBitGrid({ length: 8, signals: [signal({ name: 'X', startBit, length, byteOrder })] });
+			const model = buildBitGrid({
+				length: 8,
+				signals: [signal({ name: 'X', startBit, length, byteOrder })]
+			});
 			expect(ownedBits(model, 0)).toEqual(fieldBitPositions(startBit, length, byteOrder));
 		}
 	});
@@ -109,12 +127,15 @@ describe('dragToField', () => {
 		{ k: 2, m: 1 },
 		{ k: 1, m: 4 },
 		{ k: 0, m: 8 }
-	])('big-endian drag over whole bytes $k…(k+$m−1) gives startBit 8·(k+m−1) (design.md)', ({ k, m }) => {
-		const msb = 8 * k + 7; // top-left cell: bit 7 of byte k
-		const lsb = 8 * (k + m - 1); // bottom-right cell: bit 0 of byte k+m−1
-		expect(dragToField(msb, lsb, 'big')).toEqual({ startBit: 8 * (k + m - 1), length: 8 * m });
-		expect(dragToField(lsb, msb, 'big')).toEqual({ startBit: 8 * (k + m - 1), length: 8 * m });
-	});
+	])(
+		'big-endian drag over whole bytes $k…(k+$m−1) gives startBit 8·(k+m−1) (design.md)',
+		({ k, m }) => {
+			const msb = 8 * k + 7; // top-left cell: bit 7 of byte k
+			const lsb = 8 * (k + m - 1); // bottom-right cell: bit 0 of byte k+m−1
+			expect(dragToField(msb, lsb, 'big')).toEqual({ startBit: 8 * (k + m - 1), length: 8 * m });
+			expect(dragToField(lsb, msb, 'big')).toEqual({ startBit: 8 * (k + m - 1), length: 8 * m });
+		}
+	);
 
 	it('the placed field covers exactly the dragged ends according to fieldBitPositions, for random drags', () => {
 		const random = seededRandom(77).next;
@@ -135,24 +156,57 @@ describe('dragToField', () => {
 
 describe('nudgeField', () => {
 	it('arrows move the start bit by a bit (←/→) or a byte (↑/↓) and stay inside the payload', () => {
-		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowLeft', false, 8)).toEqual({ startBit: 9, length: 4 });
-		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowRight', false, 8)).toEqual({ startBit: 7, length: 4 });
-		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowDown', false, 8)).toEqual({ startBit: 16, length: 4 });
-		expect(nudgeField({ startBit: 3, length: 4 }, 'ArrowUp', false, 8)).toEqual({ startBit: 3, length: 4 });
-		expect(nudgeField({ startBit: 63, length: 1 }, 'ArrowLeft', false, 8)).toEqual({ startBit: 63, length: 1 });
+		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowLeft', false, 8)).toEqual({
+			startBit: 9,
+			length: 4
+		});
+		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowRight', false, 8)).toEqual({
+			startBit: 7,
+			length: 4
+		});
+		expect(nudgeField({ startBit: 8, length: 4 }, 'ArrowDown', false, 8)).toEqual({
+			startBit: 16,
+			length: 4
+		});
+		expect(nudgeField({ startBit: 3, length: 4 }, 'ArrowUp', false, 8)).toEqual({
+			startBit: 3,
+			length: 4
+		});
+		expect(nudgeField({ startBit: 63, length: 1 }, 'ArrowLeft', false, 8)).toEqual({
+			startBit: 63,
+			length: 1
+		});
 	});
 
 	it('Shift+arrows change the length within 1–64 bits', () => {
-		expect(nudgeField({ startBit: 0, length: 4 }, 'ArrowLeft', true, 8)).toEqual({ startBit: 0, length: 5 });
-		expect(nudgeField({ startBit: 0, length: 1 }, 'ArrowRight', true, 8)).toEqual({ startBit: 0, length: 1 });
-		expect(nudgeField({ startBit: 0, length: 60 }, 'ArrowDown', true, 8)).toEqual({ startBit: 0, length: 64 });
-		expect(nudgeField({ startBit: 0, length: 16 }, 'ArrowUp', true, 8)).toEqual({ startBit: 0, length: 8 });
+		expect(nudgeField({ startBit: 0, length: 4 }, 'ArrowLeft', true, 8)).toEqual({
+			startBit: 0,
+			length: 5
+		});
+		expect(nudgeField({ startBit: 0, length: 1 }, 'ArrowRight', true, 8)).toEqual({
+			startBit: 0,
+			length: 1
+		});
+		expect(nudgeField({ startBit: 0, length: 60 }, 'ArrowDown', true, 8)).toEqual({
+			startBit: 0,
+			length: 64
+		});
+		expect(nudgeField({ startBit: 0, length: 16 }, 'ArrowUp', true, 8)).toEqual({
+			startBit: 0,
+			length: 8
+		});
 	});
 });
 
 describe('labels and colours', () => {
 	it('abbreviates names by initials or first letters and keeps them unique', () => {
-		expect(abbreviate(['EngineSpeed', 'coolant_temp', 'Gear', 'Gearbox', 'Gear'])).toEqual(['ES', 'CT', 'Gea', 'Gea2', 'Gea3']);
+		expect(abbreviate(['EngineSpeed', 'coolant_temp', 'Gear', 'Gearbox', 'Gear'])).toEqual([
+			'ES',
+			'CT',
+			'Gea',
+			'Gea2',
+			'Gea3'
+		]);
 	});
 
 	it('gives a signal the same hue whatever else is in the frame', () => {

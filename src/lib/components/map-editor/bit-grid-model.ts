@@ -67,7 +67,6 @@ export interface BitGridModel {
 type GridFrame = Pick<Frame, 'length'> & { signals: Signal[] };
 
 const byteOf = (bit: number) => Math.floor(bit / 8);
-const bitInByteOf = (bit: number) => ((bit % 8) + 8) % 8;
 
 /** FNV-1a (32-bit) of the name: the same signal keeps its colour when others are added or reordered. */
 export function signalHue(name: string): number {
@@ -126,7 +125,14 @@ export function buildBitGrid(frame: GridFrame): BitGridModel {
 		const row: GridRow = { byte, inPayload: byte >= 0 && byte < frame.length, cells: [] };
 		for (let bitInByte = 7; bitInByte >= 0; bitInByte--) {
 			const bit = byte * 8 + bitInByte;
-			const cell: GridCell = { bit, byte, bitInByte, inPayload: inPayload(bit), owners: [], overlap: false };
+			const cell: GridCell = {
+				bit,
+				byte,
+				bitInByte,
+				inPayload: inPayload(bit),
+				owners: [],
+				overlap: false
+			};
 			row.cells.push(cell);
 			cells.set(bit, cell);
 		}
@@ -137,8 +143,18 @@ export function buildBitGrid(frame: GridFrame): BitGridModel {
 		list.forEach((bit, valueBit) => {
 			const next = list[valueBit + 1];
 			const continues =
-				next === undefined || byteOf(next) === byteOf(bit) ? null : byteOf(next) > byteOf(bit) ? 'next-byte' : 'previous-byte';
-			cells.get(bit)!.owners.push({ signal, valueBit, lsb: valueBit === 0, msb: valueBit === list.length - 1, continues });
+				next === undefined || byteOf(next) === byteOf(bit)
+					? null
+					: byteOf(next) > byteOf(bit)
+						? 'next-byte'
+						: 'previous-byte';
+			cells.get(bit)!.owners.push({
+				signal,
+				valueBit,
+				lsb: valueBit === 0,
+				msb: valueBit === list.length - 1,
+				continues
+			});
 		});
 	});
 
@@ -193,7 +209,9 @@ export function dragToField(fromBit: number, toBit: number, byteOrder: ByteOrder
 		const index = fieldBitPositions(lsb, reach, byteOrder).indexOf(other);
 		if (index >= 0) return { startBit: lsb, length: Math.min(index + 1, MAX_LENGTH) };
 	}
-	throw new RangeError(`bits ${fromBit} and ${toBit} are not connected in ${byteOrder}-endian order`);
+	throw new RangeError(
+		`bits ${fromBit} and ${toBit} are not connected in ${byteOrder}-endian order`
+	);
 }
 
 export type ArrowKey = 'ArrowLeft' | 'ArrowRight' | 'ArrowUp' | 'ArrowDown';
@@ -209,9 +227,15 @@ const clamp = (value: number, lo: number, hi: number) => Math.min(hi, Math.max(l
  * ← / → move the start bit one bit up / down and ↑ / ↓ one byte; with Shift, ← / ↓ lengthen and
  * → / ↑ shorten (by one bit, or by one byte vertically). The start bit stays inside the payload.
  */
-export function nudgeField(field: BitField, key: ArrowKey, resize: boolean, payloadLength: number): BitField {
+export function nudgeField(
+	field: BitField,
+	key: ArrowKey,
+	resize: boolean,
+	payloadLength: number
+): BitField {
 	const delta = { ArrowLeft: 1, ArrowRight: -1, ArrowDown: 8, ArrowUp: -8 }[key];
-	if (resize) return { startBit: field.startBit, length: clamp(field.length + delta, 1, MAX_LENGTH) };
+	if (resize)
+		return { startBit: field.startBit, length: clamp(field.length + delta, 1, MAX_LENGTH) };
 	const lastBit = Math.min(MAX_START_BIT, Math.max(0, payloadLength * 8 - 1));
 	const moved = field.startBit + delta;
 	return { startBit: moved < 0 || moved > lastBit ? field.startBit : moved, length: field.length };

@@ -4,9 +4,12 @@ import { seededRandom } from '$lib/can/testing/seeded-random';
 import { fitPayload, formatHexBytes, parseHexBytes } from './hex-input';
 
 describe('parseHexBytes', () => {
-	it.each(['12 34 ab', '1234AB', '0x12,0x34,0xab', '12:34:AB', '12-34-ab', ' 12\t34\nAB '])('reads %j as 12 34 AB', (text) => {
-		expect(parseHexBytes(text)).toEqual({ ok: true, bytes: Uint8Array.from([0x12, 0x34, 0xab]) });
-	});
+	it.each(['12 34 ab', '1234AB', '0x12,0x34,0xab', '12:34:AB', '12-34-ab', ' 12\t34\nAB '])(
+		'reads %j as 12 34 AB',
+		(text) => {
+			expect(parseHexBytes(text)).toEqual({ ok: true, bytes: Uint8Array.from([0x12, 0x34, 0xab]) });
+		}
+	);
 
 	it('agrees with Node’s Buffer.from(hex) (a general-purpose reference) on random payloads', () => {
 		const random = seededRandom(11);
@@ -41,7 +44,9 @@ describe('formatHexBytes', () => {
 	it('writes two upper-case digits a byte, spaced, like Buffer’s hex with spaces', () => {
 		const bytes = Uint8Array.from([0, 0x0a, 0xff, 0x3c]);
 		expect(formatHexBytes(bytes)).toBe('00 0A FF 3C');
-		expect(formatHexBytes(bytes).replaceAll(' ', '').toLowerCase()).toBe(Buffer.from(bytes).toString('hex'));
+		expect(formatHexBytes(bytes).replaceAll(' ', '').toLowerCase()).toBe(
+			Buffer.from(bytes).toString('hex')
+		);
 	});
 });
 

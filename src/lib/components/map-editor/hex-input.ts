@@ -14,19 +14,29 @@ export function parseHexBytes(text: string): HexBytesResult {
 	for (const token of tokens) {
 		const digits = token.replace(/^0x/i, '');
 		if (!/^[0-9a-f]+$/i.test(digits)) {
-			return { ok: false, message: `"${token}" is not hex; use the digits 0–9 and A–F, e.g. 0A 1F` };
+			return {
+				ok: false,
+				message: `"${token}" is not hex; use the digits 0–9 and A–F, e.g. 0A 1F`
+			};
 		}
 		if (digits.length <= 2) {
 			bytes.push(Number.parseInt(digits, 16));
 			continue;
 		}
 		if (digits.length % 2 !== 0) {
-			return { ok: false, message: `"${token}" has an odd number of hex digits; write each byte as two digits, e.g. 0A BC` };
+			return {
+				ok: false,
+				message: `"${token}" has an odd number of hex digits; write each byte as two digits, e.g. 0A BC`
+			};
 		}
-		for (let i = 0; i < digits.length; i += 2) bytes.push(Number.parseInt(digits.slice(i, i + 2), 16));
+		for (let i = 0; i < digits.length; i += 2)
+			bytes.push(Number.parseInt(digits.slice(i, i + 2), 16));
 	}
 	if (bytes.length > MAX_PAYLOAD_BYTES) {
-		return { ok: false, message: `${bytes.length} bytes is more than a CAN payload can carry (at most ${MAX_PAYLOAD_BYTES})` };
+		return {
+			ok: false,
+			message: `${bytes.length} bytes is more than a CAN payload can carry (at most ${MAX_PAYLOAD_BYTES})`
+		};
 	}
 	return { ok: true, bytes: Uint8Array.from(bytes) };
 }

@@ -2,7 +2,14 @@ import { describe, expect, it } from 'vitest';
 import { signalSchema } from '$lib/can/map';
 import { applyFieldText, fieldText, formatLabels, newSignal, parseLabels } from './signal-fields';
 
-const base = signalSchema.parse({ name: 'CoolantTemp', startBit: 8, length: 8, scale: 1, offset: -40, unit: '°C' });
+const base = signalSchema.parse({
+	name: 'CoolantTemp',
+	startBit: 8,
+	length: 8,
+	scale: 1,
+	offset: -40,
+	unit: '°C'
+});
 
 describe('applyFieldText', () => {
 	it('sets numbers, optional numbers and text through the map schema', () => {
@@ -15,13 +22,25 @@ describe('applyFieldText', () => {
 	});
 
 	it('reports the schema’s own message for out-of-range values', () => {
-		expect(applyFieldText(base, 'length', '65')).toEqual({ ok: false, message: 'must be 1–64 bits' });
-		expect(applyFieldText(base, 'startBit', '2.5')).toEqual({ ok: false, message: 'must be a whole number' });
-		expect(applyFieldText(base, 'name', '  ')).toEqual({ ok: false, message: 'a signal needs a name' });
+		expect(applyFieldText(base, 'length', '65')).toEqual({
+			ok: false,
+			message: 'must be 1–64 bits'
+		});
+		expect(applyFieldText(base, 'startBit', '2.5')).toEqual({
+			ok: false,
+			message: 'must be a whole number'
+		});
+		expect(applyFieldText(base, 'name', '  ')).toEqual({
+			ok: false,
+			message: 'a signal needs a name'
+		});
 	});
 
 	it('refuses text that is not a number, and an empty required number', () => {
-		expect(applyFieldText(base, 'offset', 'minus forty')).toEqual({ ok: false, message: '"minus forty" is not a number' });
+		expect(applyFieldText(base, 'offset', 'minus forty')).toEqual({
+			ok: false,
+			message: '"minus forty" is not a number'
+		});
 		expect(applyFieldText(base, 'scale', '')).toEqual({ ok: false, message: 'enter a number' });
 	});
 
@@ -39,7 +58,9 @@ describe('labels text', () => {
 		const parsed = parseLabels('1=On; 0=Off');
 		expect(parsed).toEqual({ ok: true, labels: { '0': 'Off', '1': 'On' } });
 		expect(parsed.ok && formatLabels(parsed.labels)).toBe('0=Off;1=On');
-		expect(fieldText({ ...base, labels: { '-1': 'Error', '2': 'Two' } }, 'labels')).toBe('-1=Error;2=Two');
+		expect(fieldText({ ...base, labels: { '-1': 'Error', '2': 'Two' } }, 'labels')).toBe(
+			'-1=Error;2=Two'
+		);
 	});
 
 	it('explains a label without a whole-number raw value', () => {
@@ -51,15 +72,24 @@ describe('labels text', () => {
 
 describe('newSignal', () => {
 	it('takes the first free bits, up to a byte, with an unused name', () => {
-		const frame = { length: 2, signals: [signalSchema.parse({ name: 'Signal_2', startBit: 0, length: 4 })] };
+		const frame = {
+			length: 2,
+			signals: [signalSchema.parse({ name: 'Signal_2', startBit: 0, length: 4 })]
+		};
 		const added = newSignal(frame);
 		expect(added).toMatchObject({ name: 'Signal_3', startBit: 4, length: 8, byteOrder: 'little' });
 	});
 
 	it('stops before a used bit and before the payload end', () => {
-		const frame = { length: 1, signals: [signalSchema.parse({ name: 'A', startBit: 5, length: 1 })] };
+		const frame = {
+			length: 1,
+			signals: [signalSchema.parse({ name: 'A', startBit: 5, length: 1 })]
+		};
 		expect(newSignal(frame)).toMatchObject({ startBit: 0, length: 5 });
-		const full = { length: 1, signals: [signalSchema.parse({ name: 'A', startBit: 0, length: 8 })] };
+		const full = {
+			length: 1,
+			signals: [signalSchema.parse({ name: 'A', startBit: 0, length: 8 })]
+		};
 		expect(newSignal(full)).toMatchObject({ startBit: 0, length: 8 });
 	});
 });

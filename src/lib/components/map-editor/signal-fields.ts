@@ -9,7 +9,8 @@ import { labelsText, readLabels } from '$lib/can/signal-table-csv';
 
 export type SignalField = keyof Signal;
 
-type Kind = 'text' | 'integer' | 'number' | 'optional-number' | 'optional-integer' | 'boolean' | 'labels';
+type Kind =
+	'text' | 'integer' | 'number' | 'optional-number' | 'optional-integer' | 'boolean' | 'labels';
 
 const KINDS: Record<SignalField, Kind> = {
 	name: 'text',
@@ -34,9 +35,13 @@ export function formatLabels(labels: Signal['labels']): string {
 	return labelsText(labels);
 }
 
-export function parseLabels(text: string): { ok: true; labels: Record<string, string> } | { ok: false; message: string } {
+export function parseLabels(
+	text: string
+): { ok: true; labels: Record<string, string> } | { ok: false; message: string } {
 	const read = readLabels(text);
-	return read.ok ? { ok: true, labels: read.value as Record<string, string> } : { ok: false, message: read.message ?? 'not raw=text pairs' };
+	return read.ok
+		? { ok: true, labels: read.value as Record<string, string> }
+		: { ok: false, message: read.message ?? 'not raw=text pairs' };
 }
 
 export function fieldText(signal: Signal, field: SignalField): string {
@@ -47,7 +52,10 @@ export function fieldText(signal: Signal, field: SignalField): string {
 
 export type FieldEdit = { ok: true; signal: Signal } | { ok: false; message: string };
 
-function valueFromText(kind: Kind, text: string): { ok: true; value: unknown } | { ok: false; message: string } {
+function valueFromText(
+	kind: Kind,
+	text: string
+): { ok: true; value: unknown } | { ok: false; message: string } {
 	const trimmed = text.trim();
 	switch (kind) {
 		case 'text':
@@ -60,10 +68,14 @@ function valueFromText(kind: Kind, text: string): { ok: true; value: unknown } |
 		}
 		default: {
 			if (trimmed === '') {
-				return kind.startsWith('optional') ? { ok: true, value: null } : { ok: false, message: 'enter a number' };
+				return kind.startsWith('optional')
+					? { ok: true, value: null }
+					: { ok: false, message: 'enter a number' };
 			}
 			const n = Number(trimmed);
-			return Number.isNaN(n) ? { ok: false, message: `"${trimmed}" is not a number` } : { ok: true, value: n };
+			return Number.isNaN(n)
+				? { ok: false, message: `"${trimmed}" is not a number` }
+				: { ok: true, value: n };
 		}
 	}
 }
@@ -90,14 +102,20 @@ export function unusedSignalName(frame: Pick<Frame, 'signals'>): string {
  * A new little-endian signal on the first payload bit no signal uses, one byte long (shorter if the
  * payload ends first); at bit 0 when the payload is full, where the overlap will be flagged.
  */
-export function newSignal(frame: Pick<Frame, 'signals' | 'length'>, field?: { startBit: number; length: number; byteOrder?: Signal['byteOrder'] }): Signal {
+export function newSignal(
+	frame: Pick<Frame, 'signals' | 'length'>,
+	field?: { startBit: number; length: number; byteOrder?: Signal['byteOrder'] }
+): Signal {
 	const base = { name: unusedSignalName(frame) };
 	if (field) return signalSchema.parse({ ...base, ...field });
-	const used = new Set(frame.signals.flatMap((s) => fieldBitPositions(s.startBit, s.length, s.byteOrder)));
+	const used = new Set(
+		frame.signals.flatMap((s) => fieldBitPositions(s.startBit, s.length, s.byteOrder))
+	);
 	const bits = frame.length * 8;
 	let start = 0;
 	while (start < bits && used.has(start)) start++;
-	if (start >= bits) return signalSchema.parse({ ...base, startBit: 0, length: Math.max(1, Math.min(8, bits)) });
+	if (start >= bits)
+		return signalSchema.parse({ ...base, startBit: 0, length: Math.max(1, Math.min(8, bits)) });
 	let length = 1;
 	while (length < 8 && start + length < bits && !used.has(start + length)) length++;
 	return signalSchema.parse({ ...base, startBit: start, length });

@@ -10,7 +10,14 @@ const frame = frameSchema.parse({
 	length: 8,
 	signals: [
 		{ name: 'EngineSpeed', startBit: 24, length: 16, scale: 0.125, unit: 'rpm', max: 8031.875 },
-		{ name: 'Coolant', startBit: 0, length: 8, offset: -40, unit: '°C', labels: { '255': 'Not available' } },
+		{
+			name: 'Coolant',
+			startBit: 0,
+			length: 8,
+			offset: -40,
+			unit: '°C',
+			labels: { '255': 'Not available' }
+		},
 		{ name: 'Beyond', startBit: 64, length: 8 }
 	]
 });
@@ -18,7 +25,12 @@ const frame = frameSchema.parse({
 describe('decodeRows', () => {
 	it('decodes raw and physical values (SAE J1939-71: 0x2EE0 × 0.125 rpm = 1500 rpm; 130 − 40 = 90 °C)', () => {
 		const rows = decodeRows(frame, Uint8Array.from([130, 0, 0, 0xe0, 0x2e, 0, 0, 0]));
-		expect(rows[0]).toMatchObject({ present: true, raw: String(0x2ee0), physical: '1500', inRange: true });
+		expect(rows[0]).toMatchObject({
+			present: true,
+			raw: String(0x2ee0),
+			physical: '1500',
+			inRange: true
+		});
 		expect(rows[1]).toMatchObject({ present: true, raw: '130', physical: '90', label: null });
 		expect(rows[2]).toMatchObject({ present: false });
 	});
@@ -52,7 +64,10 @@ describe('encodeInto', () => {
 	});
 
 	it('explains non-numbers and fields that do not fit', () => {
-		expect(encodeInto(frame, 0, new Uint8Array(8), 'fast')).toEqual({ ok: false, message: '"fast" is not a number' });
+		expect(encodeInto(frame, 0, new Uint8Array(8), 'fast')).toEqual({
+			ok: false,
+			message: '"fast" is not a number'
+		});
 		const outside = encodeInto(frame, 2, new Uint8Array(8), '1');
 		expect(outside.ok).toBe(false);
 		if (!outside.ok) expect(outside.message).toMatch(/bytes 8…8 but the payload has 8 byte/);

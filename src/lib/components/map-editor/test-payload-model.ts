@@ -17,7 +17,15 @@ export function formatPhysical(value: number): string {
 }
 
 export type DecodedRow =
-	| { name: string; unit: string; present: true; raw: string; physical: string; label: string | null; inRange: boolean }
+	| {
+			name: string;
+			unit: string;
+			present: true;
+			raw: string;
+			physical: string;
+			label: string | null;
+			inRange: boolean;
+	  }
 	| { name: string; unit: string; present: false; reason: string };
 
 export function decodeRows(frame: Pick<Frame, 'signals'>, bytes: Uint8Array): DecodedRow[] {
@@ -32,22 +40,46 @@ export function decodeRows(frame: Pick<Frame, 'signals'>, bytes: Uint8Array): De
 	return results.map((r, i) => {
 		const { name, unit } = frame.signals[i];
 		if (!r.present) {
-			const reason = frame.signals[i].muxValue !== null ? 'not on this multiplexer page, or past the payload' : 'its bits lie past the typed payload';
+			const reason =
+				frame.signals[i].muxValue !== null
+					? 'not on this multiplexer page, or past the payload'
+					: 'its bits lie past the typed payload';
 			return { name, unit, present: false, reason };
 		}
-		return { name, unit, present: true, raw: String(r.raw), physical: formatPhysical(r.value), label: r.label, inRange: r.inRange };
+		return {
+			name,
+			unit,
+			present: true,
+			raw: String(r.raw),
+			physical: formatPhysical(r.value),
+			label: r.label,
+			inRange: r.inRange
+		};
 	});
 }
 
 export type EncodeOutcome =
-	| { ok: true; bytes: Uint8Array; raw: bigint; clamped: boolean; outOfRange: boolean; readBack: string; label: string | null }
+	| {
+			ok: true;
+			bytes: Uint8Array;
+			raw: bigint;
+			clamped: boolean;
+			outOfRange: boolean;
+			readBack: string;
+			label: string | null;
+	  }
 	| { ok: false; message: string };
 
 /**
  * Writes `physicalText` into signal `index` of a copy of the payload (padded to the frame length,
  * other bits untouched) and decodes it again, so the person sees what a receiver would read.
  */
-export function encodeInto(frame: Pick<Frame, 'signals' | 'length'>, index: number, bytes: Uint8Array, physicalText: string): EncodeOutcome {
+export function encodeInto(
+	frame: Pick<Frame, 'signals' | 'length'>,
+	index: number,
+	bytes: Uint8Array,
+	physicalText: string
+): EncodeOutcome {
 	const signal = frame.signals[index];
 	const physical = Number(physicalText.trim());
 	if (physicalText.trim() === '' || !Number.isFinite(physical)) {
@@ -57,7 +89,15 @@ export function encodeInto(frame: Pick<Frame, 'signals' | 'length'>, index: numb
 	try {
 		const encoded = encodeSignal(signal, physical, payload);
 		const back = decodeSignal(signal, payload);
-		return { ok: true, bytes: payload, raw: encoded.raw, clamped: encoded.clamped, outOfRange: encoded.outOfRange, readBack: formatPhysical(back.value), label: back.label };
+		return {
+			ok: true,
+			bytes: payload,
+			raw: encoded.raw,
+			clamped: encoded.clamped,
+			outOfRange: encoded.outOfRange,
+			readBack: formatPhysical(back.value),
+			label: back.label
+		};
 	} catch (error) {
 		return { ok: false, message: error instanceof Error ? error.message : 'cannot be encoded' };
 	}

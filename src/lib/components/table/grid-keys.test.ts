@@ -18,10 +18,19 @@ describe('gridKeyAction', () => {
 
 	it('stops at the edges instead of wrapping', () => {
 		const corner: GridKeyState = { ...browsing, at: { row: 0, col: 0 } };
-		expect(gridKeyAction('ArrowUp', false, corner)).toEqual({ kind: 'move', to: { row: 0, col: 0 } });
-		expect(gridKeyAction('ArrowLeft', false, corner)).toEqual({ kind: 'move', to: { row: 0, col: 0 } });
+		expect(gridKeyAction('ArrowUp', false, corner)).toEqual({
+			kind: 'move',
+			to: { row: 0, col: 0 }
+		});
+		expect(gridKeyAction('ArrowLeft', false, corner)).toEqual({
+			kind: 'move',
+			to: { row: 0, col: 0 }
+		});
 		const last: GridKeyState = { ...browsing, at: { row: 2, col: 3 } };
-		expect(gridKeyAction('ArrowDown', false, last)).toEqual({ kind: 'move', to: { row: 2, col: 3 } });
+		expect(gridKeyAction('ArrowDown', false, last)).toEqual({
+			kind: 'move',
+			to: { row: 2, col: 3 }
+		});
 	});
 
 	it('starts editing with Enter or F2, and ignores other keys', () => {
@@ -37,8 +46,14 @@ describe('gridKeyAction', () => {
 	});
 
 	it('commits with Tab and moves right, or left with Shift', () => {
-		expect(gridKeyAction('Tab', false, editing)).toEqual({ kind: 'commit', then: { row: 1, col: 2 } });
-		expect(gridKeyAction('Tab', true, editing)).toEqual({ kind: 'commit', then: { row: 1, col: 0 } });
+		expect(gridKeyAction('Tab', false, editing)).toEqual({
+			kind: 'commit',
+			then: { row: 1, col: 2 }
+		});
+		expect(gridKeyAction('Tab', true, editing)).toEqual({
+			kind: 'commit',
+			then: { row: 1, col: 0 }
+		});
 	});
 
 	it('does nothing in an empty grid', () => {

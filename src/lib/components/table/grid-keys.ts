@@ -23,10 +23,17 @@ export type GridKeyAction =
 
 const clamp = (n: number, lo: number, hi: number) => Math.max(lo, Math.min(hi, n));
 
-export function gridKeyAction(key: string, shift: boolean, state: GridKeyState): GridKeyAction | null {
+export function gridKeyAction(
+	key: string,
+	shift: boolean,
+	state: GridKeyState
+): GridKeyAction | null {
 	const { at, rows, cols, editing } = state;
 	if (rows === 0 || cols === 0) return null;
-	const to = (row: number, col: number) => ({ row: clamp(row, 0, rows - 1), col: clamp(col, 0, cols - 1) });
+	const to = (row: number, col: number) => ({
+		row: clamp(row, 0, rows - 1),
+		col: clamp(col, 0, cols - 1)
+	});
 	const sideways = () => to(at.row, at.col + (shift ? -1 : 1));
 
 	if (editing) {

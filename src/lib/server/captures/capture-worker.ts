@@ -22,7 +22,8 @@ port.on('message', (message: ToWorker) => {
 	wake?.();
 });
 
-const send = (message: FromWorker, transfer: ArrayBuffer[] = []) => port.postMessage(message, transfer);
+const send = (message: FromWorker, transfer: ArrayBuffer[] = []) =>
+	port.postMessage(message, transfer);
 
 async function* chunks(): AsyncGenerator<Uint8Array> {
 	for (;;) {
@@ -38,7 +39,9 @@ async function* chunks(): AsyncGenerator<Uint8Array> {
 }
 
 try {
-	const { store, ...report } = await ingestCapture(chunks(), { layout: (workerData as { layout: CaptureLayout }).layout });
+	const { store, ...report } = await ingestCapture(chunks(), {
+		layout: (workerData as { layout: CaptureLayout }).layout
+	});
 	let durationS = 0;
 	for (const t of store.time) if (t > durationS) durationS = t;
 	const bytes = store.toBytes();

@@ -19,9 +19,20 @@ import { publishRevision } from '../db/revisions';
 import { createWorkspace } from '../db/workspaces';
 import type { SessionUser } from '../guard';
 import type { Role } from '../roles';
-import { createTestServices, createUser, makeEvent, outcome, type TestServices } from '../test-support';
+import {
+	createTestServices,
+	createUser,
+	makeEvent,
+	outcome,
+	type TestServices
+} from '../test-support';
 import { findCaptureRow, type CaptureDetail, type CaptureSummary } from './captures-db';
-import { failInterruptedProcessing, INTERRUPTED_MESSAGE, parseInWorker, processingDone } from './processing';
+import {
+	failInterruptedProcessing,
+	INTERRUPTED_MESSAGE,
+	parseInWorker,
+	processingDone
+} from './processing';
 import type { DetectedLayout } from './schemas';
 import { loadFrameStore } from './store';
 
@@ -47,20 +58,49 @@ async function buildWorld(env: Record<string, string> = {}): Promise<World> {
 	const ws = await createWorkspace(db, { name: 'Capture test team', ownerId: users.owner.id });
 	const now = new Date().toISOString();
 	for (const role of ['editor', 'viewer'] as const) {
-		await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: users[role].id, role, joined_at: now }).execute();
+		await db
+			.insertInto('memberships')
+			.values({ workspace_id: ws.id, user_id: users[role].id, role, joined_at: now })
+			.execute();
 	}
 	return { services, slug: ws.slug, workspaceId: ws.id, users };
 }
 
-function eventFor(w: World, routeId: string, actor: Actor, init: { method?: string; params?: Record<string, string>; query?: string; body?: unknown } = {}) {
+function eventFor(
+	w: World,
+	routeId: string,
+	actor: Actor,
+	init: { method?: string; params?: Record<string, string>; query?: string; body?: unknown } = {}
+) {
 	const params = { ws: w.slug, ...init.params };
-	const path = routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name as keyof typeof params] ?? name) + (init.query ?? '');
-	return makeEvent<RequestEvent>({ services: w.services, user: w.users[actor], routeId, params, path, method: init.method ?? 'GET', body: init.body });
+	const path =
+		routeId.replace(
+			/\[(\w+)\]/g,
+			(_, name: string) => params[name as keyof typeof params] ?? name
+		) + (init.query ?? '');
+	return makeEvent<RequestEvent>({
+		services: w.services,
+		user: w.users[actor],
+		routeId,
+		params,
+		path,
+		method: init.method ?? 'GET',
+		body: init.body
+	});
 }
 
 /** POSTs raw bytes as a browser upload would (Content-Length set unless `streamed`). */
-async function upload(w: World, actor: Actor, name: string, content: string | Uint8Array, options: { streamed?: boolean } = {}) {
-	const event = eventFor(w, '/api/workspaces/[ws]/captures', actor, { method: 'POST', query: `?name=${encodeURIComponent(name)}` });
+async function upload(
+	w: World,
+	actor: Actor,
+	name: string,
+	content: string | Uint8Array,
+	options: { streamed?: boolean } = {}
+) {
+	const event = eventFor(w, '/api/workspaces/[ws]/captures', actor, {
+		method: 'POST',
+		query: `?name=${encodeURIComponent(name)}`
+	});
 	const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
 	const headers = new Headers({ 'content-type': 'text/csv' });
 	let body: BodyInit = bytes as Uint8Array<ArrayBuffer>;
@@ -68,12 +108,18 @@ async function upload(w: World, actor: Actor, name: string, content: string | Ui
 		// No Content-Length: the limit must be enforced while streaming. Sent in 700-byte pieces.
 		body = new ReadableStream<Uint8Array>({
 			start(controller) {
-				for (let at = 0; at < bytes.length; at += 700) controller.enqueue(bytes.slice(at, at + 700));
+				for (let at = 0; at < bytes.length; at += 700)
+					controller.enqueue(bytes.slice(at, at + 700));
 				controller.close();
 			}
 		});
 	} else headers.set('content-length', String(bytes.byteLength));
-	(event as { request: Request }).request = new Request(event.url, { method: 'POST', body, headers, duplex: 'half' } as RequestInit);
+	(event as { request: Request }).request = new Request(event.url, {
+		method: 'POST',
+		body,
+		headers,
+		duplex: 'half'
+	} as RequestInit);
 	return (listRoute.POST as unknown as Handler)(event);
 }
 
@@ -86,14 +132,20 @@ async function uploaded(w: World, name: string, content: string, actor: Actor = 
 
 async function process(w: World, id: string, layout: CaptureLayout, actor: Actor = 'viewer') {
 	const response = await (processRoute.POST as unknown as Handler)(
-		eventFor(w, '/api/workspaces/[ws]/captures/[id]/process', actor, { method: 'POST', params: { id }, body: { layout } })
+		eventFor(w, '/api/workspaces/[ws]/captures/[id]/process', actor, {
+			method: 'POST',
+			params: { id },
+			body: { layout }
+		})
 	);
 	await processingDone(id);
 	return response;
 }
 
 async function detail(w: World, id: string, actor: Actor = 'viewer') {
-	const response = await (captureRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, { params: { id } }));
+	const response = await (captureRoute.GET as unknown as Handler)(
+		eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, { params: { id } })
+	);
 	return { status: response.status, body: (await response.json()) as CaptureDetail };
 }
 
@@ -124,8 +176,18 @@ interface Frame {
 // Invented demo frames: a standard, an extended (above 0x7FF, so inferable) and a standard ID.
 const FRAMES: Frame[] = [
 	{ time: 0, id: 0x123, extended: false, data: [0x11, 0x22, 0x33, 0x44, 0x55, 0x66, 0x77, 0x88] },
-	{ time: 0.01, id: 0x18feee00, extended: true, data: [0x28, 0x00, 0xff, 0x10, 0x00, 0x00, 0x00, 0x01] },
-	{ time: 0.0205, id: 0x7ff, extended: false, data: [0xde, 0xad, 0xbe, 0xef, 0x00, 0x01, 0x02, 0x03] }
+	{
+		time: 0.01,
+		id: 0x18feee00,
+		extended: true,
+		data: [0x28, 0x00, 0xff, 0x10, 0x00, 0x00, 0x00, 0x01]
+	},
+	{
+		time: 0.0205,
+		id: 0x7ff,
+		extended: false,
+		data: [0xde, 0xad, 0xbe, 0xef, 0x00, 0x01, 0x02, 0x03]
+	}
 ];
 
 const hex = (n: number, width = 2) => n.toString(16).toUpperCase().padStart(width, '0');
@@ -142,23 +204,95 @@ const EPOCH = 1_767_225_600; // 2026-01-01T00:00:00Z in Unix seconds
 
 // The variants shared/design.md names for the importer.
 const VARIANTS: Variant[] = [
-	{ name: 'canonical', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
+	{
+		name: 'canonical',
+		header: 'time,id,extended,dlc,data',
+		delimiter: ',',
+		row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)]
+	},
 	{
 		name: 'separate byte columns',
 		header: 'time,id,extended,dlc,d0,d1,d2,d3,d4,d5,d6,d7',
 		delimiter: ',',
-		row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', ...f.data.map((b) => hex(b))]
+		row: (f) => [
+			f.time.toFixed(6),
+			hex(f.id, 3),
+			f.extended ? '1' : '0',
+			'8',
+			...f.data.map((b) => hex(b))
+		]
 	},
-	{ name: 'millisecond times', header: 'time_ms,id,extended,dlc,data', delimiter: ',', row: (f) => [(f.time * 1e3).toFixed(3), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
-	{ name: 'microsecond times', header: 'timestamp_us,id,extended,dlc,data', delimiter: ',', row: (f) => [String(Math.round(f.time * 1e6)), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
-	{ name: 'epoch times', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [(EPOCH + f.time).toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
-	{ name: '0x prefixes, unspaced data', header: 'time,id,extended,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), `0x${hex(f.id, 3)}`, f.extended ? '1' : '0', '8', f.data.map((b) => hex(b)).join('')] },
-	{ name: 'missing extended flag', header: 'time,id,dlc,data', delimiter: ',', row: (f) => [f.time.toFixed(6), hex(f.id, 3), '8', bytesSpaced(f)] },
-	{ name: 'semicolon delimiter', header: 'time;id;extended;dlc;data', delimiter: ';', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] },
-	{ name: 'tab delimiter, no header', header: null, delimiter: '\t', row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)] }
+	{
+		name: 'millisecond times',
+		header: 'time_ms,id,extended,dlc,data',
+		delimiter: ',',
+		row: (f) => [
+			(f.time * 1e3).toFixed(3),
+			hex(f.id, 3),
+			f.extended ? '1' : '0',
+			'8',
+			bytesSpaced(f)
+		]
+	},
+	{
+		name: 'microsecond times',
+		header: 'timestamp_us,id,extended,dlc,data',
+		delimiter: ',',
+		row: (f) => [
+			String(Math.round(f.time * 1e6)),
+			hex(f.id, 3),
+			f.extended ? '1' : '0',
+			'8',
+			bytesSpaced(f)
+		]
+	},
+	{
+		name: 'epoch times',
+		header: 'time,id,extended,dlc,data',
+		delimiter: ',',
+		row: (f) => [
+			(EPOCH + f.time).toFixed(6),
+			hex(f.id, 3),
+			f.extended ? '1' : '0',
+			'8',
+			bytesSpaced(f)
+		]
+	},
+	{
+		name: '0x prefixes, unspaced data',
+		header: 'time,id,extended,dlc,data',
+		delimiter: ',',
+		row: (f) => [
+			f.time.toFixed(6),
+			`0x${hex(f.id, 3)}`,
+			f.extended ? '1' : '0',
+			'8',
+			f.data.map((b) => hex(b)).join('')
+		]
+	},
+	{
+		name: 'missing extended flag',
+		header: 'time,id,dlc,data',
+		delimiter: ',',
+		row: (f) => [f.time.toFixed(6), hex(f.id, 3), '8', bytesSpaced(f)]
+	},
+	{
+		name: 'semicolon delimiter',
+		header: 'time;id;extended;dlc;data',
+		delimiter: ';',
+		row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)]
+	},
+	{
+		name: 'tab delimiter, no header',
+		header: null,
+		delimiter: '\t',
+		row: (f) => [f.time.toFixed(6), hex(f.id, 3), f.extended ? '1' : '0', '8', bytesSpaced(f)]
+	}
 ];
 
-const render = (v: Variant) => [...(v.header ? [v.header] : []), ...FRAMES.map((f) => v.row(f).join(v.delimiter))].join('\n') + '\n';
+const render = (v: Variant) =>
+	[...(v.header ? [v.header] : []), ...FRAMES.map((f) => v.row(f).join(v.delimiter))].join('\n') +
+	'\n';
 
 // ------------------------------------------------------------------ tests
 
@@ -183,19 +317,32 @@ describe('capture upload and processing', () => {
 			expect(store.isExtended(i)).toBe(f.extended);
 			expect([...store.payload(i)]).toEqual(f.data);
 		});
-		if (variant.name === 'epoch times') expect(store.origin).toEqual({ timeOrigin: EPOCH, epoch: true });
+		if (variant.name === 'epoch times')
+			expect(store.origin).toEqual({ timeOrigin: EPOCH, epoch: true });
 	});
 
 	it('answers 201 with the detected layout, notes and preview rows, status uploaded', async () => {
 		const w = await buildWorld();
 		const { capture, detected } = await uploaded(w, 'session.csv', render(VARIANTS[0]));
-		expect(capture).toMatchObject({ name: 'session.csv', fileName: 'session.csv', status: 'uploaded', progress: 0, frameCount: null, uploadedBy: { email: 'viewer@example.test' }, lastDecode: null });
+		expect(capture).toMatchObject({
+			name: 'session.csv',
+			fileName: 'session.csv',
+			status: 'uploaded',
+			progress: 0,
+			frameCount: null,
+			uploadedBy: { email: 'viewer@example.test' },
+			lastDecode: null
+		});
 		expect(capture.sizeBytes).toBe(new TextEncoder().encode(render(VARIANTS[0])).byteLength);
 		expect(detected.layout).toEqual(CANONICAL_LAYOUT);
 		expect(detected.notes.length).toBeGreaterThan(0);
 		expect(detected.sampleRows[0]).toEqual(['time', 'id', 'extended', 'dlc', 'data']);
 		expect(detected.sampleRows).toHaveLength(1 + FRAMES.length);
-		const status = await (statusRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]/status', 'viewer', { params: { id: capture.id } }));
+		const status = await (statusRoute.GET as unknown as Handler)(
+			eventFor(w, '/api/workspaces/[ws]/captures/[id]/status', 'viewer', {
+				params: { id: capture.id }
+			})
+		);
 		expect(await status.json()).toEqual({ status: 'uploaded', progress: 0, error: null });
 	});
 
@@ -213,7 +360,12 @@ describe('capture upload and processing', () => {
 	it('lists rows with bad hex by line number; good rows survive', async () => {
 		const w = await buildWorld();
 		const lines = render(VARIANTS[0]).trimEnd().split('\n');
-		lines.splice(2, 0, '0.005000,1G3,0,8,11 22 33 44 55 66 77 88', '0.006000,124,0,8,11 22 ZZ 44 55 66 77 88');
+		lines.splice(
+			2,
+			0,
+			'0.005000,1G3,0,8,11 22 33 44 55 66 77 88',
+			'0.006000,124,0,8,11 22 ZZ 44 55 66 77 88'
+		);
 		const result = await uploadAndProcess(w, 'bad-hex.csv', lines.join('\n') + '\n');
 		expect(result.capture.frameCount).toBe(FRAMES.length);
 		expect(result.report?.badRows.map((b) => b.line)).toEqual([3, 4]);
@@ -257,7 +409,10 @@ describe('capture upload and processing', () => {
 		for (const streamed of [false, true]) {
 			const response = await upload(w, 'viewer', 'big.csv', big, { streamed });
 			expect(response.status).toBe(413);
-			expect(await response.json()).toEqual({ error: 'The file is larger than the upload limit of 1000 bytes; nothing was stored.', maxBytes: 1000 });
+			expect(await response.json()).toEqual({
+				error: 'The file is larger than the upload limit of 1000 bytes; nothing was stored.',
+				maxBytes: 1000
+			});
 		}
 		expect(await storedFiles(w)).toEqual([]);
 		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
@@ -268,10 +423,16 @@ describe('capture upload and processing', () => {
 
 	it('refuses a missing file name and a bad layout with the field named', async () => {
 		const w = await buildWorld();
-		const event = eventFor(w, '/api/workspaces/[ws]/captures', 'viewer', { method: 'POST', body: 'time,id\n' });
+		const event = eventFor(w, '/api/workspaces/[ws]/captures', 'viewer', {
+			method: 'POST',
+			body: 'time,id\n'
+		});
 		const noName = await (listRoute.POST as unknown as Handler)(event);
 		expect(noName.status).toBe(400);
-		expect((await noName.json()).issues[0]).toEqual({ path: 'name', message: 'give the file name as ?name=' });
+		expect((await noName.json()).issues[0]).toEqual({
+			path: 'name',
+			message: 'give the file name as ?name='
+		});
 		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
 		const bad = await process(w, capture.id, { ...CANONICAL_LAYOUT, dataColumn: null });
 		expect(bad.status).toBe(400);
@@ -304,22 +465,36 @@ describe('capture upload and processing', () => {
 		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
 		const failed = (await detail(w, capture.id)).body.capture;
 		expect(failed.status).toBe('failed');
-		expect(failed.error).toMatch(/^Processing failed: nothing is stored under ".*raw\.csv"\. The uploaded file is kept; try again/);
+		expect(failed.error).toMatch(
+			/^Processing failed: nothing is stored under ".*raw\.csv"\. The uploaded file is kept; try again/
+		);
 		expect(await storedFiles(w)).toEqual([]); // no half-written frame store
 		async function* again() {
 			yield raw;
 		}
 		await w.services.storage.put(row.raw_key, again());
 		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
-		expect((await detail(w, capture.id)).body.capture).toMatchObject({ status: 'ready', frameCount: FRAMES.length, error: null });
+		expect((await detail(w, capture.id)).body.capture).toMatchObject({
+			status: 'ready',
+			frameCount: FRAMES.length,
+			error: null
+		});
 	});
 
 	it('marks a capture cut off by a server restart as failed, so it can be processed again', async () => {
 		const w = await buildWorld();
 		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
-		await w.services.db.updateTable('captures').set({ status: 'processing', progress: 0.4 }).where('id', '=', capture.id).execute();
+		await w.services.db
+			.updateTable('captures')
+			.set({ status: 'processing', progress: 0.4 })
+			.where('id', '=', capture.id)
+			.execute();
 		expect(await failInterruptedProcessing(w.services.db)).toBe(1);
-		expect((await detail(w, capture.id)).body.capture).toMatchObject({ status: 'failed', progress: 0, error: INTERRUPTED_MESSAGE });
+		expect((await detail(w, capture.id)).body.capture).toMatchObject({
+			status: 'failed',
+			progress: 0,
+			error: INTERRUPTED_MESSAGE
+		});
 		expect((await process(w, capture.id, CANONICAL_LAYOUT)).status).toBe(202);
 		expect((await detail(w, capture.id)).body.capture.status).toBe('ready');
 	});
@@ -337,7 +512,14 @@ describe('capture upload and processing', () => {
 
 	it('reports progress as the worker takes each chunk, ending at the full size', async () => {
 		const text = render(VARIANTS[0]);
-		const bytes = new TextEncoder().encode(text + Array.from({ length: 2000 }, (_, i) => `${(0.03 + i / 1000).toFixed(6)},321,0,2,AB CD`).join('\n') + '\n');
+		const bytes = new TextEncoder().encode(
+			text +
+				Array.from(
+					{ length: 2000 },
+					(_, i) => `${(0.03 + i / 1000).toFixed(6)},321,0,2,AB CD`
+				).join('\n') +
+				'\n'
+		);
 		async function* source() {
 			for (let at = 0; at < bytes.length; at += 1000) yield bytes.subarray(at, at + 1000);
 		}
@@ -354,10 +536,20 @@ describe('capture roles', () => {
 	it('lets viewers upload and list; a non-member gets 404 everywhere', async () => {
 		const w = await buildWorld();
 		const { capture } = await uploaded(w, 'mine.csv', render(VARIANTS[0]), 'viewer');
-		const list = await (listRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures', 'viewer'));
-		expect(((await list.json()) as { captures: CaptureSummary[] }).captures.map((c) => c.id)).toEqual([capture.id]);
+		const list = await (listRoute.GET as unknown as Handler)(
+			eventFor(w, '/api/workspaces/[ws]/captures', 'viewer')
+		);
+		expect(
+			((await list.json()) as { captures: CaptureSummary[] }).captures.map((c) => c.id)
+		).toEqual([capture.id]);
 		expect((await upload(w, 'outsider', 'x.csv', render(VARIANTS[0]))).status).toBe(404);
-		expect((await (listRoute.GET as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures', 'outsider'))).status).toBe(404);
+		expect(
+			(
+				await (listRoute.GET as unknown as Handler)(
+					eventFor(w, '/api/workspaces/[ws]/captures', 'outsider')
+				)
+			).status
+		).toBe(404);
 		expect((await detail(w, capture.id, 'outsider')).status).toBe(404);
 		expect((await process(w, capture.id, CANONICAL_LAYOUT, 'outsider')).status).toBe(404);
 	});
@@ -365,14 +557,21 @@ describe('capture roles', () => {
 	it('deletes: the uploader their own, the owner any, others 403; blobs go too', async () => {
 		const w = await buildWorld();
 		const del = (id: string, actor: Actor) =>
-			(captureRoute.DELETE as unknown as Handler)(eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, { method: 'DELETE', params: { id } }));
+			(captureRoute.DELETE as unknown as Handler)(
+				eventFor(w, '/api/workspaces/[ws]/captures/[id]', actor, {
+					method: 'DELETE',
+					params: { id }
+				})
+			);
 		const a = (await uploadAndProcess(w, 'a.csv', render(VARIANTS[0]))).capture; // by the viewer
 		const b = (await uploaded(w, 'b.csv', render(VARIANTS[0]), 'editor')).capture;
 		expect((await storedFiles(w)).length).toBe(3); // a: raw + frame store, b: raw
 
 		const refused = await del(b.id, 'viewer');
 		expect(refused.status).toBe(403);
-		expect((await refused.json()).error).toBe('Only a workspace owner or the person who uploaded this capture can delete it.');
+		expect((await refused.json()).error).toBe(
+			'Only a workspace owner or the person who uploaded this capture can delete it.'
+		);
 		expect((await del(a.id, 'editor')).status).toBe(403);
 		expect((await del(a.id, 'outsider')).status).toBe(404);
 
@@ -389,19 +588,39 @@ describe('capture page loads', () => {
 		const w = await buildWorld();
 		const map = await createMap(w.services.db, {
 			workspaceId: w.workspaceId,
-			map: { format: 'framewright-map@1', name: 'Test map', bitrate: 500_000, frames: [], alertRules: [] },
+			map: {
+				format: 'framewright-map@1',
+				name: 'Test map',
+				bitrate: 500_000,
+				frames: [],
+				alertRules: []
+			},
 			actorId: w.users.editor.id,
 			source: 'blank'
 		});
-		await publishRevision(w.services.db, { workspaceId: w.workspaceId, mapId: map.id, version: 1, actorId: w.users.editor.id, note: 'first' });
+		await publishRevision(w.services.db, {
+			workspaceId: w.workspaceId,
+			mapId: map.id,
+			version: 1,
+			actorId: w.users.editor.id,
+			note: 'first'
+		});
 		const result = await uploadAndProcess(w, 'a.csv', render(VARIANTS[0]));
-		const list = (await listLoad(eventFor(w, '/w/[ws]/captures', 'viewer') as never)) as { captures: CaptureSummary[] };
+		const list = (await listLoad(eventFor(w, '/w/[ws]/captures', 'viewer') as never)) as {
+			captures: CaptureSummary[];
+		};
 		expect(list.captures).toEqual([result.capture]);
-		const page = (await captureLoad(eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: result.capture.id } }) as never)) as CaptureDetail & { maps: unknown };
+		const page = (await captureLoad(
+			eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: result.capture.id } }) as never
+		)) as CaptureDetail & { maps: unknown };
 		expect(page.capture).toEqual(result.capture);
 		expect(page.report).toEqual(result.report);
 		expect(page.maps).toEqual([{ id: map.id, name: 'Test map', revisions: [1] }]);
-		const missing = await outcome(() => captureLoad(eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: 'nope' } }) as never));
+		const missing = await outcome(() =>
+			captureLoad(
+				eventFor(w, '/w/[ws]/captures/[id]', 'viewer', { params: { id: 'nope' } }) as never
+			)
+		);
 		expect(missing).toEqual({ kind: 'error', status: 404, message: 'Capture not found.' });
 	});
 });

@@ -9,7 +9,12 @@ import type { DB } from '../db/connection';
 import { personRef, type PersonRef } from '../db/maps';
 import type { CaptureRow, CaptureStatus, CaptureUpdate, NewCaptureRow } from '../db/schema';
 import { Problem } from '../problem';
-import { captureReportSchema, detectedLayoutSchema, type CaptureReport, type DetectedLayout } from './schemas';
+import {
+	captureReportSchema,
+	detectedLayoutSchema,
+	type CaptureReport,
+	type DetectedLayout
+} from './schemas';
 
 export interface DecodeRecord {
 	id: string;
@@ -64,7 +69,9 @@ function decodeQuery(db: DB) {
 }
 
 type DecodeJoined = Awaited<ReturnType<ReturnType<typeof decodeQuery>['executeTakeFirstOrThrow']>>;
-type SummaryJoined = Awaited<ReturnType<ReturnType<typeof summaryQuery>['executeTakeFirstOrThrow']>>;
+type SummaryJoined = Awaited<
+	ReturnType<ReturnType<typeof summaryQuery>['executeTakeFirstOrThrow']>
+>;
 
 function toDecodeRecord(row: DecodeJoined): DecodeRecord {
 	return {
@@ -92,16 +99,27 @@ function toSummary(row: SummaryJoined, last: DecodeRecord | undefined): CaptureS
 		durationS: row.duration_s,
 		error: row.error,
 		lastDecode: last
-			? { id: last.id, mapId: last.mapId, mapName: last.mapName, revision: last.revision, decodedAt: last.decodedAt }
+			? {
+					id: last.id,
+					mapId: last.mapId,
+					mapName: last.mapName,
+					revision: last.revision,
+					decodedAt: last.decodedAt
+				}
 			: null
 	};
 }
 
 /** Stored JSON is written by this module; a parse failure means the row was altered by hand. */
-function readStored<S extends z.ZodType>(schema: S, text: string | null, what: string): z.infer<S> | null {
+function readStored<S extends z.ZodType>(
+	schema: S,
+	text: string | null,
+	what: string
+): z.infer<S> | null {
 	if (text === null) return null;
 	const parsed = schema.safeParse(JSON.parse(text));
-	if (!parsed.success) throw new Error(`Stored ${what} is not valid: ${parsed.error.issues[0]?.message}`);
+	if (!parsed.success)
+		throw new Error(`Stored ${what} is not valid: ${parsed.error.issues[0]?.message}`);
 	return parsed.data;
 }
 
@@ -114,7 +132,8 @@ async function latestDecodes(db: DB, captureIds: string[]): Promise<Map<string, 
 		.orderBy('capture_decodes.decoded_at', 'desc')
 		.orderBy('capture_decodes.id')
 		.execute();
-	for (const row of rows) if (!latest.has(row.capture_id)) latest.set(row.capture_id, toDecodeRecord(row));
+	for (const row of rows)
+		if (!latest.has(row.capture_id)) latest.set(row.capture_id, toDecodeRecord(row));
 	return latest;
 }
 
@@ -125,12 +144,19 @@ export async function listCaptures(db: DB, workspaceId: string): Promise<Capture
 		.orderBy('captures.uploaded_at', 'desc')
 		.orderBy('captures.name')
 		.execute();
-	const latest = await latestDecodes(db, rows.map((r) => r.id));
+	const latest = await latestDecodes(
+		db,
+		rows.map((r) => r.id)
+	);
 	return rows.map((r) => toSummary(r, latest.get(r.id)));
 }
 
 /** The raw row (storage keys included) if the capture belongs to the workspace. */
-export async function findCaptureRow(db: DB, workspaceId: string, captureId: string): Promise<CaptureRow | undefined> {
+export async function findCaptureRow(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureRow | undefined> {
 	return db
 		.selectFrom('captures')
 		.selectAll()
@@ -139,13 +165,21 @@ export async function findCaptureRow(db: DB, workspaceId: string, captureId: str
 		.executeTakeFirst();
 }
 
-export async function requireCaptureRow(db: DB, workspaceId: string, captureId: string): Promise<CaptureRow> {
+export async function requireCaptureRow(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureRow> {
 	const row = await findCaptureRow(db, workspaceId, captureId);
 	if (!row) throw new Problem(404, 'Capture not found.');
 	return row;
 }
 
-export async function findCaptureSummary(db: DB, workspaceId: string, captureId: string): Promise<CaptureSummary | undefined> {
+export async function findCaptureSummary(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureSummary | undefined> {
 	const row = await summaryQuery(db)
 		.where('captures.id', '=', captureId)
 		.where('captures.workspace_id', '=', workspaceId)
@@ -154,7 +188,11 @@ export async function findCaptureSummary(db: DB, workspaceId: string, captureId:
 	return toSummary(row, (await latestDecodes(db, [row.id])).get(row.id));
 }
 
-export async function requireCaptureSummary(db: DB, workspaceId: string, captureId: string): Promise<CaptureSummary> {
+export async function requireCaptureSummary(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureSummary> {
 	const summary = await findCaptureSummary(db, workspaceId, captureId);
 	if (!summary) throw new Problem(404, 'Capture not found.');
 	return summary;
@@ -170,7 +208,11 @@ export async function listDecodes(db: DB, captureId: string): Promise<DecodeReco
 	return rows.map(toDecodeRecord);
 }
 
-export async function findDecode(db: DB, captureId: string, decodeId: string): Promise<DecodeRecord | undefined> {
+export async function findDecode(
+	db: DB,
+	captureId: string,
+	decodeId: string
+): Promise<DecodeRecord | undefined> {
 	const row = await decodeQuery(db)
 		.where('capture_decodes.capture_id', '=', captureId)
 		.where('capture_decodes.id', '=', decodeId)
@@ -205,7 +247,11 @@ export async function insertDecode(db: DB, input: NewDecode): Promise<DecodeReco
 	return (await findDecode(db, input.captureId, id))!;
 }
 
-export async function captureDetail(db: DB, workspaceId: string, captureId: string): Promise<CaptureDetail> {
+export async function captureDetail(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureDetail> {
 	const row = await requireCaptureRow(db, workspaceId, captureId);
 	return {
 		capture: await requireCaptureSummary(db, workspaceId, captureId),
@@ -220,7 +266,11 @@ export async function insertCapture(db: DB, row: NewCaptureRow): Promise<void> {
 	await db.insertInto('captures').values(row).execute();
 }
 
-export async function updateCapture(db: DB, captureId: string, patch: CaptureUpdate): Promise<void> {
+export async function updateCapture(
+	db: DB,
+	captureId: string,
+	patch: CaptureUpdate
+): Promise<void> {
 	await db.updateTable('captures').set(patch).where('id', '=', captureId).execute();
 }
 
@@ -229,8 +279,16 @@ export async function deleteCaptureRow(db: DB, captureId: string): Promise<void>
 }
 
 /** Every map of the workspace with its published revision numbers (newest first), for the decode panel. */
-export async function mapsWithRevisions(db: DB, workspaceId: string): Promise<{ id: string; name: string; revisions: number[] }[]> {
-	const maps = await db.selectFrom('maps').select(['id', 'name']).where('workspace_id', '=', workspaceId).orderBy('name').execute();
+export async function mapsWithRevisions(
+	db: DB,
+	workspaceId: string
+): Promise<{ id: string; name: string; revisions: number[] }[]> {
+	const maps = await db
+		.selectFrom('maps')
+		.select(['id', 'name'])
+		.where('workspace_id', '=', workspaceId)
+		.orderBy('name')
+		.execute();
 	const revisions = await db
 		.selectFrom('map_revisions')
 		.innerJoin('maps', 'maps.id', 'map_revisions.map_id')
@@ -238,5 +296,9 @@ export async function mapsWithRevisions(db: DB, workspaceId: string): Promise<{ 
 		.where('maps.workspace_id', '=', workspaceId)
 		.orderBy('map_revisions.number', 'desc')
 		.execute();
-	return maps.map((m) => ({ id: m.id, name: m.name, revisions: revisions.filter((r) => r.mapId === m.id).map((r) => r.number) }));
+	return maps.map((m) => ({
+		id: m.id,
+		name: m.name,
+		revisions: revisions.filter((r) => r.mapId === m.id).map((r) => r.number)
+	}));
 }

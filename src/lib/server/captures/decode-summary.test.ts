@@ -12,7 +12,8 @@ import { parseMap } from '$lib/can/map-json';
 import { summarizeDecoding } from './decode-summary';
 import { undocumentedFrame, undocumentedFrameName } from './undocumented-frame';
 
-const fixture = (name: string) => readFileSync(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
+const fixture = (name: string) =>
+	readFileSync(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
 
 const rows = fixture('genset-idle.csv')
 	.trim()
@@ -20,10 +21,15 @@ const rows = fixture('genset-idle.csv')
 	.slice(1)
 	.map((line) => {
 		const [time, id, , , data] = line.split(',');
-		return { time: Number(time), id: Number.parseInt(id, 16), bytes: data.split(' ').map((b) => Number.parseInt(b, 16)) };
+		return {
+			time: Number(time),
+			id: Number.parseInt(id, 16),
+			bytes: data.split(' ').map((b) => Number.parseInt(b, 16))
+		};
 	});
 const t0 = rows[0].time;
-const hex = (bytes: number[]) => bytes.map((b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
+const hex = (bytes: number[]) =>
+	bytes.map((b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
 
 async function gensetSummary() {
 	const map = parseMap(fixture('genset-j1939.map.json'));
@@ -38,11 +44,20 @@ describe('summarizeDecoding', () => {
 		const expected: { time: number; pgn: number; dataHex: string }[] = [];
 		let open: { size: number; pgn: number; bytes: number[] } | null = null;
 		for (const r of rows) {
-			if (r.id === 0x1cecff00 && r.bytes[0] === 32) open = { size: r.bytes[1] | (r.bytes[2] << 8), pgn: r.bytes[5] | (r.bytes[6] << 8) | (r.bytes[7] << 16), bytes: [] };
+			if (r.id === 0x1cecff00 && r.bytes[0] === 32)
+				open = {
+					size: r.bytes[1] | (r.bytes[2] << 8),
+					pgn: r.bytes[5] | (r.bytes[6] << 8) | (r.bytes[7] << 16),
+					bytes: []
+				};
 			else if (r.id === 0x1cebff00 && open) {
 				open.bytes.push(...r.bytes.slice(1));
 				if (open.bytes.length >= open.size) {
-					expected.push({ time: r.time - t0, pgn: open.pgn, dataHex: hex(open.bytes.slice(0, open.size)) });
+					expected.push({
+						time: r.time - t0,
+						pgn: open.pgn,
+						dataHex: hex(open.bytes.slice(0, open.size))
+					});
 					open = null;
 				}
 			}
@@ -59,12 +74,18 @@ describe('summarizeDecoding', () => {
 		const first = dm1[0];
 		const spn = first.bytes[2] | (first.bytes[3] << 8) | ((first.bytes[4] >> 5) << 16);
 		const code = summary.j1939!.troubleCodes.find((c) => c.spn === spn)!;
-		expect(code).toMatchObject({ sourceAddress: 0x00, fmi: first.bytes[4] & 0x1f, occurrenceCount: first.bytes[5] & 0x7f });
+		expect(code).toMatchObject({
+			sourceAddress: 0x00,
+			fmi: first.bytes[4] & 0x1f,
+			occurrenceCount: first.bytes[5] & 0x7f
+		});
 		expect(code.time).toBeCloseTo(first.time - t0, 9);
 		// Lamp byte 0x04: bits 3–2 = 01, amber warning lamp on (J1939-73, from memory).
 		expect(first.bytes[0]).toBe(0x04);
 		expect(code.lamps.amberWarning.state).toBe('on');
-		expect(new Set(summary.j1939!.troubleCodes.map((c) => `${c.sourceAddress}:${c.spn}:${c.fmi}`)).size).toBe(summary.j1939!.troubleCodes.length);
+		expect(
+			new Set(summary.j1939!.troubleCodes.map((c) => `${c.sourceAddress}:${c.spn}:${c.fmi}`)).size
+		).toBe(summary.j1939!.troubleCodes.length);
 	});
 
 	it('is plain JSON: arrays, no NaN, unknown IDs carry their rate', async () => {
@@ -74,17 +95,41 @@ describe('summarizeDecoding', () => {
 			const seen = rows.filter((r) => r.id === u.id);
 			expect(u.count).toBe(seen.length);
 			// frames per second over the span between the first and last frame
-			expect(u.rateHz).toBeCloseTo((seen.length - 1) / (seen[seen.length - 1].time - seen[0].time), 6);
+			expect(u.rateHz).toBeCloseTo(
+				(seen.length - 1) / (seen[seen.length - 1].time - seen[0].time),
+				6
+			);
 			expect(u.bitChanges).toHaveLength(8 * u.maxLength);
 		}
 	});
 });
 
 describe('undocumentedFrame', () => {
-	const seen = { id: 0x18ff1027, extended: true, count: 300, firstTime: 0, lastTime: 29.9, rateHz: 10, meanPeriodMs: 99.6, jitterMs: 0.2, minLength: 6, maxLength: 6, frameIndex: null, frameName: null, cycleMs: null };
+	const seen = {
+		id: 0x18ff1027,
+		extended: true,
+		count: 300,
+		firstTime: 0,
+		lastTime: 29.9,
+		rateHz: 10,
+		meanPeriodMs: 99.6,
+		jitterMs: 0.2,
+		minLength: 6,
+		maxLength: 6,
+		frameIndex: null,
+		frameName: null,
+		cycleMs: null
+	};
 
 	it('names the ID, rounds the period and takes the longest payload seen', () => {
-		expect(undocumentedFrame(seen, 'idle.csv')).toMatchObject({ name: 'Undocumented_0x18FF1027', id: 0x18ff1027, extended: true, length: 6, cycleMs: 100, signals: [] });
+		expect(undocumentedFrame(seen, 'idle.csv')).toMatchObject({
+			name: 'Undocumented_0x18FF1027',
+			id: 0x18ff1027,
+			extended: true,
+			length: 6,
+			cycleMs: 100,
+			signals: []
+		});
 		expect(undocumentedFrameName(0x5f8, false)).toBe('Undocumented_0x5F8');
 	});
 

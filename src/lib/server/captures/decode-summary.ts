@@ -79,9 +79,11 @@ export interface DecodeSummary {
 }
 
 /** JSON has no NaN or ±Infinity (a float signal can decode to them); they become null. */
-const finiteOrNull = (n: number | null): number | null => (n !== null && Number.isFinite(n) ? n : null);
+const finiteOrNull = (n: number | null): number | null =>
+	n !== null && Number.isFinite(n) ? n : null;
 
-const hexOf = (bytes: Uint8Array) => Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
+const hexOf = (bytes: Uint8Array) =>
+	Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
 
 const idKey = (id: number, extended: boolean) => (extended ? `x${id}` : `s${id}`);
 

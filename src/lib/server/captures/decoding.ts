@@ -55,11 +55,20 @@ function cacheOf(services: Pick<Services, 'db'>): Map<string, Promise<CacheEntry
 }
 
 /** capture + map + `r<n>` or `d<draft version>`: the same key means the same map text, so the same result. */
-export function decodeCacheKey(captureId: string, mapId: string, revision: number | null, draftVersion: number | null): string {
+export function decodeCacheKey(
+	captureId: string,
+	mapId: string,
+	revision: number | null,
+	draftVersion: number | null
+): string {
 	return `${captureId}|${mapId}|${revision !== null ? `r${revision}` : `d${draftVersion}`}`;
 }
 
-async function cached(services: Services, key: string, compute: () => Promise<CacheEntry>): Promise<CacheEntry> {
+async function cached(
+	services: Services,
+	key: string,
+	compute: () => Promise<CacheEntry>
+): Promise<CacheEntry> {
 	const cache = cacheOf(services);
 	let entry = cache.get(key);
 	if (entry) {
@@ -80,7 +89,11 @@ export function forgetCaptureDecodes(services: Pick<Services, 'db'>, captureId: 
 }
 
 /** The capture if it belongs to the workspace and is processed (409 with the reason otherwise). */
-export async function requireReadyCapture(services: Services, workspaceId: string, captureId: string): Promise<CaptureRow> {
+export async function requireReadyCapture(
+	services: Services,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureRow> {
 	const capture = await requireCaptureRow(services.db, workspaceId, captureId);
 	if (capture.status !== 'ready') {
 		throw new Problem(
@@ -93,7 +106,11 @@ export async function requireReadyCapture(services: Services, workspaceId: strin
 	return capture;
 }
 
-function computeEntry(services: Services, capture: CaptureRow, map: CanMap): () => Promise<CacheEntry> {
+function computeEntry(
+	services: Services,
+	capture: CaptureRow,
+	map: CanMap
+): () => Promise<CacheEntry> {
 	return async () => {
 		const store = await loadFrameStore(services, capture);
 		const compiled = compileMap(map);
@@ -114,10 +131,22 @@ export async function decodeWith(
 	const mapRecord = await requireMap(db, workspaceId, input.mapId);
 	const revision = input.revision === 'draft' ? null : input.revision;
 	const draftVersion = input.revision === 'draft' ? mapRecord.version : null;
-	const map = revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
-	const entry = await cached(services, decodeCacheKey(capture.id, mapRecord.id, revision, draftVersion), computeEntry(services, capture, map));
+	const map =
+		revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
+	const entry = await cached(
+		services,
+		decodeCacheKey(capture.id, mapRecord.id, revision, draftVersion),
+		computeEntry(services, capture, map)
+	);
 	const decode = await db.transaction().execute(async (trx) => {
-		const record = await insertDecode(trx, { captureId: capture.id, mapId: mapRecord.id, mapName: mapRecord.name, revision, draftVersion, actorId });
+		const record = await insertDecode(trx, {
+			captureId: capture.id,
+			mapId: mapRecord.id,
+			mapName: mapRecord.name,
+			revision,
+			draftVersion,
+			actorId
+		});
 		await appendAudit(trx, {
 			workspaceId,
 			actorId,
@@ -143,9 +172,20 @@ function summaryOf(entry: CacheEntry): DecodeSummary {
  * A recorded decode with everything its views need. Re-decodes from the stored frames when it is no
  * longer cached; a draft decode whose draft has changed since cannot be reproduced and says so (410).
  */
-export async function getDecoded(services: Services, workspaceId: string, captureId: string, decodeId: string): Promise<Decoded> {
+export async function getDecoded(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	decodeId: string
+): Promise<Decoded> {
 	const { decode, entry } = await decodedEntry(services, workspaceId, captureId, decodeId);
-	return { decode, map: entry.map, compiled: entry.compiled, store: entry.store, result: entry.result };
+	return {
+		decode,
+		map: entry.map,
+		compiled: entry.compiled,
+		store: entry.store,
+		result: entry.result
+	};
 }
 
 /** `getDecoded` plus the JSON summary (computed once per cached decode). */
@@ -159,13 +199,21 @@ export async function getDecodeSummary(
 	return { decode, summary: summaryOf(entry) };
 }
 
-async function decodedEntry(services: Services, workspaceId: string, captureId: string, decodeId: string): Promise<{ decode: DecodeRecord; entry: CacheEntry }> {
+async function decodedEntry(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	decodeId: string
+): Promise<{ decode: DecodeRecord; entry: CacheEntry }> {
 	const { db } = services;
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
 	const decode = await findDecode(db, capture.id, decodeId);
 	if (!decode) throw new Problem(404, 'Decode not found for this capture.');
 	if (decode.mapId === null) {
-		throw new Problem(410, `The map "${decode.mapName}" this decode used has been deleted; decode the capture with another map.`);
+		throw new Problem(
+			410,
+			`The map "${decode.mapName}" this decode used has been deleted; decode the capture with another map.`
+		);
 	}
 	const mapId = decode.mapId;
 	const key = decodeCacheKey(capture.id, mapId, decode.revision, decode.draftVersion);

@@ -36,18 +36,25 @@ export async function defineFrameFromCapture(
 	const label = undocumentedFrameName(input.id, input.extended);
 	const seen = result.ids.find((s) => s.id === input.id && s.extended === input.extended);
 	if (!seen) {
-		throw new Problem(404, `ID ${label.replace('Undocumented_', '')} (${input.extended ? 'extended' : 'standard'}) does not occur in this capture.`, [
-			{ path: 'id', message: 'not seen in this capture' }
-		]);
+		throw new Problem(
+			404,
+			`ID ${label.replace('Undocumented_', '')} (${input.extended ? 'extended' : 'standard'}) does not occur in this capture.`,
+			[{ path: 'id', message: 'not seen in this capture' }]
+		);
 	}
 	const capture = await requireCaptureRow(db, workspaceId, captureId);
 	// getDecoded refuses decodes whose map was deleted, so mapId is set here.
 	const map = await requireMap(db, workspaceId, decode.mapId!);
 	const existing = compileMap(map.draft).lookup(input.id, input.extended);
 	if (existing) {
-		throw new Problem(409, `The draft of "${map.name}" already defines this ID as frame "${existing.frame.name}".`, undefined, {
-			frameIndex: existing.frameIndex
-		});
+		throw new Problem(
+			409,
+			`The draft of "${map.name}" already defines this ID as frame "${existing.frame.name}".`,
+			undefined,
+			{
+				frameIndex: existing.frameIndex
+			}
+		);
 	}
 	const frame = undocumentedFrame(seen, capture.name);
 	const frameIndex = map.draft.frames.length;
@@ -58,7 +65,13 @@ export async function defineFrameFromCapture(
 		draft: { ...map.draft, frames: [...map.draft.frames, frame] },
 		actorId,
 		action: 'map.frame.define',
-		details: { frame: frame.name, id: input.id, extended: input.extended, capture: capture.id, decode: decode.id }
+		details: {
+			frame: frame.name,
+			id: input.id,
+			extended: input.extended,
+			capture: capture.id,
+			decode: decode.id
+		}
 	});
 	return { mapId: map.id, version, frameIndex };
 }

@@ -43,15 +43,26 @@ export function frameRow(store: FrameStore, i: number): FrameRow {
 	const payload = store.payload(i);
 	let dataHex = '';
 	for (let k = 0; k < payload.length; k++) dataHex += (k ? ' ' : '') + HEX[payload[k]];
-	return { index: i, time: store.time[i], id: store.id[i], extended: (store.flags[i] & FLAG_EXTENDED) !== 0, length: payload.length, dataHex };
+	return {
+		index: i,
+		time: store.time[i],
+		id: store.id[i],
+		extended: (store.flags[i] & FLAG_EXTENDED) !== 0,
+		length: payload.length,
+		dataHex
+	};
 }
 
 /** One page of frames in capture order; `total` counts every frame the filter lets through. */
-export function listFrames(store: FrameStore, query: Pick<FramesQuery, 'offset' | 'limit' | 'id' | 'extended'>): { total: number; frames: FrameRow[] } {
+export function listFrames(
+	store: FrameStore,
+	query: Pick<FramesQuery, 'offset' | 'limit' | 'id' | 'extended'>
+): { total: number; frames: FrameRow[] } {
 	const { offset, limit, id, extended } = query;
 	const frames: FrameRow[] = [];
 	if (id === undefined) {
-		for (let i = offset; i < Math.min(store.count, offset + limit); i++) frames.push(frameRow(store, i));
+		for (let i = offset; i < Math.min(store.count, offset + limit); i++)
+			frames.push(frameRow(store, i));
 		return { total: store.count, frames };
 	}
 	// One pass over the ID column: cheap next to JSON (a few ms for a million frames).
@@ -69,7 +80,10 @@ export function listFrames(store: FrameStore, query: Pick<FramesQuery, 'offset' 
 
 export function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
 	if (index >= store.count) {
-		throw new Problem(404, `This capture has ${store.count} frames (index 0–${store.count - 1}); there is no frame ${index}.`);
+		throw new Problem(
+			404,
+			`This capture has ${store.count} frames (index 0–${store.count - 1}); there is no frame ${index}.`
+		);
 	}
 	const row = frameRow(store, index);
 	const definition = compiled.lookup(row.id, row.extended);
@@ -77,7 +91,16 @@ export function frameDetail(store: FrameStore, compiled: CompiledMap, index: num
 	const results = decodeFrame(definition.frame, store.payload(index));
 	const signals = definition.frame.signals.map((signal, k): FrameSignalRow => {
 		const r = results[k];
-		if (!r.present) return { name: signal.name, raw: null, value: null, unit: signal.unit, label: null, present: false, inRange: null };
+		if (!r.present)
+			return {
+				name: signal.name,
+				raw: null,
+				value: null,
+				unit: signal.unit,
+				label: null,
+				present: false,
+				inRange: null
+			};
 		return {
 			name: signal.name,
 			raw: typeof r.raw === 'bigint' ? r.raw.toString() : r.raw,

@@ -13,7 +13,13 @@ import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { byteChunks } from '../storage/storage';
-import { insertCapture, requireCaptureRow, requireCaptureSummary, updateCapture, type CaptureSummary } from './captures-db';
+import {
+	insertCapture,
+	requireCaptureRow,
+	requireCaptureSummary,
+	updateCapture,
+	type CaptureSummary
+} from './captures-db';
 import type { CaptureReport } from './schemas';
 import { captureKeys, forgetFrameStore } from './store';
 import { DETECTION_BYTES, detectFromHead } from './upload';
@@ -42,7 +48,14 @@ export class CaptureProcessingError extends Error {
 }
 
 function reportOf(r: Omit<Awaited<ReturnType<typeof ingestCapture>>, 'store'>): CaptureReport {
-	return { frameCount: r.frameCount, lineCount: r.lineCount, badRows: r.badRows, badRowCount: r.badRowCount, warnings: r.warnings, layoutNotes: r.layoutNotes };
+	return {
+		frameCount: r.frameCount,
+		lineCount: r.lineCount,
+		badRows: r.badRows,
+		badRowCount: r.badRowCount,
+		warnings: r.warnings,
+		layoutNotes: r.layoutNotes
+	};
 }
 
 /** Streams `source` to a new capture worker and resolves with its parse. */
@@ -64,13 +77,25 @@ export async function parseInWorker(
 				onProgress(parsed);
 				resume?.();
 			} else if (message.type === 'done') {
-				resolve({ report: reportOf(message.report), frameCount: message.report.frameCount, durationS: message.durationS, store: message.store, threadId: message.threadId });
+				resolve({
+					report: reportOf(message.report),
+					frameCount: message.report.frameCount,
+					durationS: message.durationS,
+					store: message.store,
+					threadId: message.threadId
+				});
 			} else {
-				reject(message.formatError ? new CaptureProcessingError(message.message) : new Error(message.message));
+				reject(
+					message.formatError
+						? new CaptureProcessingError(message.message)
+						: new Error(message.message)
+				);
 			}
 		});
 		worker.on('error', reject);
-		worker.on('exit', (code) => reject(new Error(`the capture worker stopped unexpectedly (exit code ${code})`)));
+		worker.on('exit', (code) =>
+			reject(new Error(`the capture worker stopped unexpectedly (exit code ${code})`))
+		);
 	});
 	result.catch((error: Error) => {
 		failure = error;
@@ -106,7 +131,8 @@ export function processingDone(captureId: string): Promise<void> {
 	return running.get(captureId) ?? Promise.resolve();
 }
 
-export const INTERRUPTED_MESSAGE = 'Processing was interrupted when the server stopped; process the capture again.';
+export const INTERRUPTED_MESSAGE =
+	'Processing was interrupted when the server stopped; process the capture again.';
 
 /**
  * At server start no worker of this process can be running, so a capture still marked
@@ -127,26 +153,46 @@ export async function startProcessing(
 	input: { workspaceId: string; captureId: string; layout: CaptureLayout; actorId: string }
 ): Promise<CaptureSummary> {
 	const row = await requireCaptureRow(services.db, input.workspaceId, input.captureId);
-	if (row.status === 'processing' || running.has(row.id)) throw new Problem(409, 'This capture is being processed already.');
+	if (row.status === 'processing' || running.has(row.id))
+		throw new Problem(409, 'This capture is being processed already.');
 	if (row.status === 'ready') {
-		throw new Problem(409, 'This capture is processed already; reopening it never parses the file again. Upload the file again to use another layout.');
+		throw new Problem(
+			409,
+			'This capture is processed already; reopening it never parses the file again. Upload the file again to use another layout.'
+		);
 	}
 	// Conditional on the status read above, so two requests at once cannot both start a worker.
 	const claimed = await services.db
 		.updateTable('captures')
-		.set({ status: 'processing', progress: 0, error: null, layout_json: JSON.stringify(input.layout) })
+		.set({
+			status: 'processing',
+			progress: 0,
+			error: null,
+			layout_json: JSON.stringify(input.layout)
+		})
 		.where('id', '=', row.id)
 		.where('status', '=', row.status)
 		.executeTakeFirst();
-	if (Number(claimed.numUpdatedRows) !== 1) throw new Problem(409, 'This capture is being processed already.');
-	await appendAudit(services.db, { workspaceId: input.workspaceId, actorId: input.actorId, action: 'capture.process', target: row.id });
+	if (Number(claimed.numUpdatedRows) !== 1)
+		throw new Problem(409, 'This capture is being processed already.');
+	await appendAudit(services.db, {
+		workspaceId: input.workspaceId,
+		actorId: input.actorId,
+		action: 'capture.process',
+		target: row.id
+	});
 	const work = runProcessing(services, row, input.layout).finally(() => running.delete(row.id));
 	running.set(row.id, work);
 	return requireCaptureSummary(services.db, input.workspaceId, row.id);
 }
 
 /** Stores the frame store, then marks the row ready with its report (the row never points at a missing store). */
-async function saveOutcome(services: ProcessingServices, captureId: string, storeKey: string, outcome: Omit<ParseOutcome, 'threadId'>): Promise<void> {
+async function saveOutcome(
+	services: ProcessingServices,
+	captureId: string,
+	storeKey: string,
+	outcome: Omit<ParseOutcome, 'threadId'>
+): Promise<void> {
 	await services.storage.put(storeKey, single(outcome.store));
 	forgetFrameStore(storeKey);
 	await updateCapture(services.db, captureId, {
@@ -172,7 +218,10 @@ export async function importCaptureInProcess(
 	const bytes = new TextEncoder().encode(input.text);
 	const id = crypto.randomUUID();
 	const keys = captureKeys(input.workspaceId, id);
-	const detected = detectFromHead(bytes.subarray(0, DETECTION_BYTES), bytes.byteLength <= DETECTION_BYTES);
+	const detected = detectFromHead(
+		bytes.subarray(0, DETECTION_BYTES),
+		bytes.byteLength <= DETECTION_BYTES
+	);
 	await services.storage.put(keys.raw, single(bytes));
 	await insertCapture(services.db, {
 		id,
@@ -196,12 +245,21 @@ export async function importCaptureInProcess(
 	const { store, ...report } = await ingestCapture(input.text, { layout: detected.layout });
 	let durationS = 0;
 	for (const t of store.time) if (t > durationS) durationS = t;
-	await saveOutcome(services, id, keys.store, { report: reportOf(report), frameCount: report.frameCount, durationS, store: store.toBytes() });
+	await saveOutcome(services, id, keys.store, {
+		report: reportOf(report),
+		frameCount: report.frameCount,
+		durationS,
+		store: store.toBytes()
+	});
 	return id;
 }
 
 /** Parses in the worker and stores the result; any failure is written to the row, never thrown. */
-async function runProcessing(services: ProcessingServices, row: CaptureRow, layout: CaptureLayout): Promise<void> {
+async function runProcessing(
+	services: ProcessingServices,
+	row: CaptureRow,
+	layout: CaptureLayout
+): Promise<void> {
 	const storeKey = captureKeys(row.workspace_id, row.id).store;
 	let lastWrite = 0;
 	let writing: Promise<void> = Promise.resolve();
@@ -225,6 +283,11 @@ async function runProcessing(services: ProcessingServices, row: CaptureRow, layo
 			error instanceof CaptureProcessingError
 				? error.message
 				: `Processing failed: ${error instanceof Error ? error.message : String(error)}. The uploaded file is kept; try again or upload it again.`;
-		await updateCapture(services.db, row.id, { status: 'failed', progress: 0, error: message, store_key: null }).catch(() => {});
+		await updateCapture(services.db, row.id, {
+			status: 'failed',
+			progress: 0,
+			error: message,
+			store_key: null
+		}).catch(() => {});
 	}
 }

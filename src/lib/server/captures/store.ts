@@ -13,9 +13,15 @@ const CACHE_SIZE = 4;
 /** Keyed by store key (a new processing writes a new key), holding the load in flight too. */
 const cache = new Map<string, Promise<FrameStore>>();
 
-export async function loadFrameStore(services: Pick<Services, 'storage'>, capture: Pick<CaptureRow, 'id' | 'status' | 'store_key'>): Promise<FrameStore> {
+export async function loadFrameStore(
+	services: Pick<Services, 'storage'>,
+	capture: Pick<CaptureRow, 'id' | 'status' | 'store_key'>
+): Promise<FrameStore> {
 	if (capture.status !== 'ready' || capture.store_key === null) {
-		throw new Problem(409, `The capture is not processed yet (status: ${capture.status}); process it first.`);
+		throw new Problem(
+			409,
+			`The capture is not processed yet (status: ${capture.status}); process it first.`
+		);
 	}
 	const key = capture.store_key;
 	let entry = cache.get(key);

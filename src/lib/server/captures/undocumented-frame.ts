@@ -7,7 +7,10 @@ import { frameSchema, PAYLOAD_LENGTHS, type Frame } from '../../can/map';
 
 /** `Undocumented_0x5F8` / `Undocumented_0x18FF1000`: the ID in the name, as an editor would search for it. */
 export function undocumentedFrameName(id: number, extended: boolean): string {
-	return `Undocumented_0x${id.toString(16).toUpperCase().padStart(extended ? 8 : 3, '0')}`;
+	return `Undocumented_0x${id
+		.toString(16)
+		.toUpperCase()
+		.padStart(extended ? 8 : 3, '0')}`;
 }
 
 /** The smallest payload length a frame can declare that holds `bytes` (CAN FD lengths step, ISO 11898-1). */

@@ -47,7 +47,10 @@ export function looksBinary(bytes: Uint8Array): boolean {
 }
 
 /** Passes the body through, keeping its first DETECTION_BYTES and refusing binary content early. */
-async function* tapped(body: ReadableStream<Uint8Array>, head: { bytes: Uint8Array; length: number }): AsyncGenerator<Uint8Array> {
+async function* tapped(
+	body: ReadableStream<Uint8Array>,
+	head: { bytes: Uint8Array; length: number }
+): AsyncGenerator<Uint8Array> {
 	let sniffed = false;
 	const reader = body.getReader();
 	let finished = false;
@@ -84,12 +87,19 @@ export function detectFromHead(head: Uint8Array, complete: boolean): DetectedLay
 		if (cut > 0) text = text.slice(0, cut + 1);
 	}
 	const guess = detectCaptureLayout(text);
-	const preview = Papa.parse<string[]>(text, { delimiter: guess.layout.delimiter, preview: PREVIEW_ROWS, skipEmptyLines: 'greedy' });
+	const preview = Papa.parse<string[]>(text, {
+		delimiter: guess.layout.delimiter,
+		preview: PREVIEW_ROWS,
+		skipEmptyLines: 'greedy'
+	});
 	return { layout: guess.layout, notes: guess.notes, sampleRows: preview.data };
 }
 
 const refuseNotCapture = (detail: string) =>
-	new Problem(415, `This file is not a capture Framewright can read: ${detail} Nothing was stored.`);
+	new Problem(
+		415,
+		`This file is not a capture Framewright can read: ${detail} Nothing was stored.`
+	);
 
 export async function receiveCaptureUpload(
 	services: Pick<Services, 'db' | 'storage' | 'config'>,
@@ -97,19 +107,30 @@ export async function receiveCaptureUpload(
 ): Promise<{ capture: CaptureSummary; detected: DetectedLayout }> {
 	const limit = services.config.captureMaxBytes;
 	const tooLarge = () =>
-		new Problem(413, `The file is larger than the upload limit of ${formatBytes(limit)}; nothing was stored.`, undefined, { maxBytes: limit });
+		new Problem(
+			413,
+			`The file is larger than the upload limit of ${formatBytes(limit)}; nothing was stored.`,
+			undefined,
+			{ maxBytes: limit }
+		);
 	if (input.contentLength !== null && input.contentLength > limit) throw tooLarge();
-	if (input.body === null || input.contentLength === 0) throw new Problem(400, 'The file is empty; there is nothing to upload.');
+	if (input.body === null || input.contentLength === 0)
+		throw new Problem(400, 'The file is empty; there is nothing to upload.');
 
 	const id = crypto.randomUUID();
 	const keys = captureKeys(input.workspaceId, id);
 	const head = { bytes: new Uint8Array(DETECTION_BYTES), length: 0 };
 	let size: number;
 	try {
-		({ size } = await services.storage.put(keys.raw, tapped(input.body, head), { maxBytes: limit }));
+		({ size } = await services.storage.put(keys.raw, tapped(input.body, head), {
+			maxBytes: limit
+		}));
 	} catch (error) {
 		if (error instanceof StorageLimitError) throw tooLarge();
-		if (error instanceof NotACaptureError) throw refuseNotCapture('it holds binary data, but captures are CSV text (time, ID, data per row).');
+		if (error instanceof NotACaptureError)
+			throw refuseNotCapture(
+				'it holds binary data, but captures are CSV text (time, ID, data per row).'
+			);
 		throw error;
 	}
 	if (size === 0) {

@@ -27,7 +27,12 @@ const wholeNumber = (name: string, min: number, max: number) =>
 		.trim()
 		.regex(/^\d{1,9}$/, `${name} must be a whole number`)
 		.transform(Number)
-		.pipe(z.number().min(min, `${name} must be at least ${min}`).max(max, `${name} must be at most ${max}`));
+		.pipe(
+			z
+				.number()
+				.min(min, `${name} must be at least ${min}`)
+				.max(max, `${name} must be at most ${max}`)
+		);
 
 export const decodeInputSchema = z.strictObject({
 	mapId: recordId('map'),
@@ -68,7 +73,10 @@ export const framesQuerySchema = z.object({
 	limit: wholeNumber('limit', 1, MAX_FRAMES_PAGE).default(100),
 	id: hexId.optional(),
 	/** With `id`: only standard (0) or only extended (1) frames of that ID; both when absent. */
-	extended: z.enum(['0', '1'], { error: 'extended must be 0 or 1' }).transform((v) => v === '1').optional()
+	extended: z
+		.enum(['0', '1'], { error: 'extended must be 0 or 1' })
+		.transform((v) => v === '1')
+		.optional()
 });
 export type FramesQuery = z.infer<typeof framesQuerySchema>;
 
@@ -83,7 +91,10 @@ export const defineFrameInputSchema = z
 		id: canIdSchema,
 		extended: z.boolean({ error: 'extended must be true or false' })
 	})
-	.refine((d) => d.extended || d.id <= 0x7ff, { path: ['id'], message: 'a standard (11-bit) ID is at most 0x7FF' });
+	.refine((d) => d.extended || d.id <= 0x7ff, {
+		path: ['id'],
+		message: 'a standard (11-bit) ID is at most 0x7FF'
+	});
 
 export const exportQuerySchema = z
 	.object({

@@ -24,7 +24,9 @@ export async function bundleCaptureWorker(outfile: string): Promise<void> {
 		target: 'node20',
 		logLevel: 'warning',
 		// CommonJS dependencies bundled into an ES module may still call require().
-		banner: { js: "import { createRequire as __fwRequire } from 'node:module'; const require = __fwRequire(import.meta.url);" }
+		banner: {
+			js: "import { createRequire as __fwRequire } from 'node:module'; const require = __fwRequire(import.meta.url);"
+		}
 	});
 }
 
@@ -37,7 +39,12 @@ let onDemand: Promise<string> | undefined;
 export function captureWorkerPath(): Promise<string> {
 	const configured = process.env.FW_CAPTURE_WORKER;
 	if (configured) {
-		if (!existsSync(configured)) return Promise.reject(new Error(`FW_CAPTURE_WORKER points at ${configured}, which does not exist; run \`npm run build\`.`));
+		if (!existsSync(configured))
+			return Promise.reject(
+				new Error(
+					`FW_CAPTURE_WORKER points at ${configured}, which does not exist; run \`npm run build\`.`
+				)
+			);
 		return Promise.resolve(resolve(configured)); // a Worker needs an absolute path
 	}
 	if (existsSync(join(sourceFolder(), SOURCE_NAME))) {
@@ -54,5 +61,7 @@ export function captureWorkerPath(): Promise<string> {
 	// Running from a production build without scripts/serve.js.
 	const built = resolve(process.env.FW_BUILD_DIR || 'build', WORKER_FILE_NAME);
 	if (existsSync(built)) return Promise.resolve(built);
-	return Promise.reject(new Error(`The capture worker is missing (${built}); run \`npm run build\`.`));
+	return Promise.reject(
+		new Error(`The capture worker is missing (${built}); run \`npm run build\`.`)
+	);
 }

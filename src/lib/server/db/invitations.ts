@@ -17,7 +17,11 @@ export function hashInvitationToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 
-export async function listPendingInvitations(db: DB, workspaceId: string, now = new Date()): Promise<InvitationView[]> {
+export async function listPendingInvitations(
+	db: DB,
+	workspaceId: string,
+	now = new Date()
+): Promise<InvitationView[]> {
 	return db
 		.selectFrom('invitations')
 		.leftJoin('User', 'User.id', 'invitations.invited_by')
@@ -41,7 +45,14 @@ export async function listPendingInvitations(db: DB, workspaceId: string, now = 
  */
 export async function createInvitation(
 	db: DB,
-	input: { workspaceId: string; email: string; role: Role; invitedBy: string; maxAgeMs: number; now?: Date }
+	input: {
+		workspaceId: string;
+		email: string;
+		role: Role;
+		invitedBy: string;
+		maxAgeMs: number;
+		now?: Date;
+	}
 ): Promise<{ invitation: InvitationView; token: string }> {
 	const now = input.now ?? new Date();
 	const email = input.email.trim().toLowerCase();
@@ -82,15 +93,28 @@ export async function createInvitation(
 			target: email,
 			details: { role: input.role, expiresAt: row.expires_at }
 		});
-		const inviter = await trx.selectFrom('User').select('email').where('id', '=', input.invitedBy).executeTakeFirst();
+		const inviter = await trx
+			.selectFrom('User')
+			.select('email')
+			.where('id', '=', input.invitedBy)
+			.executeTakeFirst();
 		return {
 			token,
-			invitation: { id: row.id, email, role: row.role, expiresAt: row.expires_at, invitedBy: inviter?.email ?? null }
+			invitation: {
+				id: row.id,
+				email,
+				role: row.role,
+				expiresAt: row.expires_at,
+				invitedBy: inviter?.email ?? null
+			}
 		};
 	});
 }
 
-export async function revokeInvitation(db: DB, input: { workspaceId: string; id: string; actorId: string }): Promise<void> {
+export async function revokeInvitation(
+	db: DB,
+	input: { workspaceId: string; id: string; actorId: string }
+): Promise<void> {
 	await db.transaction().execute(async (trx) => {
 		const row = await trx
 			.selectFrom('invitations')
@@ -116,7 +140,10 @@ export interface InvitationLookup {
 	workspace: { id: string; slug: string; name: string };
 }
 
-export async function findInvitationByToken(db: DB, token: string): Promise<InvitationLookup | undefined> {
+export async function findInvitationByToken(
+	db: DB,
+	token: string
+): Promise<InvitationLookup | undefined> {
 	const row = await db
 		.selectFrom('invitations')
 		.innerJoin('workspaces', 'workspaces.id', 'invitations.workspace_id')
@@ -126,15 +153,28 @@ export async function findInvitationByToken(db: DB, token: string): Promise<Invi
 		.executeTakeFirst();
 	if (!row) return undefined;
 	const { workspaceSlug, workspaceName, ...invitation } = row;
-	return { invitation, workspace: { id: invitation.workspace_id, slug: workspaceSlug, name: workspaceName } };
+	return {
+		invitation,
+		workspace: { id: invitation.workspace_id, slug: workspaceSlug, name: workspaceName }
+	};
 }
 
 /** Why an invitation can no longer be accepted, or null while it is usable. */
-export function invitationProblem(invitation: Invitation | undefined, now = new Date()): Problem | null {
-	if (!invitation) return new Problem(404, 'This invitation link is not valid. Ask the workspace owner for a new one.');
+export function invitationProblem(
+	invitation: Invitation | undefined,
+	now = new Date()
+): Problem | null {
+	if (!invitation)
+		return new Problem(
+			404,
+			'This invitation link is not valid. Ask the workspace owner for a new one.'
+		);
 	if (invitation.accepted_at) return new Problem(410, 'This invitation has already been used.');
 	if (invitation.expires_at <= now.toISOString()) {
-		return new Problem(410, 'This invitation has expired. Ask the workspace owner to send a new one.');
+		return new Problem(
+			410,
+			'This invitation has expired. Ask the workspace owner to send a new one.'
+		);
 	}
 	return null;
 }
@@ -163,11 +203,17 @@ export async function acceptInvitation(
 			.where('id', '=', invitation.id)
 			.where('accepted_at', 'is', null)
 			.executeTakeFirst();
-		if (Number(marked.numUpdatedRows) !== 1) throw new Problem(410, 'This invitation has already been used.');
+		if (Number(marked.numUpdatedRows) !== 1)
+			throw new Problem(410, 'This invitation has already been used.');
 		// Someone who is already a member keeps their current role.
 		await trx
 			.insertInto('memberships')
-			.values({ workspace_id: workspace.id, user_id: input.user.id, role: invitation.role, joined_at: now.toISOString() })
+			.values({
+				workspace_id: workspace.id,
+				user_id: input.user.id,
+				role: invitation.role,
+				joined_at: now.toISOString()
+			})
 			.onConflict((oc) => oc.columns(['workspace_id', 'user_id']).doNothing())
 			.execute();
 		await appendAudit(trx, {

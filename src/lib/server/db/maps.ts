@@ -33,7 +33,10 @@ export interface MapRecord {
 /** Stored maps are written by serializeMap, so a parse failure means the database was altered by hand. */
 export function readStoredMap(text: string, what: string): CanMap {
 	const parsed = parseMap(text);
-	if (!parsed.ok) throw new Error(`Stored ${what} is not a valid map: ${parsed.problems[0]?.path} ${parsed.problems[0]?.message}`);
+	if (!parsed.ok)
+		throw new Error(
+			`Stored ${what} is not a valid map: ${parsed.problems[0]?.path} ${parsed.problems[0]?.message}`
+		);
 	return parsed.map;
 }
 
@@ -77,7 +80,11 @@ export async function listMaps(db: DB, workspaceId: string): Promise<MapSummary[
 }
 
 /** The map if it belongs to the workspace; a map of another workspace is as unknown as a missing one. */
-export async function findMapForWorkspace(db: DB, workspaceId: string, mapId: string): Promise<MapRecord | undefined> {
+export async function findMapForWorkspace(
+	db: DB,
+	workspaceId: string,
+	mapId: string
+): Promise<MapRecord | undefined> {
 	const row = await db
 		.selectFrom('maps')
 		.leftJoin('User', 'User.id', 'maps.updated_by')
@@ -106,7 +113,13 @@ export async function requireMap(db: DB, workspaceId: string, mapId: string): Pr
 
 export async function createMap(
 	db: DB,
-	input: { workspaceId: string; map: CanMap; actorId: string; source: 'blank' | 'json' | 'csv'; now?: Date }
+	input: {
+		workspaceId: string;
+		map: CanMap;
+		actorId: string;
+		source: 'blank' | 'json' | 'csv';
+		now?: Date;
+	}
 ): Promise<{ id: string; name: string }> {
 	const now = (input.now ?? new Date()).toISOString();
 	const id = crypto.randomUUID();
@@ -142,7 +155,15 @@ export async function createMap(
  */
 export async function replaceDraft(
 	db: DB,
-	input: { workspaceId: string; mapId: string; version: number; draft: CanMap; actorId: string; action: string; details?: Record<string, unknown> }
+	input: {
+		workspaceId: string;
+		mapId: string;
+		version: number;
+		draft: CanMap;
+		actorId: string;
+		action: string;
+		details?: Record<string, unknown>;
+	}
 ): Promise<{ version: number }> {
 	return db.transaction().execute(async (trx) => {
 		const current = await requireMap(trx, input.workspaceId, input.mapId);
@@ -184,7 +205,11 @@ export async function saveDraft(
 	db: DB,
 	input: { workspaceId: string; mapId: string; version: number; draft: CanMap; actorId: string }
 ): Promise<{ version: number }> {
-	return replaceDraft(db, { ...input, action: 'map.draft.save', details: { frames: input.draft.frames.length } });
+	return replaceDraft(db, {
+		...input,
+		action: 'map.draft.save',
+		details: { frames: input.draft.frames.length }
+	});
 }
 
 /** Renaming changes the draft's name too, so the next revision carries it. */
@@ -202,7 +227,10 @@ export async function renameMap(
 	return { version, name: input.name };
 }
 
-export async function deleteMap(db: DB, input: { workspaceId: string; mapId: string; actorId: string }): Promise<void> {
+export async function deleteMap(
+	db: DB,
+	input: { workspaceId: string; mapId: string; actorId: string }
+): Promise<void> {
 	await db.transaction().execute(async (trx) => {
 		const map = await requireMap(trx, input.workspaceId, input.mapId);
 		// Revisions and share links go with it (ON DELETE CASCADE); the audit trail stays.

@@ -9,10 +9,32 @@ async function setup() {
 	const owner = await createUser(services.db, 'owner@example.test');
 	const other = await createUser(services.db, 'other@example.test');
 	const workspace = await createWorkspace(services.db, { name: 'Owners team', ownerId: owner.id });
-	await services.db.insertInto('memberships').values({ workspace_id: workspace.id, user_id: other.id, role: 'editor', joined_at: new Date().toISOString() }).execute();
+	await services.db
+		.insertInto('memberships')
+		.values({
+			workspace_id: workspace.id,
+			user_id: other.id,
+			role: 'editor',
+			joined_at: new Date().toISOString()
+		})
+		.execute();
 	const route = '/api/workspaces/[ws]/members/[userId]';
-	const call = (handler: typeof memberRoute.PATCH, actor: typeof owner, userId: string, body?: unknown) =>
-		handler(makeEvent({ services, user: actor, routeId: route, params: { ws: workspace.slug, userId }, method: body ? 'PATCH' : 'DELETE', body }));
+	const call = (
+		handler: typeof memberRoute.PATCH,
+		actor: typeof owner,
+		userId: string,
+		body?: unknown
+	) =>
+		handler(
+			makeEvent({
+				services,
+				user: actor,
+				routeId: route,
+				params: { ws: workspace.slug, userId },
+				method: body ? 'PATCH' : 'DELETE',
+				body
+			})
+		);
 	return { services, owner, other, workspace, call };
 }
 
@@ -37,24 +59,45 @@ describe('the last owner', () => {
 		const { services, owner, other, workspace, call } = await setup();
 		const promoted = await call(memberRoute.PATCH, owner, other.id, { role: 'owner' });
 		expect(promoted.status).toBe(200);
-		expect(await promoted.json()).toMatchObject({ member: { userId: other.id, email: 'other@example.test', role: 'owner' } });
+		expect(await promoted.json()).toMatchObject({
+			member: { userId: other.id, email: 'other@example.test', role: 'owner' }
+		});
 		expect((await call(memberRoute.PATCH, owner, owner.id, { role: 'viewer' })).status).toBe(200);
-		const roles = Object.fromEntries((await listMembers(services.db, workspace.id)).map((m) => [m.email, m.role]));
+		const roles = Object.fromEntries(
+			(await listMembers(services.db, workspace.id)).map((m) => [m.email, m.role])
+		);
 		expect(roles).toEqual({ 'owner@example.test': 'viewer', 'other@example.test': 'owner' });
 		// And now the other owner is the last one.
-		await expect(changeMemberRole(services.db, { workspaceId: workspace.id, userId: other.id, role: 'editor', actorId: other.id })).rejects.toMatchObject({ status: 409 });
+		await expect(
+			changeMemberRole(services.db, {
+				workspaceId: workspace.id,
+				userId: other.id,
+				role: 'editor',
+				actorId: other.id
+			})
+		).rejects.toMatchObject({ status: 409 });
 	});
 
 	it('records role changes in the audit log', async () => {
 		const { services, owner, other, call } = await setup();
 		await call(memberRoute.PATCH, owner, other.id, { role: 'viewer' });
-		const entry = await services.db.selectFrom('audit_log').selectAll().orderBy('id', 'desc').executeTakeFirstOrThrow();
-		expect(entry).toMatchObject({ action: 'member.role_change', actor_id: owner.id, target: other.id });
+		const entry = await services.db
+			.selectFrom('audit_log')
+			.selectAll()
+			.orderBy('id', 'desc')
+			.executeTakeFirstOrThrow();
+		expect(entry).toMatchObject({
+			action: 'member.role_change',
+			actor_id: owner.id,
+			target: other.id
+		});
 		expect(JSON.parse(entry.details)).toEqual({ from: 'editor', to: 'viewer' });
 	});
 
 	it('gives 404 for a user who is not a member', async () => {
 		const { owner, call } = await setup();
-		expect((await call(memberRoute.PATCH, owner, 'no-such-user', { role: 'viewer' })).status).toBe(404);
+		expect((await call(memberRoute.PATCH, owner, 'no-such-user', { role: 'viewer' })).status).toBe(
+			404
+		);
 	});
 });

@@ -12,7 +12,11 @@ export interface MemberView {
 	joinedAt: string;
 }
 
-export async function findMembership(db: DB, workspaceId: string, userId: string): Promise<Membership | undefined> {
+export async function findMembership(
+	db: DB,
+	workspaceId: string,
+	userId: string
+): Promise<Membership | undefined> {
 	return db
 		.selectFrom('memberships')
 		.selectAll()
@@ -36,7 +40,10 @@ function memberQuery(db: DB, workspaceId: string) {
 }
 
 export async function listMembers(db: DB, workspaceId: string): Promise<MemberView[]> {
-	return memberQuery(db, workspaceId).orderBy('memberships.joined_at').orderBy('User.email').execute();
+	return memberQuery(db, workspaceId)
+		.orderBy('memberships.joined_at')
+		.orderBy('User.email')
+		.execute();
 }
 
 async function countOwners(db: DB, workspaceId: string): Promise<number> {
@@ -69,7 +76,11 @@ export async function changeMemberRole(
 	return db.transaction().execute(async (trx) => {
 		const membership = await requireMember(trx, input.workspaceId, input.userId);
 		if (input.role !== 'owner') {
-			await refuseIfLastOwner(trx, membership, 'The last owner cannot be demoted. Make someone else an owner first.');
+			await refuseIfLastOwner(
+				trx,
+				membership,
+				'The last owner cannot be demoted. Make someone else an owner first.'
+			);
 		}
 		await trx
 			.updateTable('memberships')
@@ -84,7 +95,9 @@ export async function changeMemberRole(
 			target: input.userId,
 			details: { from: membership.role, to: input.role }
 		});
-		return memberQuery(trx, input.workspaceId).where('memberships.user_id', '=', input.userId).executeTakeFirstOrThrow();
+		return memberQuery(trx, input.workspaceId)
+			.where('memberships.user_id', '=', input.userId)
+			.executeTakeFirstOrThrow();
 	});
 }
 

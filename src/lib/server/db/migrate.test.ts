@@ -54,7 +54,11 @@ describe('migrations', () => {
 		const full = await schemaDump(db);
 		for (const name of Object.keys(migrations).reverse()) {
 			const { results } = await migrateDown(db);
-			expect(results?.[0]).toMatchObject({ migrationName: name, direction: 'Down', status: 'Success' });
+			expect(results?.[0]).toMatchObject({
+				migrationName: name,
+				direction: 'Down',
+				status: 'Success'
+			});
 		}
 		expect(await schemaDump(db)).toEqual([]);
 		await migrateToLatest(db);
@@ -67,7 +71,12 @@ describe('migrations', () => {
 		await expect(
 			db
 				.insertInto('memberships')
-				.values({ workspace_id: 'nope', user_id: 'nobody', role: 'owner', joined_at: new Date().toISOString() })
+				.values({
+					workspace_id: 'nope',
+					user_id: 'nobody',
+					role: 'owner',
+					joined_at: new Date().toISOString()
+				})
 				.execute()
 		).rejects.toThrow(/FOREIGN KEY/);
 	});

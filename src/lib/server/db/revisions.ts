@@ -4,7 +4,14 @@ import { lintMap, type LintProblem } from '../../can/lint';
 import { Problem } from '../problem';
 import { appendAudit } from './audit';
 import type { DB } from './connection';
-import { personRef, readStoredMap, replaceDraft, requireMap, staleDraft, type PersonRef } from './maps';
+import {
+	personRef,
+	readStoredMap,
+	replaceDraft,
+	requireMap,
+	staleDraft,
+	type PersonRef
+} from './maps';
 
 export interface RevisionSummary {
 	number: number;
@@ -36,10 +43,19 @@ function revisionQuery(db: DB, mapId: string) {
 /** Newest first, as a history reads. */
 export async function listRevisions(db: DB, mapId: string): Promise<RevisionSummary[]> {
 	const rows = await revisionQuery(db, mapId).orderBy('map_revisions.number', 'desc').execute();
-	return rows.map((r) => ({ number: r.number, note: r.note, publishedAt: r.publishedAt, publishedBy: personRef(r.email, r.userName) }));
+	return rows.map((r) => ({
+		number: r.number,
+		note: r.note,
+		publishedAt: r.publishedAt,
+		publishedBy: personRef(r.email, r.userName)
+	}));
 }
 
-export async function findRevision(db: DB, mapId: string, number: number): Promise<RevisionRecord | undefined> {
+export async function findRevision(
+	db: DB,
+	mapId: string,
+	number: number
+): Promise<RevisionRecord | undefined> {
 	const row = await revisionQuery(db, mapId)
 		.select('map_revisions.map_json as mapJson')
 		.where('map_revisions.number', '=', number)
@@ -55,7 +71,11 @@ export async function findRevision(db: DB, mapId: string, number: number): Promi
 	};
 }
 
-export async function requireRevision(db: DB, mapId: string, number: number): Promise<RevisionRecord> {
+export async function requireRevision(
+	db: DB,
+	mapId: string,
+	number: number
+): Promise<RevisionRecord> {
 	const revision = await findRevision(db, mapId, number);
 	if (!revision) throw new Problem(404, `This map has no revision r${number}.`);
 	return revision;
@@ -67,7 +87,14 @@ export async function requireRevision(db: DB, mapId: string, number: number): Pr
  */
 export async function publishRevision(
 	db: DB,
-	input: { workspaceId: string; mapId: string; version: number; note: string; actorId: string; now?: Date }
+	input: {
+		workspaceId: string;
+		mapId: string;
+		version: number;
+		note: string;
+		actorId: string;
+		now?: Date;
+	}
 ): Promise<RevisionRecord> {
 	const publishedAt = (input.now ?? new Date()).toISOString();
 	return db.transaction().execute(async (trx) => {
@@ -90,7 +117,15 @@ export async function publishRevision(
 		const id = crypto.randomUUID();
 		await trx
 			.insertInto('map_revisions')
-			.values({ id, map_id: map.id, number, note: input.note, map_json: serializeMap(map.draft), published_by: input.actorId, published_at: publishedAt })
+			.values({
+				id,
+				map_id: map.id,
+				number,
+				note: input.note,
+				map_json: serializeMap(map.draft),
+				published_by: input.actorId,
+				published_at: publishedAt
+			})
 			.execute();
 		await appendAudit(trx, {
 			workspaceId: input.workspaceId,
@@ -99,8 +134,19 @@ export async function publishRevision(
 			target: map.id,
 			details: { revision: number, version: map.version, note: input.note }
 		});
-		const publisher = await trx.selectFrom('User').select(['email', 'name']).where('id', '=', input.actorId).executeTakeFirst();
-		return { id, number, note: input.note, publishedAt, publishedBy: publisher ?? null, map: map.draft };
+		const publisher = await trx
+			.selectFrom('User')
+			.select(['email', 'name'])
+			.where('id', '=', input.actorId)
+			.executeTakeFirst();
+		return {
+			id,
+			number,
+			note: input.note,
+			publishedAt,
+			publishedBy: publisher ?? null,
+			map: map.draft
+		};
 	});
 }
 
@@ -134,7 +180,12 @@ export interface MapSnapshot {
 }
 
 /** A map as of a revision or its current draft, for exports, sheets and diffs. */
-export async function loadSnapshot(db: DB, workspaceId: string, mapId: string, ref: RevisionRef): Promise<MapSnapshot> {
+export async function loadSnapshot(
+	db: DB,
+	workspaceId: string,
+	mapId: string,
+	ref: RevisionRef
+): Promise<MapSnapshot> {
 	if (ref === 'draft') {
 		const map = await requireMap(db, workspaceId, mapId);
 		return { map: map.draft, label: 'draft', revision: null, lint: lintMap(map.draft) };

@@ -23,13 +23,20 @@ export function hashShareToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 
-function statusOf(link: { revoked_at: string | null; expires_at: string | null }, now: Date): ShareLinkStatus {
+function statusOf(
+	link: { revoked_at: string | null; expires_at: string | null },
+	now: Date
+): ShareLinkStatus {
 	if (link.revoked_at) return 'revoked';
 	if (link.expires_at !== null && link.expires_at <= now.toISOString()) return 'expired';
 	return 'active';
 }
 
-export async function listShareLinks(db: DB, mapId: string, now = new Date()): Promise<ShareLinkView[]> {
+export async function listShareLinks(
+	db: DB,
+	mapId: string,
+	now = new Date()
+): Promise<ShareLinkView[]> {
 	const rows = await db
 		.selectFrom('share_links')
 		.innerJoin('map_revisions', 'map_revisions.id', 'share_links.revision_id')
@@ -53,11 +60,20 @@ export async function listShareLinks(db: DB, mapId: string, now = new Date()): P
 /** Creates a link to one revision; the raw token is returned once and only its hash is stored. */
 export async function createShareLink(
 	db: DB,
-	input: { workspaceId: string; mapId: string; revision: number; expiresAt: string | null; actorId: string; now?: Date }
+	input: {
+		workspaceId: string;
+		mapId: string;
+		revision: number;
+		expiresAt: string | null;
+		actorId: string;
+		now?: Date;
+	}
 ): Promise<{ shareLink: ShareLinkView; token: string }> {
 	const now = input.now ?? new Date();
 	if (input.expiresAt !== null && input.expiresAt <= now.toISOString()) {
-		throw new Problem(400, 'The expiry must be in the future.', [{ path: 'expiresAt', message: 'must be a time in the future' }]);
+		throw new Problem(400, 'The expiry must be in the future.', [
+			{ path: 'expiresAt', message: 'must be a time in the future' }
+		]);
 	}
 	return db.transaction().execute(async (trx) => {
 		await requireMap(trx, input.workspaceId, input.mapId);
@@ -81,7 +97,11 @@ export async function createShareLink(
 			target: row.id,
 			details: { mapId: input.mapId, revision: revision.number, expiresAt: input.expiresAt }
 		});
-		const creator = await trx.selectFrom('User').select(['email', 'name']).where('id', '=', input.actorId).executeTakeFirst();
+		const creator = await trx
+			.selectFrom('User')
+			.select(['email', 'name'])
+			.where('id', '=', input.actorId)
+			.executeTakeFirst();
 		return {
 			token,
 			shareLink: {
@@ -116,7 +136,13 @@ export async function revokeShareLink(
 			.set({ revoked_at: (input.now ?? new Date()).toISOString() })
 			.where('id', '=', row.id)
 			.execute();
-		await appendAudit(trx, { workspaceId: input.workspaceId, actorId: input.actorId, action: 'share_link.revoke', target: row.id, details: { mapId: input.mapId } });
+		await appendAudit(trx, {
+			workspaceId: input.workspaceId,
+			actorId: input.actorId,
+			action: 'share_link.revoke',
+			target: row.id,
+			details: { mapId: input.mapId }
+		});
 	});
 }
 
@@ -129,7 +155,11 @@ export interface SharedRevision {
 }
 
 /** The revision behind a token, or undefined when it is unknown, revoked or expired (all look the same). */
-export async function findSharedRevision(db: DB, token: string, now = new Date()): Promise<SharedRevision | undefined> {
+export async function findSharedRevision(
+	db: DB,
+	token: string,
+	now = new Date()
+): Promise<SharedRevision | undefined> {
 	const row = await db
 		.selectFrom('share_links')
 		.innerJoin('map_revisions', 'map_revisions.id', 'share_links.revision_id')
@@ -155,7 +185,12 @@ export async function findSharedRevision(db: DB, token: string, now = new Date()
 		// The name as published in that revision, like every other export of it.
 		mapName: map.name,
 		workspaceName: row.workspaceName,
-		revision: { number: row.number, note: row.note, publishedAt: row.publishedAt, publishedBy: personRef(row.email, row.userName) },
+		revision: {
+			number: row.number,
+			note: row.note,
+			publishedAt: row.publishedAt,
+			publishedBy: personRef(row.email, row.userName)
+		},
 		map,
 		expiresAt: row.expires_at
 	};

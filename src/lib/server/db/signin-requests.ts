@@ -7,10 +7,18 @@ const HOUR_MS = 60 * 60 * 1000;
  * `limitPerHour` links went to this address in the past hour. Refused requests are not recorded,
  * so the window always reopens an hour after the earliest counted link.
  */
-export async function claimSigninLink(db: DB, email: string, limitPerHour: number, now = Date.now()): Promise<boolean> {
+export async function claimSigninLink(
+	db: DB,
+	email: string,
+	limitPerHour: number,
+	now = Date.now()
+): Promise<boolean> {
 	const address = email.trim().toLowerCase();
 	return db.transaction().execute(async (trx) => {
-		await trx.deleteFrom('signin_requests').where('requested_at', '<', now - 24 * HOUR_MS).execute();
+		await trx
+			.deleteFrom('signin_requests')
+			.where('requested_at', '<', now - 24 * HOUR_MS)
+			.execute();
 		const { n } = await trx
 			.selectFrom('signin_requests')
 			.select((eb) => eb.fn.countAll<number>().as('n'))

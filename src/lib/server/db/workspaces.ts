@@ -33,7 +33,10 @@ async function uniqueSlug(db: DB, name: string): Promise<string> {
 	return slug;
 }
 
-export async function createWorkspace(db: DB, input: { name: string; ownerId: string }): Promise<Workspace> {
+export async function createWorkspace(
+	db: DB,
+	input: { name: string; ownerId: string }
+): Promise<Workspace> {
 	return db.transaction().execute(async (trx) => {
 		const now = new Date().toISOString();
 		const workspace: Workspace = {
@@ -85,7 +88,11 @@ export async function renameWorkspace(
 			.where('id', '=', input.workspaceId)
 			.executeTakeFirst();
 		if (!before) throw new Problem(404, 'Workspace not found.');
-		await trx.updateTable('workspaces').set({ name: input.name }).where('id', '=', input.workspaceId).execute();
+		await trx
+			.updateTable('workspaces')
+			.set({ name: input.name })
+			.where('id', '=', input.workspaceId)
+			.execute();
 		await appendAudit(trx, {
 			workspaceId: input.workspaceId,
 			actorId: input.actorId,
@@ -97,7 +104,10 @@ export async function renameWorkspace(
 	});
 }
 
-export async function deleteWorkspace(db: DB, input: { workspaceId: string; actorId: string }): Promise<void> {
+export async function deleteWorkspace(
+	db: DB,
+	input: { workspaceId: string; actorId: string }
+): Promise<void> {
 	await db.transaction().execute(async (trx) => {
 		const before = await trx
 			.selectFrom('workspaces')

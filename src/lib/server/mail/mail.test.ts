@@ -11,8 +11,12 @@ describe('stand-in SMTP server and mailbox', () => {
 		const { db } = await createTestServices();
 		const server = await startStandInSmtp(db, 0);
 		try {
-			const sendMail = createSendMail({ host: '127.0.0.1', port: server.port, plain: true }, 'Framewright <no-reply@framewright.test>');
-			const url = 'http://localhost:3000/auth/callback/nodemailer?callbackUrl=%2F&token=abc123&email=crew%40example.test';
+			const sendMail = createSendMail(
+				{ host: '127.0.0.1', port: server.port, plain: true },
+				'Framewright <no-reply@framewright.test>'
+			);
+			const url =
+				'http://localhost:3000/auth/callback/nodemailer?callbackUrl=%2F&token=abc123&email=crew%40example.test';
 			await sendMail(signInMail('crew@example.test', url, new Date(Date.now() + 3_600_000)));
 			await sendMail({ to: 'other@example.test', subject: 'Second', text: 'No links here.' });
 
@@ -27,17 +31,23 @@ describe('stand-in SMTP server and mailbox', () => {
 	});
 
 	it('finds links in plain text without trailing punctuation', () => {
-		expect(extractLinks('Open <https://a.test/x?y=1> or (http://b.test/z), then https://c.test/p. Again https://a.test/x?y=1')).toEqual([
-			'https://a.test/x?y=1',
-			'http://b.test/z',
-			'https://c.test/p'
-		]);
+		expect(
+			extractLinks(
+				'Open <https://a.test/x?y=1> or (http://b.test/z), then https://c.test/p. Again https://a.test/x?y=1'
+			)
+		).toEqual(['https://a.test/x?y=1', 'http://b.test/z', 'https://c.test/p']);
 	});
 
 	it('is hidden (404) outside demo mode', async () => {
-		const services = await createTestServices({ FRAMEWRIGHT_DEMO: '0', SMTP_HOST: 'smtp.example.test' });
+		const services = await createTestServices({
+			FRAMEWRIGHT_DEMO: '0',
+			SMTP_HOST: 'smtp.example.test'
+		});
 		expect(services.config.demoMode).toBe(false);
 		const event = makeEvent({ services, user: null, routeId: '/dev/mailbox' });
-		expect(await outcome(() => mailboxPage.load(event as never))).toMatchObject({ kind: 'error', status: 404 });
+		expect(await outcome(() => mailboxPage.load(event as never))).toMatchObject({
+			kind: 'error',
+			status: 404
+		});
 	});
 });

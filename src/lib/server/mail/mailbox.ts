@@ -47,13 +47,24 @@ export async function storeMailboxMessage(
 	return id;
 }
 
-export async function listMailboxMessages(db: DB, filter: { to?: string } = {}): Promise<MailboxEntry[]> {
-	let query = db.selectFrom('mailbox_messages').selectAll().orderBy('received_at', 'desc').orderBy('rowid' as never, 'desc');
+export async function listMailboxMessages(
+	db: DB,
+	filter: { to?: string } = {}
+): Promise<MailboxEntry[]> {
+	let query = db
+		.selectFrom('mailbox_messages')
+		.selectAll()
+		.orderBy('received_at', 'desc')
+		.orderBy('rowid' as never, 'desc');
 	if (filter.to) query = query.where('to_address', '=', filter.to.trim().toLowerCase());
 	return (await query.execute()).map(toEntry);
 }
 
 export async function findMailboxMessage(db: DB, id: string): Promise<MailboxEntry | null> {
-	const row = await db.selectFrom('mailbox_messages').selectAll().where('id', '=', id).executeTakeFirst();
+	const row = await db
+		.selectFrom('mailbox_messages')
+		.selectAll()
+		.where('id', '=', id)
+		.executeTakeFirst();
 	return row ? toEntry(row) : null;
 }

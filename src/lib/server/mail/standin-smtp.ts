@@ -44,7 +44,9 @@ export async function startStandInSmtp(db: DB, port: number): Promise<StandInSmt
 					}
 					callback();
 				})
-				.catch((error: unknown) => callback(error instanceof Error ? error : new Error(String(error))));
+				.catch((error: unknown) =>
+					callback(error instanceof Error ? error : new Error(String(error)))
+				);
 		}
 	});
 	await new Promise<void>((resolve, reject) => {

@@ -3,7 +3,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { createLocalStorage } from './local';
-import { StorageKeyError, StorageLimitError, StorageNotFoundError, type BlobStorage } from './storage';
+import {
+	StorageKeyError,
+	StorageLimitError,
+	StorageNotFoundError,
+	type BlobStorage
+} from './storage';
 
 let root: string;
 let storage: BlobStorage;
@@ -16,7 +21,8 @@ afterEach(async () => {
 	await rm(root, { recursive: true, force: true });
 });
 
-const bytes = (n: number, seed = 1) => Uint8Array.from({ length: n }, (_, i) => (i * 31 + seed) & 0xff);
+const bytes = (n: number, seed = 1) =>
+	Uint8Array.from({ length: n }, (_, i) => (i * 31 + seed) & 0xff);
 
 /** A web stream of the given chunks that records whether it was cancelled. */
 function webStream(chunks: Uint8Array[]) {
@@ -54,7 +60,9 @@ describe('local storage', () => {
 		expect(size).toBe(7001);
 		expect(await storage.exists('captures/w1/c1.csv')).toBe(true);
 		expect(await storage.getBytes('captures/w1/c1.csv')).toEqual(expected);
-		const streamed = new Uint8Array(await new Response(await storage.get('captures/w1/c1.csv')).arrayBuffer());
+		const streamed = new Uint8Array(
+			await new Response(await storage.get('captures/w1/c1.csv')).arrayBuffer()
+		);
 		expect(streamed).toEqual(expected);
 	});
 
@@ -71,7 +79,9 @@ describe('local storage', () => {
 	});
 
 	it('leaves nothing behind when the stream fails, and keeps the earlier content of the key', async () => {
-		await expect(storage.put('c.csv', failingSource())).rejects.toThrow('connection reset by the client');
+		await expect(storage.put('c.csv', failingSource())).rejects.toThrow(
+			'connection reset by the client'
+		);
 		expect(await storage.exists('c.csv')).toBe(false);
 		expect(await filesUnder(root)).toEqual([]);
 
@@ -85,13 +95,19 @@ describe('local storage', () => {
 		const { stream, state } = webStream([bytes(1000), bytes(1000), bytes(1000), bytes(1000)]);
 		const failure = storage.put('big.csv', stream, { maxBytes: 2500 });
 		await expect(failure).rejects.toBeInstanceOf(StorageLimitError);
-		await expect(failure).rejects.toThrow('the upload is larger than the limit of 2.44 KiB; nothing was stored');
+		await expect(failure).rejects.toThrow(
+			'the upload is larger than the limit of 2.44 KiB; nothing was stored'
+		);
 		expect(state.cancelled).toBe(true);
 		expect(await storage.exists('big.csv')).toBe(false);
 		expect(await filesUnder(root)).toEqual([]);
 		// Exactly at the limit is allowed; the store's own limit caps a larger per-put request.
-		expect((await storage.put('edge.csv', webStream([bytes(2500)]).stream, { maxBytes: 2500 })).size).toBe(2500);
-		await expect(storage.put('huge.csv', webStream([bytes(10_001)]).stream, { maxBytes: 1e9 })).rejects.toBeInstanceOf(StorageLimitError);
+		expect(
+			(await storage.put('edge.csv', webStream([bytes(2500)]).stream, { maxBytes: 2500 })).size
+		).toBe(2500);
+		await expect(
+			storage.put('huge.csv', webStream([bytes(10_001)]).stream, { maxBytes: 1e9 })
+		).rejects.toBeInstanceOf(StorageLimitError);
 	});
 
 	it('deletes, tolerates deleting a missing key, and reports a missing key on read', async () => {
@@ -104,15 +120,26 @@ describe('local storage', () => {
 		expect(await storage.exists('x')).toBe(false); // a folder is not a blob
 	});
 
-	it.each(['../outside', 'a/../../outside', '/etc/passwd', '.incoming/x', 'a//b', 'a/', 'a\\..\\b', 'C:evil', '', 'a/./b', 'x'.repeat(513)])(
-		'refuses the key %j on every operation',
-		async (key) => {
-			await expect(storage.put(key, webStream([bytes(1)]).stream)).rejects.toBeInstanceOf(StorageKeyError);
-			await expect(storage.get(key)).rejects.toBeInstanceOf(StorageKeyError);
-			await expect(storage.getBytes(key)).rejects.toBeInstanceOf(StorageKeyError);
-			await expect(storage.exists(key)).rejects.toBeInstanceOf(StorageKeyError);
-			await expect(storage.delete(key)).rejects.toBeInstanceOf(StorageKeyError);
-			expect(await filesUnder(root)).toEqual([]);
-		}
-	);
+	it.each([
+		'../outside',
+		'a/../../outside',
+		'/etc/passwd',
+		'.incoming/x',
+		'a//b',
+		'a/',
+		'a\\..\\b',
+		'C:evil',
+		'',
+		'a/./b',
+		'x'.repeat(513)
+	])('refuses the key %j on every operation', async (key) => {
+		await expect(storage.put(key, webStream([bytes(1)]).stream)).rejects.toBeInstanceOf(
+			StorageKeyError
+		);
+		await expect(storage.get(key)).rejects.toBeInstanceOf(StorageKeyError);
+		await expect(storage.getBytes(key)).rejects.toBeInstanceOf(StorageKeyError);
+		await expect(storage.exists(key)).rejects.toBeInstanceOf(StorageKeyError);
+		await expect(storage.delete(key)).rejects.toBeInstanceOf(StorageKeyError);
+		expect(await filesUnder(root)).toEqual([]);
+	});
 });

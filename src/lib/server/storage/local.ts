@@ -41,7 +41,8 @@ export function createLocalStorage(options: LocalStorageOptions = {}): BlobStora
 	/** The file of a key; the key schema already refuses `..`, and this double-checks the result stays inside. */
 	const pathOf = (key: string): string => {
 		const path = resolve(root, checkStorageKey(key));
-		if (!path.startsWith(root + sep)) throw new Error(`storage key ${JSON.stringify(key)} resolves outside the store`);
+		if (!path.startsWith(root + sep))
+			throw new Error(`storage key ${JSON.stringify(key)} resolves outside the store`);
 		return path;
 	};
 

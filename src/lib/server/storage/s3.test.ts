@@ -7,7 +7,12 @@ import { join } from 'node:path';
 import S3rver from 's3rver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { storageFromEnv } from './config';
-import { StorageKeyError, StorageLimitError, StorageNotFoundError, type BlobStorage } from './storage';
+import {
+	StorageKeyError,
+	StorageLimitError,
+	StorageNotFoundError,
+	type BlobStorage
+} from './storage';
 
 let dir: string;
 let server: S3rver;
@@ -16,7 +21,13 @@ let storage: BlobStorage;
 
 beforeAll(async () => {
 	dir = await mkdtemp(join(tmpdir(), 'fw-s3rver-'));
-	server = new S3rver({ port: 0, address: '127.0.0.1', silent: true, directory: dir, configureBuckets: [{ name: 'fw-test', configs: [] }] });
+	server = new S3rver({
+		port: 0,
+		address: '127.0.0.1',
+		silent: true,
+		directory: dir,
+		configureBuckets: [{ name: 'fw-test', configs: [] }]
+	});
 	const address = (await server.run()) as AddressInfo;
 	env = {
 		STORAGE_DRIVER: 's3',
@@ -55,14 +66,18 @@ describe('S3 storage (against the s3rver stand-in)', () => {
 		expect(size).toBe(7001);
 		expect(await storage.exists('captures/w1/small.csv')).toBe(true);
 		expect(await storage.getBytes('captures/w1/small.csv')).toEqual(bytes(7001));
-		const streamed = new Uint8Array(await new Response(await storage.get('captures/w1/small.csv')).arrayBuffer());
+		const streamed = new Uint8Array(
+			await new Response(await storage.get('captures/w1/small.csv')).arrayBuffer()
+		);
 		expect(streamed).toEqual(bytes(7001));
 	});
 
 	it('streams a large source as a multipart upload (parts of 8 MiB) and reports progress', async () => {
 		const total = 17 * 1024 * 1024 + 123;
 		const progress: number[] = [];
-		const { size } = await storage.put('captures/w1/large.csv', chunked(total, 65536, 7), { onProgress: (n) => progress.push(n) });
+		const { size } = await storage.put('captures/w1/large.csv', chunked(total, 65536, 7), {
+			onProgress: (n) => progress.push(n)
+		});
 		expect(size).toBe(total);
 		expect(progress.at(-1)).toBe(total);
 		expect(progress.length).toBe(3); // three parts: 8 MiB, 8 MiB, the rest
@@ -72,11 +87,15 @@ describe('S3 storage (against the s3rver stand-in)', () => {
 
 	it('aborts an upload over the limit: clear error, nothing stored, earlier content kept', async () => {
 		await storage.put('captures/w1/keep.csv', chunked(10, 10, 3));
-		const failure = storage.put('captures/w1/keep.csv', chunked(20 * 1024 * 1024, 1 << 20), { maxBytes: 9 * 1024 * 1024 });
+		const failure = storage.put('captures/w1/keep.csv', chunked(20 * 1024 * 1024, 1 << 20), {
+			maxBytes: 9 * 1024 * 1024
+		});
 		await expect(failure).rejects.toBeInstanceOf(StorageLimitError);
 		await expect(failure).rejects.toThrow('larger than the limit of 9 MiB; nothing was stored');
 		expect(await storage.getBytes('captures/w1/keep.csv')).toEqual(bytes(10, 3));
-		await expect(storage.put('captures/w1/none.csv', chunked(20, 20), { maxBytes: 19 })).rejects.toBeInstanceOf(StorageLimitError);
+		await expect(
+			storage.put('captures/w1/none.csv', chunked(20, 20), { maxBytes: 19 })
+		).rejects.toBeInstanceOf(StorageLimitError);
 		expect(await storage.exists('captures/w1/none.csv')).toBe(false);
 	}, 60_000);
 
@@ -93,7 +112,11 @@ describe('S3 storage (against the s3rver stand-in)', () => {
 
 	it('refuses incomplete S3 settings with the variable named', () => {
 		expect(() => storageFromEnv({ STORAGE_DRIVER: 's3' })).toThrow(/S3_BUCKET is required/);
-		expect(() => storageFromEnv({ STORAGE_DRIVER: 'ftp' })).toThrow(/STORAGE_DRIVER is "local" or "s3"/);
-		expect(() => storageFromEnv({ ...env, S3_ENDPOINT: 'not a url' })).toThrow(/S3_ENDPOINT must be a URL/);
+		expect(() => storageFromEnv({ STORAGE_DRIVER: 'ftp' })).toThrow(
+			/STORAGE_DRIVER is "local" or "s3"/
+		);
+		expect(() => storageFromEnv({ ...env, S3_ENDPOINT: 'not a url' })).toThrow(
+			/S3_ENDPOINT must be a URL/
+		);
 	});
 });

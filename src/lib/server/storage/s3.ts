@@ -16,7 +16,15 @@ import {
 	UploadPartCommand,
 	type CompletedPart
 } from '@aws-sdk/client-s3';
-import { byteChunks, checkStorageKey, StorageLimitError, StorageNotFoundError, type BlobStorage, type ByteSource, type PutOptions } from './storage';
+import {
+	byteChunks,
+	checkStorageKey,
+	StorageLimitError,
+	StorageNotFoundError,
+	type BlobStorage,
+	type ByteSource,
+	type PutOptions
+} from './storage';
 
 export interface S3StorageOptions {
 	bucket: string;
@@ -41,7 +49,11 @@ function isNotFound(error: unknown): boolean {
 }
 
 /** Re-cuts a byte source into parts of exactly `size` bytes (the last may be shorter). */
-async function* parts(source: ByteSource, size: number, onChunk: (n: number) => void): AsyncGenerator<Uint8Array> {
+async function* parts(
+	source: ByteSource,
+	size: number,
+	onChunk: (n: number) => void
+): AsyncGenerator<Uint8Array> {
 	let buffer = new Uint8Array(size);
 	let filled = 0;
 	for await (const chunk of byteChunks(source)) {
@@ -103,7 +115,9 @@ export function createS3Storage(options: S3StorageOptions): BlobStorage {
 			if (second.done) {
 				// Small enough for one request.
 				const body = first.done ? new Uint8Array(0) : first.value;
-				await client.send(new PutObjectCommand({ Bucket, Key, Body: body, ContentLength: body.byteLength }));
+				await client.send(
+					new PutObjectCommand({ Bucket, Key, Body: body, ContentLength: body.byteLength })
+				);
 				putOptions.onProgress?.(size);
 				return { size };
 			}
@@ -112,17 +126,35 @@ export function createS3Storage(options: S3StorageOptions): BlobStorage {
 			try {
 				const send = async (body: Uint8Array) => {
 					const PartNumber = completed.length + 1;
-					const { ETag } = await client.send(new UploadPartCommand({ Bucket, Key, UploadId, PartNumber, Body: body, ContentLength: body.byteLength }));
+					const { ETag } = await client.send(
+						new UploadPartCommand({
+							Bucket,
+							Key,
+							UploadId,
+							PartNumber,
+							Body: body,
+							ContentLength: body.byteLength
+						})
+					);
 					completed.push({ ETag, PartNumber });
 					putOptions.onProgress?.(size);
 				};
 				await send(first.value!);
 				await send(second.value);
 				for await (const part of iterator) await send(part);
-				await client.send(new CompleteMultipartUploadCommand({ Bucket, Key, UploadId, MultipartUpload: { Parts: completed } }));
+				await client.send(
+					new CompleteMultipartUploadCommand({
+						Bucket,
+						Key,
+						UploadId,
+						MultipartUpload: { Parts: completed }
+					})
+				);
 				return { size };
 			} catch (error) {
-				await client.send(new AbortMultipartUploadCommand({ Bucket, Key, UploadId })).catch(() => {});
+				await client
+					.send(new AbortMultipartUploadCommand({ Bucket, Key, UploadId }))
+					.catch(() => {});
 				throw error;
 			}
 		},

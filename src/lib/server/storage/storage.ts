@@ -69,7 +69,9 @@ export function formatBytes(n: number): string {
 export function checkStorageKey(key: unknown): StorageKey {
 	const parsed = storageKeySchema.safeParse(key);
 	if (parsed.success) return parsed.data;
-	throw new StorageKeyError(`bad storage key ${JSON.stringify(key)}: ${parsed.error.issues.map((i) => i.message).join('; ')}`);
+	throw new StorageKeyError(
+		`bad storage key ${JSON.stringify(key)}: ${parsed.error.issues.map((i) => i.message).join('; ')}`
+	);
 }
 
 /** Reads any byte source chunk by chunk; cancels a web stream that is left early (limit, error). */

@@ -5,7 +5,8 @@ const messages: Record<string, string> = {
 	Verification:
 		'This sign-in link has expired or was already used. Each link works once and for a limited time — ask for a new one.',
 	AccessDenied: 'Signing in was refused for this address.',
-	Configuration: 'Signing in is not working right now because of a server problem. Try again later, or tell the site administrator.'
+	Configuration:
+		'Signing in is not working right now because of a server problem. Try again later, or tell the site administrator.'
 };
 
 export const load = (async ({ url }) => {

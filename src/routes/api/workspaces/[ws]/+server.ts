@@ -8,7 +8,11 @@ import type { RequestHandler } from './$types';
 export const PATCH: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'owner');
 	const { name } = await readJsonBody(event.request, workspaceInputSchema);
-	const renamed = await renameWorkspace(event.locals.services.db, { workspaceId: workspace.id, name, actorId: user.id });
+	const renamed = await renameWorkspace(event.locals.services.db, {
+		workspaceId: workspace.id,
+		name,
+		actorId: user.id
+	});
 	return json({ workspace: { id: renamed.id, slug: renamed.slug, name: renamed.name } });
 });
 

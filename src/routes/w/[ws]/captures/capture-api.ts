@@ -9,7 +9,14 @@ import type { CaptureDetail, CaptureSummary, DecodeRecord } from '$lib/server/ca
 import type { DecodeSummary } from '$lib/server/captures/decode-summary';
 import type { CaptureReport, DetectedLayout } from '$lib/server/captures/schemas';
 
-export type { CaptureDetail, CaptureSummary, DecodeRecord, DetectedLayout, CaptureReport, DecodeSummary };
+export type {
+	CaptureDetail,
+	CaptureSummary,
+	DecodeRecord,
+	DetectedLayout,
+	CaptureReport,
+	DecodeSummary
+};
 export type CaptureStatus = CaptureSummary['status'];
 export type ChannelStats = DecodeSummary['channels'][number];
 export type IdStats = DecodeSummary['ids'][number];
@@ -32,13 +39,19 @@ const fallbacks = {
 export function capturesApi(slug: string, fetcher: typeof fetch = fetch) {
 	const base = `/api/workspaces/${encodeURIComponent(slug)}/captures`;
 	const one = (id: string) => `${base}/${encodeURIComponent(id)}`;
-	const call = <T>(method: string, url: string, body?: unknown) => requestJson<T>(fetcher, method, url, body, fallbacks);
+	const call = <T>(method: string, url: string, body?: unknown) =>
+		requestJson<T>(fetcher, method, url, body, fallbacks);
 	return {
 		uploadUrl: (fileName: string) => `${base}?name=${encodeURIComponent(fileName)}`,
 		list: () => call<{ captures: CaptureSummary[] }>('GET', base),
 		get: (id: string) => call<CaptureDetail>('GET', one(id)),
-		status: (id: string) => call<{ status: CaptureStatus; progress: number; error: string | null }>('GET', `${one(id)}/status`),
-		process: (id: string, layout: CaptureLayout) => call<{ capture: CaptureSummary }>('POST', `${one(id)}/process`, { layout }),
+		status: (id: string) =>
+			call<{ status: CaptureStatus; progress: number; error: string | null }>(
+				'GET',
+				`${one(id)}/status`
+			),
+		process: (id: string, layout: CaptureLayout) =>
+			call<{ capture: CaptureSummary }>('POST', `${one(id)}/process`, { layout }),
 		decode: (id: string, mapId: string, revision: DecodeRevision) =>
 			call<DecodeAnswer>('POST', `${one(id)}/decode`, { mapId, revision }),
 		getDecode: (id: string, decodeId: string) =>
@@ -56,7 +69,12 @@ export function capturePaths(slug: string) {
 		list,
 		page,
 		/** The streamed download of a decode (long/wide) or of the raw frames in the canonical layout. */
-		exportFile: (id: string, kind: ExportKind, decodeId: string | null, wide?: { interval: number; mode: 'last' | 'mean' }) => {
+		exportFile: (
+			id: string,
+			kind: ExportKind,
+			decodeId: string | null,
+			wide?: { interval: number; mode: 'last' | 'mean' }
+		) => {
 			const q = new URLSearchParams({ kind });
 			if (decodeId) q.set('decode', decodeId);
 			if (kind === 'wide' && wide) {

@@ -25,7 +25,10 @@ const wait = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, 
 export const isSettled = (status: CaptureStatus) => status === 'ready' || status === 'failed';
 
 /** Resolves with the settled answer; rejects with the last error after too many failures, or on abort. */
-export async function pollUntilSettled(getStatus: () => Promise<StatusAnswer>, options: PollOptions = {}): Promise<StatusAnswer> {
+export async function pollUntilSettled(
+	getStatus: () => Promise<StatusAnswer>,
+	options: PollOptions = {}
+): Promise<StatusAnswer> {
 	const { intervalMs = 800, maxFailures = 5, sleep = wait } = options;
 	let failures = 0;
 	for (;;) {
@@ -44,4 +47,5 @@ export async function pollUntilSettled(getStatus: () => Promise<StatusAnswer>, o
 }
 
 /** "42 %" for a 0–1 fraction, clamped. */
-export const percentText = (fraction: number) => `${Math.round(Math.min(1, Math.max(0, fraction)) * 100)} %`;
+export const percentText = (fraction: number) =>
+	`${Math.round(Math.min(1, Math.max(0, fraction)) * 100)} %`;

@@ -19,7 +19,9 @@ export interface UploadRequest {
 	abort(): void;
 	readonly status: number;
 	readonly responseText: string;
-	upload: { onprogress: ((e: { loaded: number; total: number; lengthComputable: boolean }) => void) | null };
+	upload: {
+		onprogress: ((e: { loaded: number; total: number; lengthComputable: boolean }) => void) | null;
+	};
 	onload: (() => void) | null;
 	onerror: (() => void) | null;
 	onabort: (() => void) | null;
@@ -62,14 +64,21 @@ export function uploadError(status: number, responseText: string, fileName: stri
 	const serverMessage = typeof body.error === 'string' && body.error ? body.error : null;
 	const issues = Array.isArray(body.issues) ? (body.issues as ApiError['issues']) : [];
 	// The server's message explains the detail; the file name says which of several files it is about.
-	const message = serverMessage ? `${fileName}: ${serverMessage}` : refusalFallback(status, fileName);
+	const message = serverMessage
+		? `${fileName}: ${serverMessage}`
+		: refusalFallback(status, fileName);
 	return new ApiError(status, message, issues, body);
 }
 
-export function uploadCapture(url: string, file: Blob & { name: string }, options: UploadOptions = {}): Promise<UploadAnswer> {
+export function uploadCapture(
+	url: string,
+	file: Blob & { name: string },
+	options: UploadOptions = {}
+): Promise<UploadAnswer> {
 	const request = options.createRequest?.() ?? (new XMLHttpRequest() as unknown as UploadRequest);
 	return new Promise<UploadAnswer>((resolve, reject) => {
-		if (options.signal?.aborted) return reject(new ApiError(0, `The upload of ${file.name} was cancelled.`));
+		if (options.signal?.aborted)
+			return reject(new ApiError(0, `The upload of ${file.name} was cancelled.`));
 		options.signal?.addEventListener('abort', () => request.abort(), { once: true });
 		request.open('POST', url);
 		// Any Content-Type is accepted; this one keeps the browser from guessing a form encoding.
@@ -83,7 +92,12 @@ export function uploadCapture(url: string, file: Blob & { name: string }, option
 					options.onprogress?.(1);
 					resolve(JSON.parse(request.responseText) as UploadAnswer);
 				} catch {
-					reject(new ApiError(request.status, `The server accepted ${file.name} but its answer could not be read. Reload the page to see it.`));
+					reject(
+						new ApiError(
+							request.status,
+							`The server accepted ${file.name} but its answer could not be read. Reload the page to see it.`
+						)
+					);
 				}
 			} else {
 				reject(uploadError(request.status, request.responseText, file.name));

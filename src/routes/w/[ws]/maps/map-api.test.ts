@@ -6,7 +6,11 @@ import { isStale, mapPaths, mapsApi, parseRevisionRef, revisionLabel } from './m
 function fakeFetch(status: number, body?: unknown) {
 	const calls: { url: string; method?: string; body?: unknown }[] = [];
 	const fetcher = (async (url: string, init?: RequestInit) => {
-		calls.push({ url, method: init?.method, body: init?.body ? JSON.parse(String(init.body)) : undefined });
+		calls.push({
+			url,
+			method: init?.method,
+			body: init?.body ? JSON.parse(String(init.body)) : undefined
+		});
 		return new Response(body === undefined ? null : JSON.stringify(body), {
 			status,
 			headers: { 'content-type': 'application/json' }
@@ -22,12 +26,17 @@ describe('mapsApi', () => {
 		const result = await mapsApi('team a', fetcher).saveDraft('m/1', 7, draft);
 		expect(result.version).toBe(8);
 		expect(calls).toEqual([
-			{ url: '/api/workspaces/team%20a/maps/m%2F1/draft', method: 'PUT', body: { version: 7, draft } }
+			{
+				url: '/api/workspaces/team%20a/maps/m%2F1/draft',
+				method: 'PUT',
+				body: { version: 7, draft }
+			}
 		]);
 	});
 
 	it("keeps a stale save's message and the server's current version", async () => {
-		const error = 'This map was changed by Calibrator at 10:02 since you loaded it. Reload to see their changes; your edit was not saved.';
+		const error =
+			'This map was changed by Calibrator at 10:02 since you loaded it. Reload to see their changes; your edit was not saved.';
 		const { fetcher } = fakeFetch(409, { error, currentVersion: 9 });
 		const failure = await mapsApi('team-a', fetcher)
 			.saveDraft('m1', 7, { format: 'framewright-map@1', name: 'x' })
@@ -40,7 +49,10 @@ describe('mapsApi', () => {
 
 	it('lists lint problems a refused publish carries, and words a bare 422', async () => {
 		const issues = [{ path: 'frames[0].signals[1].startBit', message: 'overlaps "Rpm"' }];
-		const refused = await mapsApi('a', fakeFetch(422, { error: 'Fix 1 lint error first.', issues }).fetcher)
+		const refused = await mapsApi(
+			'a',
+			fakeFetch(422, { error: 'Fix 1 lint error first.', issues }).fetcher
+		)
 			.publish('m1', 'note', 3)
 			.catch((e: unknown) => e);
 		expect((refused as ApiError).issues).toEqual(issues);
@@ -58,9 +70,15 @@ describe('mapsApi', () => {
 	});
 
 	it('creates a share link with an optional expiry and revokes it with DELETE', async () => {
-		const { fetcher, calls } = fakeFetch(201, { shareLink: { id: 's1', url: '/s/t', revision: 2, expiresAt: null } });
+		const { fetcher, calls } = fakeFetch(201, {
+			shareLink: { id: 's1', url: '/s/t', revision: 2, expiresAt: null }
+		});
 		await mapsApi('a', fetcher).createShareLink('m1', 2, null);
-		expect(calls[0]).toEqual({ url: '/api/workspaces/a/maps/m1/share-links', method: 'POST', body: { revision: 2, expiresAt: null } });
+		expect(calls[0]).toEqual({
+			url: '/api/workspaces/a/maps/m1/share-links',
+			method: 'POST',
+			body: { revision: 2, expiresAt: null }
+		});
 		const del = fakeFetch(204);
 		await expect(mapsApi('a', del.fetcher).revokeShareLink('m1', 's1')).resolves.toBeUndefined();
 		expect(del.calls[0].method).toBe('DELETE');

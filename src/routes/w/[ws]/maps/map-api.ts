@@ -15,7 +15,8 @@ export type { MapDiff, MapSummary, MapView, RevisionView, ShareLinkView };
 /** A revision number, or the working draft. */
 export type RevisionRef = number | 'draft';
 
-export type NewMap = { name: string } | { name?: string; mapJson: string } | { name?: string; signalTableCsv: string };
+export type NewMap =
+	{ name: string } | { name?: string; mapJson: string } | { name?: string; signalTableCsv: string };
 
 export interface CreatedShareLink {
 	id: string;
@@ -33,25 +34,35 @@ const fallbacks = {
 export function mapsApi(slug: string, fetcher: typeof fetch = fetch) {
 	const base = `/api/workspaces/${encodeURIComponent(slug)}/maps`;
 	const one = (mapId: string) => `${base}/${encodeURIComponent(mapId)}`;
-	const call = <T>(method: string, url: string, body?: unknown) => requestJson<T>(fetcher, method, url, body, fallbacks);
+	const call = <T>(method: string, url: string, body?: unknown) =>
+		requestJson<T>(fetcher, method, url, body, fallbacks);
 	return {
 		list: () => call<{ maps: MapSummary[] }>('GET', base),
 		create: (input: NewMap) => call<{ map: { id: string; name: string } }>('POST', base, input),
 		get: (mapId: string) => call<MapView>('GET', one(mapId)),
 		saveDraft: (mapId: string, version: number, draft: CanMapInput) =>
-			call<{ version: number; lint: LintProblem[] }>('PUT', `${one(mapId)}/draft`, { version, draft }),
-		rename: (mapId: string, name: string, version: number) => call<unknown>('PATCH', one(mapId), { name, version }),
+			call<{ version: number; lint: LintProblem[] }>('PUT', `${one(mapId)}/draft`, {
+				version,
+				draft
+			}),
+		rename: (mapId: string, name: string, version: number) =>
+			call<unknown>('PATCH', one(mapId), { name, version }),
 		remove: (mapId: string) => call<void>('DELETE', one(mapId)),
 		publish: (mapId: string, note: string, version: number) =>
 			call<{ revision: { number: number } }>('POST', `${one(mapId)}/revisions`, { note, version }),
-		revision: (mapId: string, n: number) => call<RevisionView>('GET', `${one(mapId)}/revisions/${n}`),
+		revision: (mapId: string, n: number) =>
+			call<RevisionView>('GET', `${one(mapId)}/revisions/${n}`),
 		diff: (mapId: string, from: RevisionRef, to: RevisionRef) =>
 			call<{ diff: MapDiff }>('GET', `${one(mapId)}/diff?from=${from}&to=${to}`),
 		restore: (mapId: string, revision: number, version: number) =>
 			call<{ version: number }>('POST', `${one(mapId)}/restore`, { revision, version }),
-		shareLinks: (mapId: string) => call<{ shareLinks: ShareLinkView[] }>('GET', `${one(mapId)}/share-links`),
+		shareLinks: (mapId: string) =>
+			call<{ shareLinks: ShareLinkView[] }>('GET', `${one(mapId)}/share-links`),
 		createShareLink: (mapId: string, revision: number, expiresAt: string | null) =>
-			call<{ shareLink: CreatedShareLink }>('POST', `${one(mapId)}/share-links`, { revision, expiresAt }),
+			call<{ shareLink: CreatedShareLink }>('POST', `${one(mapId)}/share-links`, {
+				revision,
+				expiresAt
+			}),
 		revokeShareLink: (mapId: string, id: string) =>
 			call<void>('DELETE', `${one(mapId)}/share-links/${encodeURIComponent(id)}`)
 	};
@@ -67,7 +78,8 @@ export function mapPaths(slug: string, mapId: string) {
 		frame: (index: number) => `${base}/frames/${index}`,
 		revision: (n: number) => `${base}/revisions/${n}`,
 		diff: (from: RevisionRef, to: RevisionRef) => `${base}/diff?from=${from}&to=${to}`,
-		exportFile: (rev: RevisionRef, format: 'json' | 'csv') => `${base}/export?rev=${rev}&format=${format}`,
+		exportFile: (rev: RevisionRef, format: 'json' | 'csv') =>
+			`${base}/export?rev=${rev}&format=${format}`,
 		sheet: (rev: RevisionRef) => `${base}/sheet?rev=${rev}`
 	};
 }

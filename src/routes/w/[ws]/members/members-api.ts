@@ -32,8 +32,11 @@ export function membersApi(slug: string, fetcher: typeof fetch = fetch) {
 	return {
 		overview: () => call<MembersOverview>(fetcher, 'GET', `${base}/members`),
 		changeRole: (userId: string, role: Role) =>
-			call<{ member: Member }>(fetcher, 'PATCH', `${base}/members/${encodeURIComponent(userId)}`, { role }),
-		remove: (userId: string) => call<void>(fetcher, 'DELETE', `${base}/members/${encodeURIComponent(userId)}`),
+			call<{ member: Member }>(fetcher, 'PATCH', `${base}/members/${encodeURIComponent(userId)}`, {
+				role
+			}),
+		remove: (userId: string) =>
+			call<void>(fetcher, 'DELETE', `${base}/members/${encodeURIComponent(userId)}`),
 		invite: (email: string, role: Role) =>
 			call<{ invitation: Invitation }>(fetcher, 'POST', `${base}/invitations`, { email, role }),
 		revoke: (invitationId: string) =>

@@ -10,7 +10,11 @@ export const load = (async (event) => {
 	const maps = await listMaps(db, workspace.id);
 	return {
 		maps: await Promise.all(
-			maps.map(async (m) => ({ id: m.id, name: m.name, revisions: (await listRevisions(db, m.id)).map((r) => r.number) }))
+			maps.map(async (m) => ({
+				id: m.id,
+				name: m.name,
+				revisions: (await listRevisions(db, m.id)).map((r) => r.number)
+			}))
 		)
 	};
 }) satisfies PageServerLoad;

@@ -29,10 +29,16 @@ export const bitTimingFormSchema = z.object({
 			.number()
 			.min(1, 'The bit rate is in kbit/s and must be at least 1.')
 			.max(8000, 'The bit rate is in kbit/s and must be at most 8000 (8 Mbit/s).')
-			.refine((k) => Number.isInteger(Math.round(k * 1e6) / 1e3), 'Use at most three decimals (whole bits per second).')
+			.refine(
+				(k) => Number.isInteger(Math.round(k * 1e6) / 1e3),
+				'Use at most three decimals (whole bits per second).'
+			)
 	),
 	samplePointPercent: decimalText('sample point', '87.5').pipe(
-		z.number().min(50, 'The sample point is a percentage between 50 and 95.').max(95, 'The sample point is a percentage between 50 and 95.')
+		z
+			.number()
+			.min(50, 'The sample point is a percentage between 50 and 95.')
+			.max(95, 'The sample point is a percentage between 50 and 95.')
 	)
 });
 export type BitTimingFormInput = z.input<typeof bitTimingFormSchema>;
@@ -55,7 +61,11 @@ export function parseBitTimingForm(input: BitTimingFormInput): BitTimingFormResu
 	const { clockHz, bitrateKbps, samplePointPercent } = parsed.data;
 	return {
 		ok: true,
-		request: { clockHz, bitrate: Math.round(bitrateKbps * 1000), samplePoint: samplePointPercent / 100 }
+		request: {
+			clockHz,
+			bitrate: Math.round(bitrateKbps * 1000),
+			samplePoint: samplePointPercent / 100
+		}
 	};
 }
 
@@ -67,7 +77,8 @@ export function formatHz(hz: number): string {
 }
 
 export function formatBitrate(bitsPerSecond: number): string {
-	if (bitsPerSecond >= 1e6 && bitsPerSecond % 1e3 === 0) return `${trim(bitsPerSecond / 1e6)} Mbit/s`;
+	if (bitsPerSecond >= 1e6 && bitsPerSecond % 1e3 === 0)
+		return `${trim(bitsPerSecond / 1e6)} Mbit/s`;
 	if (bitsPerSecond >= 1e3) return `${trim(bitsPerSecond / 1e3)} kbit/s`;
 	return `${trim(bitsPerSecond)} bit/s`;
 }

@@ -44,7 +44,12 @@ describe('budgetSchema', () => {
 	])('accepts %s', (text, value) => {
 		expect(budgetSchema.parse(text)).toBe(value);
 	});
-	it.each([['', /plain number/], ['0', /more than 0/], ['120', /100 %/], ['50%', /plain number/]])('refuses %s', (text, message) => {
+	it.each([
+		['', /plain number/],
+		['0', /more than 0/],
+		['120', /100 %/],
+		['50%', /plain number/]
+	])('refuses %s', (text, message) => {
 		const result = budgetSchema.safeParse(text);
 		expect(result.success).toBe(false);
 		expect(result.error?.issues[0].message).toMatch(message);

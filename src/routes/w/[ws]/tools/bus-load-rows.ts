@@ -31,21 +31,52 @@ export const EXCLUSION_REASONS: Record<BusLoadExclusion, string> = {
 	canFd: 'CAN FD payload (its data phase runs at another bit rate)'
 };
 
-export function busLoadRows(response: BusLoadResponse): { counted: CountedFrameRow[]; uncounted: UncountedFrameRow[] } {
+export function busLoadRows(response: BusLoadResponse): {
+	counted: CountedFrameRow[];
+	uncounted: UncountedFrameRow[];
+} {
 	const counted: CountedFrameRow[] = [];
 	const uncounted: UncountedFrameRow[] = [];
 	for (const load of response.busLoad.frames) {
 		const frame = response.frames[load.frameIndex];
 		const idText = formatCanId(load.id, frame?.extended ?? false);
 		if (load.excluded !== null || frame?.cycleMs == null) {
-			uncounted.push({ frameIndex: load.frameIndex, name: load.name, idText, reason: EXCLUSION_REASONS[load.excluded ?? 'noCycleTime'] });
+			uncounted.push({
+				frameIndex: load.frameIndex,
+				name: load.name,
+				idText,
+				reason: EXCLUSION_REASONS[load.excluded ?? 'noCycleTime']
+			});
 			continue;
 		}
-		const { frameIndex, name, framesPerSecond, nominalBitsPerSecond, worstCaseBitsPerSecond, nominalPercent, worstCasePercent } = load;
-		counted.push({ frameIndex, name, idText, cycleMs: frame.cycleMs, framesPerSecond, nominalBitsPerSecond, worstCaseBitsPerSecond, nominalPercent, worstCasePercent });
+		const {
+			frameIndex,
+			name,
+			framesPerSecond,
+			nominalBitsPerSecond,
+			worstCaseBitsPerSecond,
+			nominalPercent,
+			worstCasePercent
+		} = load;
+		counted.push({
+			frameIndex,
+			name,
+			idText,
+			cycleMs: frame.cycleMs,
+			framesPerSecond,
+			nominalBitsPerSecond,
+			worstCaseBitsPerSecond,
+			nominalPercent,
+			worstCasePercent
+		});
 	}
 	// Heaviest first; equal loads in map order so the table does not shuffle between loads.
-	counted.sort((a, b) => b.worstCaseBitsPerSecond - a.worstCaseBitsPerSecond || b.nominalBitsPerSecond - a.nominalBitsPerSecond || a.frameIndex - b.frameIndex);
+	counted.sort(
+		(a, b) =>
+			b.worstCaseBitsPerSecond - a.worstCaseBitsPerSecond ||
+			b.nominalBitsPerSecond - a.nominalBitsPerSecond ||
+			a.frameIndex - b.frameIndex
+	);
 	return { counted, uncounted };
 }
 
@@ -61,4 +92,9 @@ export const budgetSchema = z
 	.trim()
 	.regex(/^\d+(\.\d+)?$/, 'The budget must be a plain number of percent, like 50.')
 	.transform(Number)
-	.pipe(z.number().gt(0, 'The budget must be more than 0 %.').max(100, 'The budget cannot exceed 100 % of the bus.'));
+	.pipe(
+		z
+			.number()
+			.gt(0, 'The budget must be more than 0 %.')
+			.max(100, 'The budget cannot exceed 100 % of the bus.')
+	);

@@ -15,7 +15,9 @@ export const GET: RequestHandler = apiRoute(async (event) => {
 /** The raw file bytes as the request body (any Content-Type), streamed to storage. */
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'viewer');
-	const { name } = parseOrProblem(uploadQuerySchema, { name: event.url.searchParams.get('name') ?? undefined });
+	const { name } = parseOrProblem(uploadQuerySchema, {
+		name: event.url.searchParams.get('name') ?? undefined
+	});
 	const header = event.request.headers.get('content-length');
 	const contentLength = header === null ? null : Number(header);
 	if (contentLength !== null && !(Number.isInteger(contentLength) && contentLength >= 0)) {

@@ -15,7 +15,11 @@ export const GET: RequestHandler = apiRoute(async (event) => {
 });
 
 function refused(kind: string, issues: Issue[]): Problem {
-	return new Problem(400, `The ${kind} has ${issues.length} problem${issues.length === 1 ? '' : 's'}; nothing was imported.`, issues);
+	return new Problem(
+		400,
+		`The ${kind} has ${issues.length} problem${issues.length === 1 ? '' : 's'}; nothing was imported.`,
+		issues
+	);
 }
 
 /** Blank, from map JSON or from the CSV signal table; a bad file is refused whole, with every problem. */
@@ -26,7 +30,11 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 	let source: 'blank' | 'json' | 'csv' = 'blank';
 	if (body.mapJson !== undefined) {
 		const parsed = parseMap(body.mapJson);
-		if (!parsed.ok) throw refused('map file', parsed.problems.map((p) => ({ ...p, path: p.path || '(root)' })));
+		if (!parsed.ok)
+			throw refused(
+				'map file',
+				parsed.problems.map((p) => ({ ...p, path: p.path || '(root)' }))
+			);
 		map = body.name ? { ...parsed.map, name: body.name } : parsed.map;
 		source = 'json';
 	} else if (body.signalTableCsv !== undefined) {
@@ -34,7 +42,12 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 		if (!parsed.ok) {
 			throw refused(
 				'signal table',
-				parsed.problems.map((p) => ({ path: `line ${p.line}${p.column ? `, column ${p.column}` : ''}`, line: p.line, column: p.column, message: p.message }))
+				parsed.problems.map((p) => ({
+					path: `line ${p.line}${p.column ? `, column ${p.column}` : ''}`,
+					line: p.line,
+					column: p.column,
+					message: p.message
+				}))
 			);
 		}
 		map = parsed.map;
@@ -42,6 +55,11 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 	} else {
 		map = { format: MAP_FORMAT, name: body.name!, bitrate: 500_000, frames: [], alertRules: [] };
 	}
-	const created = await createMap(event.locals.services.db, { workspaceId: workspace.id, map, actorId: user.id, source });
+	const created = await createMap(event.locals.services.db, {
+		workspaceId: workspace.id,
+		map,
+		actorId: user.id,
+		source
+	});
 	return json({ map: created }, { status: 201 });
 });

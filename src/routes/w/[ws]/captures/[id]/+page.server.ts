@@ -9,7 +9,12 @@ export const load = (async (event) => {
 	const { db } = event.locals.services;
 	try {
 		const detail = await captureDetail(db, workspace.id, event.params.id);
-		return { ...detail, maps: await mapsWithRevisions(db, workspace.id), role, userEmail: user.email };
+		return {
+			...detail,
+			maps: await mapsWithRevisions(db, workspace.id),
+			role,
+			userEmail: user.email
+		};
 	} catch (thrown) {
 		if (thrown instanceof Problem && thrown.status === 404) error(404, thrown.message);
 		throw thrown;

@@ -2,7 +2,12 @@ import { describe, expect, it } from 'vitest';
 import type { ChannelStats } from '../capture-api';
 import { compareChannels, defaultDecodeChoice, groupByFrame } from './decode-model';
 
-const channel = (index: number, frameName: string, signalName: string, over: Partial<ChannelStats> = {}): ChannelStats => ({
+const channel = (
+	index: number,
+	frameName: string,
+	signalName: string,
+	over: Partial<ChannelStats> = {}
+): ChannelStats => ({
 	index,
 	frameName,
 	signalName,
@@ -32,7 +37,9 @@ describe('default decode choice', () => {
 	});
 
 	it('prefers the map of the newest decode, skipping decodes of deleted maps', () => {
-		expect(defaultDecodeChoice(maps, [{ mapId: null }, { mapId: 'genset' }, { mapId: 'racer' }])).toEqual({ mapId: 'genset', revision: 1 });
+		expect(
+			defaultDecodeChoice(maps, [{ mapId: null }, { mapId: 'genset' }, { mapId: 'racer' }])
+		).toEqual({ mapId: 'genset', revision: 1 });
 	});
 
 	it('falls back to a draft, and to nothing without maps', () => {
@@ -43,7 +50,11 @@ describe('default decode choice', () => {
 
 describe('channels', () => {
 	it('groups channels by frame in map order', () => {
-		const groups = groupByFrame([channel(0, 'Engine', 'Rpm'), channel(1, 'Temps', 'Oil'), channel(2, 'Engine', 'Tps')]);
+		const groups = groupByFrame([
+			channel(0, 'Engine', 'Rpm'),
+			channel(1, 'Temps', 'Oil'),
+			channel(2, 'Engine', 'Tps')
+		]);
 		expect(groups.map((g) => [g.frameName, g.channels.map((c) => c.signalName)])).toEqual([
 			['Engine', ['Rpm', 'Tps']],
 			['Temps', ['Oil']]
@@ -51,9 +62,17 @@ describe('channels', () => {
 	});
 
 	it('compares two decodes by frame and signal name, flagging exactly the channels that changed', () => {
-		const r1 = [channel(0, 'Engine', 'Rpm'), channel(1, 'Engine', 'Tps'), channel(2, 'Temps', 'Oil')];
+		const r1 = [
+			channel(0, 'Engine', 'Rpm'),
+			channel(1, 'Engine', 'Tps'),
+			channel(2, 'Temps', 'Oil')
+		];
 		// r2 inserts a signal (indices shift), rescales Tps and drops Oil.
-		const r2 = [channel(0, 'Engine', 'Rpm'), channel(1, 'Engine', 'Map'), channel(2, 'Engine', 'Tps', { max: 50, mean: 30 })];
+		const r2 = [
+			channel(0, 'Engine', 'Rpm'),
+			channel(1, 'Engine', 'Map'),
+			channel(2, 'Engine', 'Tps', { max: 50, mean: 30 })
+		];
 		const rows = compareChannels(r1, r2);
 		expect(rows.map((r) => [r.signalName, r.differs])).toEqual([
 			['Rpm', false],

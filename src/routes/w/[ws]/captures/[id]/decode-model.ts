@@ -16,10 +16,14 @@ export interface MapChoice {
  * The map of the newest decode when it still exists (a person usually re-decodes with the same map),
  * else the first map that has a published revision, else the first map's draft; always the latest revision.
  */
-export function defaultDecodeChoice(maps: MapChoice[], decodes: Pick<DecodeRecord, 'mapId'>[]): { mapId: string; revision: DecodeRevision } | null {
+export function defaultDecodeChoice(
+	maps: MapChoice[],
+	decodes: Pick<DecodeRecord, 'mapId'>[]
+): { mapId: string; revision: DecodeRevision } | null {
 	const latest = (m: MapChoice): DecodeRevision => m.revisions[0] ?? 'draft';
 	const used = decodes.find((d) => d.mapId !== null && maps.some((m) => m.id === d.mapId));
-	const map = maps.find((m) => m.id === used?.mapId) ?? maps.find((m) => m.revisions.length > 0) ?? maps[0];
+	const map =
+		maps.find((m) => m.id === used?.mapId) ?? maps.find((m) => m.revisions.length > 0) ?? maps[0];
 	return map ? { mapId: map.id, revision: latest(map) } : null;
 }
 
@@ -48,10 +52,23 @@ export interface ComparedChannel {
 	differs: boolean;
 }
 
-const FIGURES = ['unit', 'count', 'min', 'max', 'mean', 'last', 'outOfRange', 'limitMin', 'limitMax'] as const;
+const FIGURES = [
+	'unit',
+	'count',
+	'min',
+	'max',
+	'mean',
+	'last',
+	'outOfRange',
+	'limitMin',
+	'limitMax'
+] as const;
 
 /** Every channel of either decode once, in a's order then b's new ones, with whether they differ. */
-export function compareChannels(a: readonly ChannelStats[], b: readonly ChannelStats[]): ComparedChannel[] {
+export function compareChannels(
+	a: readonly ChannelStats[],
+	b: readonly ChannelStats[]
+): ComparedChannel[] {
 	const key = (c: ChannelStats) => `${c.frameName}\u0000${c.signalName}`;
 	const inB = new Map(b.map((c) => [key(c), c]));
 	const rows: ComparedChannel[] = [];

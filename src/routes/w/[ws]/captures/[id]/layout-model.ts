@@ -41,14 +41,20 @@ export function columnRoles(layout: CaptureLayout, count: number): (string | nul
 	put(layout.timeColumn, `time (${layout.timeUnit}${layout.epochTime ? ', epoch' : ''})`);
 	put(layout.idColumn, `ID (${layout.idFormat})`);
 	put(layout.extendedColumn, 'extended flag');
-	put(layout.dlcColumn, `DLC (${layout.dlcMeaning === 'code' ? 'length code' : layout.dlcMeaning === 'bytes' ? 'byte count' : 'code or bytes'})`);
+	put(
+		layout.dlcColumn,
+		`DLC (${layout.dlcMeaning === 'code' ? 'length code' : layout.dlcMeaning === 'bytes' ? 'byte count' : 'code or bytes'})`
+	);
 	put(layout.dataColumn, 'data (hex bytes)');
 	layout.byteColumns.forEach((c, k) => put(c, `byte ${k}`));
 	return roles;
 }
 
 /** Choices for a column picker: "1 · time" with the header's name when the file has one. */
-export function columnChoices(rows: string[][], layout: Pick<CaptureLayout, 'hasHeader'>): { value: number; label: string }[] {
+export function columnChoices(
+	rows: string[][],
+	layout: Pick<CaptureLayout, 'hasHeader'>
+): { value: number; label: string }[] {
 	const header = layout.hasHeader ? (rows[0] ?? []) : [];
 	return Array.from({ length: columnCount(rows) }, (_, c) => {
 		const name = header[c]?.trim();
@@ -73,7 +79,9 @@ export function previewRows(layout: CaptureLayout, rows: string[][]): PreviewRow
 		}
 		const seconds = parsed.time * SECONDS_PER_UNIT[layout.timeUnit];
 		origin ??= seconds;
-		const bytes = Array.from(parsed.data.subarray(0, parsed.length), (b) => b.toString(16).toUpperCase().padStart(2, '0'));
+		const bytes = Array.from(parsed.data.subarray(0, parsed.length), (b) =>
+			b.toString(16).toUpperCase().padStart(2, '0')
+		);
 		out.push({
 			line: r + 1,
 			fields,
@@ -93,16 +101,43 @@ export function previewRows(layout: CaptureLayout, rows: string[][]): PreviewRow
 /** The layout's problems as "field: message" lines; empty when it can be sent for processing. */
 export function layoutProblems(layout: CaptureLayout, count: number): string[] {
 	const parsed = captureLayoutSchema.safeParse(layout);
-	const problems = parsed.success ? [] : parsed.error.issues.map((i) => `${i.path.join('.') || 'layout'}: ${i.message}`);
-	const used = [layout.timeColumn, layout.idColumn, layout.extendedColumn, layout.dlcColumn, layout.dataColumn, ...layout.byteColumns];
-	for (const c of used) if (c !== null && count > 0 && c >= count) problems.push(`column ${c + 1} is not in the file (it has ${count})`);
-	const single = [layout.timeColumn, layout.idColumn, layout.extendedColumn, layout.dlcColumn, layout.dataColumn].filter((c) => c !== null);
-	if (new Set(single).size !== single.length) problems.push('two fields are read from the same column');
+	const problems = parsed.success
+		? []
+		: parsed.error.issues.map((i) => `${i.path.join('.') || 'layout'}: ${i.message}`);
+	const used = [
+		layout.timeColumn,
+		layout.idColumn,
+		layout.extendedColumn,
+		layout.dlcColumn,
+		layout.dataColumn,
+		...layout.byteColumns
+	];
+	for (const c of used)
+		if (c !== null && count > 0 && c >= count)
+			problems.push(`column ${c + 1} is not in the file (it has ${count})`);
+	const single = [
+		layout.timeColumn,
+		layout.idColumn,
+		layout.extendedColumn,
+		layout.dlcColumn,
+		layout.dataColumn
+	].filter((c) => c !== null);
+	if (new Set(single).size !== single.length)
+		problems.push('two fields are read from the same column');
 	return problems;
 }
 
 /** Switches between one hex data column and separate byte columns (consecutive from `first`). */
-export function withDataColumns(layout: CaptureLayout, mode: 'single' | 'bytes', first: number, byteCount = 8): CaptureLayout {
+export function withDataColumns(
+	layout: CaptureLayout,
+	mode: 'single' | 'bytes',
+	first: number,
+	byteCount = 8
+): CaptureLayout {
 	if (mode === 'single') return { ...layout, dataColumn: first, byteColumns: [] };
-	return { ...layout, dataColumn: null, byteColumns: Array.from({ length: byteCount }, (_, k) => first + k) };
+	return {
+		...layout,
+		dataColumn: null,
+		byteColumns: Array.from({ length: byteCount }, (_, k) => first + k)
+	};
 }

@@ -9,42 +9,87 @@ const map = canMapSchema.parse({
 	name: 'Rules demo',
 	frames: [
 		{ name: 'Empty', id: '0x100' },
-		{ name: 'Temps', id: '0x101', signals: [{ name: 'Coolant', startBit: 0, length: 8, offset: -40, unit: '°C', max: 105 }, { name: 'Oil', startBit: 8, length: 8 }] }
+		{
+			name: 'Temps',
+			id: '0x101',
+			signals: [
+				{ name: 'Coolant', startBit: 0, length: 8, offset: -40, unit: '°C', max: 105 },
+				{ name: 'Oil', startBit: 8, length: 8 }
+			]
+		}
 	]
 });
-const rule: AlertRule = alertRuleSchema.parse({ id: 'r1', name: 'Hot', channel: { frame: 'Temps', signal: 'Coolant' }, severity: 'advisory', condition: 'above', setpoint: 100 });
+const rule: AlertRule = alertRuleSchema.parse({
+	id: 'r1',
+	name: 'Hot',
+	channel: { frame: 'Temps', signal: 'Coolant' },
+	severity: 'advisory',
+	condition: 'above',
+	setpoint: 100
+});
 
 describe('alert rule table helpers', () => {
 	it('offers every signal of every frame as a channel', () => {
-		expect(channelOptions(map.frames).map((c) => [c.label, c.unit])).toEqual([['Temps / Coolant', '°C'], ['Temps / Oil', '']]);
+		expect(channelOptions(map.frames).map((c) => [c.label, c.unit])).toEqual([
+			['Temps / Coolant', '°C'],
+			['Temps / Oil', '']
+		]);
 	});
 
 	it('applies a number typed with a decimal comma and refuses text that is not a number', () => {
-		expect(editRuleField(rule, 'deadband', '2,5')).toMatchObject({ ok: true, rule: { deadband: 2.5 } });
-		expect(editRuleField(rule, 'setpoint', 'hot')).toEqual({ ok: false, message: '"hot" is not a number' });
+		expect(editRuleField(rule, 'deadband', '2,5')).toMatchObject({
+			ok: true,
+			rule: { deadband: 2.5 }
+		});
+		expect(editRuleField(rule, 'setpoint', 'hot')).toEqual({
+			ok: false,
+			message: '"hot" is not a number'
+		});
 		expect(editRuleField(rule, 'setpoint', ' ')).toEqual({ ok: false, message: 'enter a number' });
 	});
 
 	it('passes every edit through the rule schema, with its messages', () => {
-		expect(editRuleField(rule, 'onDelayS', '-1')).toEqual({ ok: false, message: 'on-delay must be 0 or more seconds' });
+		expect(editRuleField(rule, 'onDelayS', '-1')).toEqual({
+			ok: false,
+			message: 'on-delay must be 0 or more seconds'
+		});
 		const badMessage = editRuleField(rule, 'message', '{name} at {temperature}');
-		expect(badMessage.ok ? '' : badMessage.message).toMatch(/unknown placeholder "\{temperature\}"/);
-		expect(editRuleField(rule, 'channel', 'Temps\u0000Oil')).toMatchObject({ ok: true, rule: { channel: { frame: 'Temps', signal: 'Oil' } } });
-		expect(editRuleField(rule, 'latching', 'true')).toMatchObject({ ok: true, rule: { latching: true } });
+		expect(badMessage.ok ? '' : badMessage.message).toMatch(
+			/unknown placeholder "\{temperature\}"/
+		);
+		expect(editRuleField(rule, 'channel', 'Temps\u0000Oil')).toMatchObject({
+			ok: true,
+			rule: { channel: { frame: 'Temps', signal: 'Oil' } }
+		});
+		expect(editRuleField(rule, 'latching', 'true')).toMatchObject({
+			ok: true,
+			rule: { latching: true }
+		});
 	});
 
 	it('turns a setpoint into a band and back without losing the other fields', () => {
 		const band = editRuleField({ ...rule, deadband: 1 }, 'condition', 'outside');
-		expect(band).toMatchObject({ ok: true, rule: { condition: 'outside', high: 100, deadband: 1 } });
+		expect(band).toMatchObject({
+			ok: true,
+			rule: { condition: 'outside', high: 100, deadband: 1 }
+		});
 		expect(band.ok && 'setpoint' in band.rule).toBe(false);
 		if (!band.ok || band.rule.condition !== 'outside') throw new Error('expected a band');
 		expect(band.rule.low).toBeLessThan(100);
-		expect(editRuleField(band.rule, 'condition', 'below')).toMatchObject({ ok: true, rule: { condition: 'below', setpoint: band.rule.low, deadband: 1 } });
+		expect(editRuleField(band.rule, 'condition', 'below')).toMatchObject({
+			ok: true,
+			rule: { condition: 'below', setpoint: band.rule.low, deadband: 1 }
+		});
 	});
 
 	it('adds a rule on the first signal with an unused id and name', () => {
 		const first = newAlertRule(map.frames, []);
-		expect(first).toMatchObject({ id: 'rule-1', name: 'New rule 1', channel: { frame: 'Temps', signal: 'Coolant' }, setpoint: 105 });
+		expect(first).toMatchObject({
+			id: 'rule-1',
+			name: 'New rule 1',
+			channel: { frame: 'Temps', signal: 'Coolant' },
+			setpoint: 105
+		});
 		const second = newAlertRule(map.frames, [first, { ...first, id: 'rule-2', name: 'Other' }]);
 		expect(second.id).toBe('rule-3');
 	});

@@ -2,7 +2,12 @@
  * Editing one alert rule field from the table's text: every edit goes back through the zod rule
  * schema, so the table shows the same messages an import of the JSON file would.
  */
-import { alertRuleSchema, DEFAULT_ALERT_MESSAGE, type AlertCondition, type AlertRule } from '$lib/can/alerts/rule';
+import {
+	alertRuleSchema,
+	DEFAULT_ALERT_MESSAGE,
+	type AlertCondition,
+	type AlertRule
+} from '$lib/can/alerts/rule';
 import type { Frame } from '$lib/can/map';
 
 export type RuleField =
@@ -22,8 +27,16 @@ export type RuleField =
 export type EditResult = { ok: true; rule: AlertRule } | { ok: false; message: string };
 
 /** "Frame / Signal" choices for the channel picker, as `frame\u0000signal` values. */
-export function channelOptions(frames: readonly Frame[]): { value: string; label: string; unit: string }[] {
-	return frames.flatMap((f) => f.signals.map((s) => ({ value: channelKey(f.name, s.name), label: `${f.name} / ${s.name}`, unit: s.unit })));
+export function channelOptions(
+	frames: readonly Frame[]
+): { value: string; label: string; unit: string }[] {
+	return frames.flatMap((f) =>
+		f.signals.map((s) => ({
+			value: channelKey(f.name, s.name),
+			label: `${f.name} / ${s.name}`,
+			unit: s.unit
+		}))
+	);
 }
 
 export function channelKey(frame: string, signal: string): string {
@@ -44,16 +57,27 @@ function numberFrom(text: string): number | string {
 
 /** Keeps the rule's own fields when the condition changes: a single setpoint becomes a band around it and back. */
 function withCondition(rule: AlertRule, condition: AlertCondition): Record<string, unknown> {
-	const { condition: _c, ...rest } = rule as AlertRule & { setpoint?: number; low?: number; high?: number };
+	const { condition: _c, ...rest } = rule as AlertRule & {
+		setpoint?: number;
+		low?: number;
+		high?: number;
+	};
 	delete rest.setpoint;
 	delete rest.low;
 	delete rest.high;
 	if (condition === 'outside') {
-		const low = rule.condition === 'outside' ? rule.low : rule.condition === 'below' ? rule.setpoint : 0;
-		const high = rule.condition === 'outside' ? rule.high : rule.condition === 'above' ? rule.setpoint : low + 1;
+		const low =
+			rule.condition === 'outside' ? rule.low : rule.condition === 'below' ? rule.setpoint : 0;
+		const high =
+			rule.condition === 'outside'
+				? rule.high
+				: rule.condition === 'above'
+					? rule.setpoint
+					: low + 1;
 		return { ...rest, condition, low, high: high > low ? high : low + 1 };
 	}
-	const setpoint = rule.condition !== 'outside' ? rule.setpoint : condition === 'above' ? rule.high : rule.low;
+	const setpoint =
+		rule.condition !== 'outside' ? rule.setpoint : condition === 'above' ? rule.high : rule.low;
 	return { ...rest, condition, setpoint };
 }
 
@@ -67,7 +91,8 @@ export function editRuleField(rule: AlertRule, field: RuleField, text: string): 
 			break;
 		}
 		case 'condition':
-			if (text !== 'above' && text !== 'below' && text !== 'outside') return { ok: false, message: 'choose above, below or outside a band' };
+			if (text !== 'above' && text !== 'below' && text !== 'outside')
+				return { ok: false, message: 'choose above, below or outside a band' };
 			candidate = withCondition(rule, text);
 			break;
 		case 'latching':

@@ -2,7 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { frameSchema } from '$lib/can/map';
 import { duplicateFrame, editFrameField, FRAME_FIELDS, newFrame, nextFreeId } from './frame-fields';
 
-const frame = frameSchema.parse({ name: 'EngineFast', id: '0x360', length: 8, cycleMs: 20, sender: 'ECU' });
+const frame = frameSchema.parse({
+	name: 'EngineFast',
+	id: '0x360',
+	length: 8,
+	cycleMs: 20,
+	sender: 'ECU'
+});
 
 describe('editFrameField', () => {
 	it.each([
@@ -25,24 +31,46 @@ describe('editFrameField', () => {
 		expect(editFrameField(frame, 'length', '12').ok).toBe(true);
 		expect(editFrameField(frame, 'length', '64').ok).toBe(true);
 		const nine = editFrameField(frame, 'length', '9');
-		expect(nine).toEqual({ ok: false, message: expect.stringMatching(/^Length \(bytes\): payload length must be/) });
+		expect(nine).toEqual({
+			ok: false,
+			message: expect.stringMatching(/^Length \(bytes\): payload length must be/)
+		});
 		expect(editFrameField(frame, 'length', '').ok).toBe(false);
 	});
 
 	it('treats an empty cycle time as "not cyclic" and refuses zero', () => {
-		expect(editFrameField(frame, 'cycleMs', '')).toEqual({ ok: true, frame: { ...frame, cycleMs: null } });
+		expect(editFrameField(frame, 'cycleMs', '')).toEqual({
+			ok: true,
+			frame: { ...frame, cycleMs: null }
+		});
 		expect(editFrameField(frame, 'cycleMs', '0').ok).toBe(false);
-		expect(editFrameField(frame, 'cycleMs', '12.5')).toEqual({ ok: true, frame: { ...frame, cycleMs: 12.5 } });
+		expect(editFrameField(frame, 'cycleMs', '12.5')).toEqual({
+			ok: true,
+			frame: { ...frame, cycleMs: 12.5 }
+		});
 	});
 
 	it('switches between standard and extended format and refuses an empty name', () => {
-		expect(editFrameField(frame, 'extended', 'ext')).toEqual({ ok: true, frame: { ...frame, extended: true } });
-		expect(editFrameField(frame, 'name', '   ')).toEqual({ ok: false, message: 'Name: a frame needs a name' });
+		expect(editFrameField(frame, 'extended', 'ext')).toEqual({
+			ok: true,
+			frame: { ...frame, extended: true }
+		});
+		expect(editFrameField(frame, 'name', '   ')).toEqual({
+			ok: false,
+			message: 'Name: a frame needs a name'
+		});
 	});
 
 	it('shows every field the way it is edited', () => {
 		const shown = Object.fromEntries(FRAME_FIELDS.map((f) => [f.key, f.show(frame)]));
-		expect(shown).toEqual({ id: '0x360', extended: 'Std', name: 'EngineFast', length: '8', cycleMs: '20', sender: 'ECU' });
+		expect(shown).toEqual({
+			id: '0x360',
+			extended: 'Std',
+			name: 'EngineFast',
+			length: '8',
+			cycleMs: '20',
+			sender: 'ECU'
+		});
 	});
 });
 
@@ -60,7 +88,10 @@ describe('new and duplicated frames', () => {
 	});
 
 	it('copies signals into a duplicate without sharing them', () => {
-		const withSignal = frameSchema.parse({ ...frame, signals: [{ name: 'Rpm', startBit: 0, length: 16 }] });
+		const withSignal = frameSchema.parse({
+			...frame,
+			signals: [{ name: 'Rpm', startBit: 0, length: 16 }]
+		});
 		const copy = duplicateFrame([withSignal], withSignal);
 		expect(copy.name).toBe('EngineFast_copy');
 		expect(copy.id).toBe(0x361);

@@ -32,7 +32,12 @@ export const FRAME_FIELDS: FrameField[] = [
 	},
 	{ key: 'name', label: 'Name', editor: 'text', show: (f) => f.name },
 	{ key: 'length', label: 'Length (bytes)', editor: 'text', show: (f) => String(f.length) },
-	{ key: 'cycleMs', label: 'Cycle (ms)', editor: 'text', show: (f) => (f.cycleMs === null ? '' : String(f.cycleMs)) },
+	{
+		key: 'cycleMs',
+		label: 'Cycle (ms)',
+		editor: 'text',
+		show: (f) => (f.cycleMs === null ? '' : String(f.cycleMs))
+	},
 	{ key: 'sender', label: 'Sender', editor: 'text', show: (f) => f.sender }
 ];
 

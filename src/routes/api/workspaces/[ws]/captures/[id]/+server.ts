@@ -13,6 +13,11 @@ export const GET: RequestHandler = apiRoute(async (event) => {
 /** Owners delete any capture; viewers and editors their own uploads (checked in deleteCapture). */
 export const DELETE: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace, role } = await requireRole(event, 'viewer');
-	await deleteCapture(event.locals.services, { workspaceId: workspace.id, captureId: event.params.id, actorId: user.id, role });
+	await deleteCapture(event.locals.services, {
+		workspaceId: workspace.id,
+		captureId: event.params.id,
+		actorId: user.id,
+		role
+	});
 	return noContent();
 });

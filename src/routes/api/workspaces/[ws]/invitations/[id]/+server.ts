@@ -5,6 +5,10 @@ import type { RequestHandler } from './$types';
 
 export const DELETE: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'owner');
-	await revokeInvitation(event.locals.services.db, { workspaceId: workspace.id, id: event.params.id, actorId: user.id });
+	await revokeInvitation(event.locals.services.db, {
+		workspaceId: workspace.id,
+		id: event.params.id,
+		actorId: user.id
+	});
 	return noContent();
 });

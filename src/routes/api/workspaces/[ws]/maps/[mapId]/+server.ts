@@ -14,12 +14,22 @@ export const GET: RequestHandler = apiRoute(async (event) => {
 export const PATCH: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'editor');
 	const { name, version } = await readJsonBody(event.request, renameInputSchema);
-	const renamed = await renameMap(event.locals.services.db, { workspaceId: workspace.id, mapId: event.params.mapId, name, version, actorId: user.id });
+	const renamed = await renameMap(event.locals.services.db, {
+		workspaceId: workspace.id,
+		mapId: event.params.mapId,
+		name,
+		version,
+		actorId: user.id
+	});
 	return json({ map: { id: event.params.mapId, name: renamed.name }, version: renamed.version });
 });
 
 export const DELETE: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'owner');
-	await deleteMap(event.locals.services.db, { workspaceId: workspace.id, mapId: event.params.mapId, actorId: user.id });
+	await deleteMap(event.locals.services.db, {
+		workspaceId: workspace.id,
+		mapId: event.params.mapId,
+		actorId: user.id
+	});
 	return noContent();
 });

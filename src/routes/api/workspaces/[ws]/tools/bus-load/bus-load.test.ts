@@ -9,12 +9,22 @@ import { createMap, saveDraft } from '$lib/server/db/maps';
 import { loadSnapshot, publishRevision } from '$lib/server/db/revisions';
 import { createWorkspace } from '$lib/server/db/workspaces';
 import type { SessionUser } from '$lib/server/guard';
-import { createTestServices, createUser, makeEvent, type TestServices } from '$lib/server/test-support';
+import {
+	createTestServices,
+	createUser,
+	makeEvent,
+	type TestServices
+} from '$lib/server/test-support';
 import type { BusLoadResponse } from './bus-load-response';
 import { GET } from './+server';
 
 const ROUTE = '/api/workspaces/[ws]/tools/bus-load';
-const fixture = parseMap(readFileSync(new URL('../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url), 'utf8'));
+const fixture = parseMap(
+	readFileSync(
+		new URL('../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
+		'utf8'
+	)
+);
 if (!fixture.ok) throw new Error('the club racer fixture must parse');
 const clubRacer = fixture.map;
 
@@ -34,9 +44,28 @@ async function buildWorld(): Promise<World> {
 	const viewer = await createUser(db, 'viewer@example.test');
 	const outsider = await createUser(db, 'outsider@example.test');
 	const ws = await createWorkspace(db, { name: 'Bus load team', ownerId: owner.id });
-	await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at: new Date().toISOString() }).execute();
-	const map = await createMap(db, { workspaceId: ws.id, map: clubRacer, actorId: owner.id, source: 'json' });
-	await publishRevision(db, { workspaceId: ws.id, mapId: map.id, version: 1, actorId: owner.id, note: 'r1' });
+	await db
+		.insertInto('memberships')
+		.values({
+			workspace_id: ws.id,
+			user_id: viewer.id,
+			role: 'viewer',
+			joined_at: new Date().toISOString()
+		})
+		.execute();
+	const map = await createMap(db, {
+		workspaceId: ws.id,
+		map: clubRacer,
+		actorId: owner.id,
+		source: 'json'
+	});
+	await publishRevision(db, {
+		workspaceId: ws.id,
+		mapId: map.id,
+		version: 1,
+		actorId: owner.id,
+		note: 'r1'
+	});
 	// The draft drops the fastest frame, so r1 and the draft have different loads.
 	const draft = { ...structuredClone(clubRacer), frames: clubRacer.frames.slice(1) };
 	await saveDraft(db, { workspaceId: ws.id, mapId: map.id, version: 1, draft, actorId: owner.id });
@@ -45,7 +74,15 @@ async function buildWorld(): Promise<World> {
 
 async function get(w: World, user: SessionUser | null, query: string): Promise<Response> {
 	const path = `/api/workspaces/${w.slug}/tools/bus-load${query}`;
-	return GET(makeEvent<RequestEvent>({ services: w.services, user, routeId: ROUTE, params: { ws: w.slug }, path }) as never);
+	return GET(
+		makeEvent<RequestEvent>({
+			services: w.services,
+			user,
+			routeId: ROUTE,
+			params: { ws: w.slug },
+			path
+		}) as never
+	);
 }
 
 describe('GET /api/workspaces/[ws]/tools/bus-load', () => {
@@ -62,12 +99,18 @@ describe('GET /api/workspaces/[ws]/tools/bus-load', () => {
 
 	it('reads the draft when asked, and applies a bit-rate override', async () => {
 		const w = await buildWorld();
-		const draft = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=draft`)).json()) as BusLoadResponse;
-		const r1 = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=1`)).json()) as BusLoadResponse;
+		const draft = (await (
+			await get(w, w.viewer, `?mapId=${w.mapId}&rev=draft`)
+		).json()) as BusLoadResponse;
+		const r1 = (await (
+			await get(w, w.viewer, `?mapId=${w.mapId}&rev=1`)
+		).json()) as BusLoadResponse;
 		expect(draft.label).toBe('draft');
 		expect(draft.busLoad.frames).toHaveLength(clubRacer.frames.length - 1);
 		expect(draft.busLoad.worstCasePercent).toBeLessThan(r1.busLoad.worstCasePercent);
-		const at250k = (await (await get(w, w.viewer, `?mapId=${w.mapId}&rev=1&bitrate=250000`)).json()) as BusLoadResponse;
+		const at250k = (await (
+			await get(w, w.viewer, `?mapId=${w.mapId}&rev=1&bitrate=250000`)
+		).json()) as BusLoadResponse;
 		// Half the bit rate carries the same bits: twice the share (arithmetic of percent of capacity).
 		expect(at250k.busLoad.bitrate).toBe(250_000);
 		expect(at250k.busLoad.nominalPercent).toBeCloseTo(2 * r1.busLoad.nominalPercent, 9);
@@ -85,7 +128,10 @@ describe('GET /api/workspaces/[ws]/tools/bus-load', () => {
 		const w = await buildWorld();
 		const response = await get(w, w.viewer, query);
 		expect(response.status).toBe(400);
-		const body = (await response.json()) as { error: string; issues: { path: string; message: string }[] };
+		const body = (await response.json()) as {
+			error: string;
+			issues: { path: string; message: string }[];
+		};
 		expect(body.issues.map((i) => i.path)).toContain(path);
 		expect(body.issues.every((i) => i.message.length > 0)).toBe(true);
 	});

@@ -1,4 +1,10 @@
-import { canonicalCaptureCsv, captureExportFileName, csvByteStream, longFormCsv, wideFormCsv } from '$lib/can/capture/export';
+import {
+	canonicalCaptureCsv,
+	captureExportFileName,
+	csvByteStream,
+	longFormCsv,
+	wideFormCsv
+} from '$lib/can/capture/export';
 import { getDecoded, requireReadyCapture, revisionLabel } from '$lib/server/captures/decoding';
 import { loadFrameStore } from '$lib/server/captures/store';
 import { exportQuerySchema, queryObject } from '$lib/server/captures/view-schemas';
@@ -19,7 +25,8 @@ function primed(chunks: Generator<string>): Iterable<string> {
 	try {
 		first = chunks.next();
 	} catch (thrown) {
-		if (thrown instanceof RangeError) throw new Problem(400, thrown.message, [{ path: 'interval', message: thrown.message }]);
+		if (thrown instanceof RangeError)
+			throw new Problem(400, thrown.message, [{ path: 'interval', message: thrown.message }]);
 		throw thrown;
 	}
 	return (function* () {
@@ -38,7 +45,10 @@ export const GET: RequestHandler = async (event) => {
 		const q = parseOrProblem(exportQuerySchema, queryObject(event.url));
 		const { services } = event.locals;
 		const capture = await requireReadyCapture(services, workspace.id, event.params.id);
-		const headers = new Headers({ 'content-type': 'text/csv; charset=utf-8', 'cache-control': 'no-store' });
+		const headers = new Headers({
+			'content-type': 'text/csv; charset=utf-8',
+			'cache-control': 'no-store'
+		});
 		let chunks: Iterable<string>;
 		let fileName: string;
 		if (q.kind === 'frames') {
@@ -47,8 +57,15 @@ export const GET: RequestHandler = async (event) => {
 		} else {
 			const { decode, result } = await getDecoded(services, workspace.id, capture.id, q.decode!);
 			const revision = revisionLabel(decode);
-			chunks = primed(q.kind === 'long' ? longFormCsv(result.channels) : wideFormCsv(result.channels, { interval: q.interval, mode: q.mode }));
-			fileName = captureExportFileName(baseName(capture.name), q.kind, { mapName: decode.mapName, revision });
+			chunks = primed(
+				q.kind === 'long'
+					? longFormCsv(result.channels)
+					: wideFormCsv(result.channels, { interval: q.interval, mode: q.mode })
+			);
+			fileName = captureExportFileName(baseName(capture.name), q.kind, {
+				mapName: decode.mapName,
+				revision
+			});
 			headers.set('x-framewright-revision', revision);
 		}
 		headers.set('content-disposition', `attachment; filename="${fileName}"`);

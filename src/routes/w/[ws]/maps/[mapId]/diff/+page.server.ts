@@ -15,7 +15,17 @@ export const load = (async (event) => {
 		const latest = revisions[0]?.number ?? 'draft';
 		const from = readRevisionRef(event.url, 'from', latest);
 		const to = readRevisionRef(event.url, 'to', 'draft');
-		const [a, b] = await Promise.all([loadSnapshot(db, workspace.id, map.id, from), loadSnapshot(db, workspace.id, map.id, to)]);
-		return { diff: diffMaps(a.map, b.map), from, to, revisions, map: { id: map.id, name: map.name }, role };
+		const [a, b] = await Promise.all([
+			loadSnapshot(db, workspace.id, map.id, from),
+			loadSnapshot(db, workspace.id, map.id, to)
+		]);
+		return {
+			diff: diffMaps(a.map, b.map),
+			from,
+			to,
+			revisions,
+			map: { id: map.id, name: map.name },
+			role
+		};
 	});
 }) satisfies PageServerLoad;

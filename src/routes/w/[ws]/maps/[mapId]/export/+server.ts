@@ -13,7 +13,12 @@ export const GET: RequestHandler = async (event) => {
 		const ref = readRevisionRef(event.url, 'rev', 'draft');
 		const format = exportFormatSchema.safeParse(event.url.searchParams.get('format') ?? 'json');
 		if (!format.success) throw new Problem(400, 'The format must be json or csv.');
-		const snapshot = await loadSnapshot(event.locals.services.db, workspace.id, event.params.mapId, ref);
+		const snapshot = await loadSnapshot(
+			event.locals.services.db,
+			workspace.id,
+			event.params.mapId,
+			ref
+		);
 		return exportResponse(snapshot.map, snapshot.label, format.data);
 	});
 };

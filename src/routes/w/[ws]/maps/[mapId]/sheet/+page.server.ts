@@ -7,7 +7,12 @@ export const load = (async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
 	return orPageError(async () => {
 		const ref = readRevisionRef(event.url, 'rev', 'draft');
-		const snapshot = await loadSnapshot(event.locals.services.db, workspace.id, event.params.mapId, ref);
+		const snapshot = await loadSnapshot(
+			event.locals.services.db,
+			workspace.id,
+			event.params.mapId,
+			ref
+		);
 		return {
 			map: snapshot.map,
 			label: snapshot.label,

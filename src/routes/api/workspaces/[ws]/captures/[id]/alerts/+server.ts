@@ -1,5 +1,10 @@
 import { json } from '@sveltejs/kit';
-import { alertReplayInputSchema, replayAlertRules, UnknownRuleError, type AlertReplay } from '$lib/can/alerts/replay';
+import {
+	alertReplayInputSchema,
+	replayAlertRules,
+	UnknownRuleError,
+	type AlertReplay
+} from '$lib/can/alerts/replay';
 import { apiRoute, readJsonBody } from '$lib/server/api';
 import { getDecoded } from '$lib/server/captures/decoding';
 import { requireRole } from '$lib/server/guard';
@@ -14,12 +19,24 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
 	const input = await readJsonBody(event.request, alertReplayInputSchema);
-	const { map, result } = await getDecoded(event.locals.services, workspace.id, event.params.id, input.decode);
+	const { map, result } = await getDecoded(
+		event.locals.services,
+		workspace.id,
+		event.params.id,
+		input.decode
+	);
 	try {
-		return json(replayAlertRules(map, result.channels, result.duration, input.acknowledgements) satisfies AlertReplay);
+		return json(
+			replayAlertRules(
+				map,
+				result.channels,
+				result.duration,
+				input.acknowledgements
+			) satisfies AlertReplay
+		);
 	} catch (error) {
 		if (error instanceof UnknownRuleError) {
-			throw new Problem(400, 'An acknowledgement names a rule this decode\'s map does not have.', [
+			throw new Problem(400, "An acknowledgement names a rule this decode's map does not have.", [
 				{ path: `acknowledgements.${error.index}.ruleId`, message: error.message }
 			]);
 		}

@@ -14,22 +14,38 @@ import { createMap, saveDraft } from '$lib/server/db/maps';
 import { publishRevision } from '$lib/server/db/revisions';
 import { createWorkspace } from '$lib/server/db/workspaces';
 import type { SessionUser } from '$lib/server/guard';
-import { createTestServices, createUser, makeEvent, type TestServices } from '$lib/server/test-support';
+import {
+	createTestServices,
+	createUser,
+	makeEvent,
+	type TestServices
+} from '$lib/server/test-support';
 import { POST as decodeRoute } from '../decode/+server';
 import { POST as alertsRoute } from './+server';
 
-const fixture = (name: string) => readFileSync(new URL(`../../../../../../../../fixtures/${name}`, import.meta.url), 'utf8');
+const fixture = (name: string) =>
+	readFileSync(new URL(`../../../../../../../../fixtures/${name}`, import.meta.url), 'utf8');
 const parsed = parseMap(fixture('club-racer-ecu.map.json'));
 if (!parsed.ok) throw new Error('the club racer fixture map must parse');
 const clubRacer: CanMap = parsed.map;
 const sessionCsv = fixture('club-racer-session.csv');
 
 // Reference: oil pressure straight from the CSV bytes, times from the first frame.
-const rows = sessionCsv.trim().split('\n').slice(1).map((line) => line.split(','));
+const rows = sessionCsv
+	.trim()
+	.split('\n')
+	.slice(1)
+	.map((line) => line.split(','));
 const t0 = Number(rows[0][0]);
 const oil = rows
 	.filter((r) => r[1] === '5F2')
-	.map((r) => ({ t: Number(r[0]) - t0, v: new DataView(Uint8Array.from(r[4].split(' '), (b) => Number.parseInt(b, 16)).buffer).getUint16(0, true) * 0.1 }));
+	.map((r) => ({
+		t: Number(r[0]) - t0,
+		v:
+			new DataView(
+				Uint8Array.from(r[4].split(' '), (b) => Number.parseInt(b, 16)).buffer
+			).getUint16(0, true) * 0.1
+	}));
 
 interface World {
 	services: TestServices;
@@ -49,23 +65,66 @@ async function buildWorld(): Promise<World> {
 	const outsider = await createUser(db, 'outsider@example.test');
 	const ws = await createWorkspace(db, { name: 'Alert team', ownerId: owner.id });
 	const joined_at = new Date().toISOString();
-	await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at }).execute();
-	const map = await createMap(db, { workspaceId: ws.id, map: clubRacer, actorId: owner.id, source: 'json' });
-	await publishRevision(db, { workspaceId: ws.id, mapId: map.id, version: 1, actorId: owner.id, note: 'r1' });
-	await saveDraft(db, { workspaceId: ws.id, mapId: map.id, version: 1, draft: { ...clubRacer, alertRules: [] }, actorId: owner.id });
-	await publishRevision(db, { workspaceId: ws.id, mapId: map.id, version: 2, actorId: owner.id, note: 'r2' });
+	await db
+		.insertInto('memberships')
+		.values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at })
+		.execute();
+	const map = await createMap(db, {
+		workspaceId: ws.id,
+		map: clubRacer,
+		actorId: owner.id,
+		source: 'json'
+	});
+	await publishRevision(db, {
+		workspaceId: ws.id,
+		mapId: map.id,
+		version: 1,
+		actorId: owner.id,
+		note: 'r1'
+	});
+	await saveDraft(db, {
+		workspaceId: ws.id,
+		mapId: map.id,
+		version: 1,
+		draft: { ...clubRacer, alertRules: [] },
+		actorId: owner.id
+	});
+	await publishRevision(db, {
+		workspaceId: ws.id,
+		mapId: map.id,
+		version: 2,
+		actorId: owner.id,
+		note: 'r2'
+	});
 
 	// A processed capture as processing leaves it: raw CSV and compact frames in storage, status ready.
 	const { store, ...report } = await ingestCapture(sessionCsv);
 	const captureId = crypto.randomUUID();
-	const once = (bytes: Uint8Array) => (async function* () { yield bytes; })();
+	const once = (bytes: Uint8Array) =>
+		(async function* () {
+			yield bytes;
+		})();
 	await storage.put(`captures/${captureId}/raw.csv`, once(new TextEncoder().encode(sessionCsv)));
 	await storage.put(`captures/${captureId}/frames.bin`, once(store.toBytes()));
 	await insertCapture(db, {
-		id: captureId, workspace_id: ws.id, name: 'session', file_name: 'club-racer-session.csv', size_bytes: sessionCsv.length,
-		uploaded_by: viewer.id, uploaded_at: joined_at, status: 'ready', detected_json: null, layout_json: JSON.stringify(report.layout),
-		report_json: null, frame_count: store.count, duration_s: store.time[store.count - 1], raw_key: `captures/${captureId}/raw.csv`,
-		store_key: `captures/${captureId}/frames.bin`, progress: 1, error: null, processed_at: joined_at
+		id: captureId,
+		workspace_id: ws.id,
+		name: 'session',
+		file_name: 'club-racer-session.csv',
+		size_bytes: sessionCsv.length,
+		uploaded_by: viewer.id,
+		uploaded_at: joined_at,
+		status: 'ready',
+		detected_json: null,
+		layout_json: JSON.stringify(report.layout),
+		report_json: null,
+		frame_count: store.count,
+		duration_s: store.time[store.count - 1],
+		raw_key: `captures/${captureId}/raw.csv`,
+		store_key: `captures/${captureId}/frames.bin`,
+		progress: 1,
+		error: null,
+		processed_at: joined_at
 	});
 	return { services, slug: ws.slug, mapId: map.id, captureId, viewer, outsider };
 }
@@ -73,7 +132,14 @@ async function buildWorld(): Promise<World> {
 function event(w: World, user: SessionUser | null, route: 'decode' | 'alerts', body: unknown) {
 	const routeId = `/api/workspaces/[ws]/captures/[id]/${route}`;
 	const params = { ws: w.slug, id: w.captureId };
-	return makeEvent<RequestEvent>({ services: w.services, user, routeId, params, path: `/api/workspaces/${w.slug}/captures/${w.captureId}/${route}`, body }) as never;
+	return makeEvent<RequestEvent>({
+		services: w.services,
+		user,
+		routeId,
+		params,
+		path: `/api/workspaces/${w.slug}/captures/${w.captureId}/${route}`,
+		body
+	}) as never;
 }
 
 async function decodeId(w: World, revision: number): Promise<string> {
@@ -83,50 +149,88 @@ async function decodeId(w: World, revision: number): Promise<string> {
 }
 
 describe('POST /api/workspaces/[ws]/captures/[id]/alerts', () => {
-	it('replays the rules of the decode\'s revision for a viewer: the oil-pressure dip latches', async () => {
+	it("replays the rules of the decode's revision for a viewer: the oil-pressure dip latches", async () => {
 		const w = await buildWorld();
-		const response = await alertsRoute(event(w, w.viewer, 'alerts', { decode: await decodeId(w, 1) }));
+		const response = await alertsRoute(
+			event(w, w.viewer, 'alerts', { decode: await decodeId(w, 1) })
+		);
 		expect(response.status).toBe(200);
 		const replay = (await response.json()) as AlertReplay;
 		expect(replay.rules.map((r) => r.id)).toEqual(['coolant-hot', 'oil-pressure-low']);
 		const dip = oil.find((p) => p.v < 250)!; // below the 250 kPa setpoint; on-delay 0.1 s
 		const oilEvent = replay.events.find((e) => e.rule === 'oil-pressure-low')!;
 		expect(oilEvent.start).toBeCloseTo(dip.t + 0.1, 9);
-		expect(oilEvent).toMatchObject({ severity: 'critical', latched: true, end: null, acknowledgedAt: null });
+		expect(oilEvent).toMatchObject({
+			severity: 'critical',
+			latched: true,
+			end: null,
+			acknowledgedAt: null
+		});
 		expect(oilEvent.peak).toBeCloseTo(Math.min(...oil.map((p) => p.v)), 9);
-		expect(replay.summary.map((s) => [s.rule, s.count])).toEqual([['coolant-hot', 1], ['oil-pressure-low', 1]]);
+		expect(replay.summary.map((s) => [s.rule, s.count])).toEqual([
+			['coolant-hot', 1],
+			['oil-pressure-low', 1]
+		]);
 	});
 
 	it('replays an acknowledgement: the latched event clears at that time', async () => {
 		const w = await buildWorld();
 		const id = await decodeId(w, 1);
-		const response = await alertsRoute(event(w, w.viewer, 'alerts', { decode: id, acknowledgements: [{ ruleId: 'oil-pressure-low', time: 57.5 }] }));
+		const response = await alertsRoute(
+			event(w, w.viewer, 'alerts', {
+				decode: id,
+				acknowledgements: [{ ruleId: 'oil-pressure-low', time: 57.5 }]
+			})
+		);
 		const replay = (await response.json()) as AlertReplay;
-		expect(replay.events.find((e) => e.rule === 'oil-pressure-low')).toMatchObject({ end: 57.5, acknowledgedAt: 57.5, latched: true });
+		expect(replay.events.find((e) => e.rule === 'oil-pressure-low')).toMatchObject({
+			end: 57.5,
+			acknowledgedAt: 57.5,
+			latched: true
+		});
 	});
 
 	it('uses the rules of the revision the decode used: r2 has none', async () => {
 		const w = await buildWorld();
-		const replay = (await (await alertsRoute(event(w, w.viewer, 'alerts', { decode: await decodeId(w, 2) }))).json()) as AlertReplay;
+		const replay = (await (
+			await alertsRoute(event(w, w.viewer, 'alerts', { decode: await decodeId(w, 2) }))
+		).json()) as AlertReplay;
 		expect(replay).toMatchObject({ rules: [], events: [], summary: [] });
 	});
 
 	it('refuses bad input with the path to fix, an unknown decode, an outsider and no session', async () => {
 		const w = await buildWorld();
 		const id = await decodeId(w, 1);
-		const bad = await alertsRoute(event(w, w.viewer, 'alerts', { decode: id, acknowledgements: [{ ruleId: 'oil-pressure-low', time: 'later' }] }));
+		const bad = await alertsRoute(
+			event(w, w.viewer, 'alerts', {
+				decode: id,
+				acknowledgements: [{ ruleId: 'oil-pressure-low', time: 'later' }]
+			})
+		);
 		expect(bad.status).toBe(400);
-		expect(((await bad.json()) as { issues: { path: string }[] }).issues.map((i) => i.path)).toEqual(['acknowledgements.0.time']);
+		expect(
+			((await bad.json()) as { issues: { path: string }[] }).issues.map((i) => i.path)
+		).toEqual(['acknowledgements.0.time']);
 
-		const unknownRule = await alertsRoute(event(w, w.viewer, 'alerts', { decode: id, acknowledgements: [{ ruleId: 'nope', time: 1 }] }));
+		const unknownRule = await alertsRoute(
+			event(w, w.viewer, 'alerts', { decode: id, acknowledgements: [{ ruleId: 'nope', time: 1 }] })
+		);
 		expect(unknownRule.status).toBe(400);
-		expect(await unknownRule.json()).toMatchObject({ issues: [{ path: 'acknowledgements.0.ruleId', message: expect.stringContaining('"nope"') }] });
+		expect(await unknownRule.json()).toMatchObject({
+			issues: [{ path: 'acknowledgements.0.ruleId', message: expect.stringContaining('"nope"') }]
+		});
 
 		expect((await alertsRoute(event(w, w.viewer, 'alerts', {}))).status).toBe(400);
-		expect((await alertsRoute(event(w, w.viewer, 'alerts', { decode: 'no-such-decode' }))).status).toBe(404);
-		const outsider = await outcomeStatus(() => alertsRoute(event(w, w.outsider, 'alerts', { decode: id })));
+		expect(
+			(await alertsRoute(event(w, w.viewer, 'alerts', { decode: 'no-such-decode' }))).status
+		).toBe(404);
+		const outsider = await outcomeStatus(() =>
+			alertsRoute(event(w, w.outsider, 'alerts', { decode: id }))
+		);
 		expect([403, 404]).toContain(outsider);
-		expect(await outcomeStatus(() => alertsRoute(event(w, null, 'alerts', { decode: id })))).toBe(401);
+		expect(await outcomeStatus(() => alertsRoute(event(w, null, 'alerts', { decode: id })))).toBe(
+			401
+		);
 	});
 });
 

@@ -9,6 +9,12 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { workspace, user } = await requireRole(event, 'viewer');
 	const input = await readJsonBody(event.request, decodeInputSchema);
-	const { decode, summary } = await decodeWith(event.locals.services, workspace.id, event.params.id, input, user.id);
+	const { decode, summary } = await decodeWith(
+		event.locals.services,
+		workspace.id,
+		event.params.id,
+		input,
+		user.id
+	);
 	return json({ decode, summary } satisfies DecodeResponse);
 });

@@ -9,5 +9,13 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { workspace, user } = await requireRole(event, 'editor');
 	const input = await readJsonBody(event.request, defineFrameInputSchema);
-	return json(await defineFrameFromCapture(event.locals.services, workspace.id, event.params.id, input, user.id));
+	return json(
+		await defineFrameFromCapture(
+			event.locals.services,
+			workspace.id,
+			event.params.id,
+			input,
+			user.id
+		)
+	);
 });

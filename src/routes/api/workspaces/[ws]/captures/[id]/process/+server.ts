@@ -9,6 +9,11 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'viewer');
 	const { layout } = await readJsonBody(event.request, processCaptureInputSchema);
-	const capture = await startProcessing(event.locals.services, { workspaceId: workspace.id, captureId: event.params.id, layout, actorId: user.id });
+	const capture = await startProcessing(event.locals.services, {
+		workspaceId: workspace.id,
+		captureId: event.params.id,
+		layout,
+		actorId: user.id
+	});
 	return json({ capture }, { status: 202 });
 });

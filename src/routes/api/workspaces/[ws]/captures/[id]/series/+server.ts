@@ -25,19 +25,31 @@ export interface SeriesResponse {
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
 	const q = parseOrProblem(seriesQuerySchema, queryObject(event.url));
-	const { result } = await getDecoded(event.locals.services, workspace.id, event.params.id, q.decode);
+	const { result } = await getDecoded(
+		event.locals.services,
+		workspace.id,
+		event.params.id,
+		q.decode
+	);
 	const channel = result.channels.find((c) => c.info.index === q.channel);
 	if (!channel) {
-		throw new Problem(404, `This decode has ${result.channels.length} channels (0–${result.channels.length - 1}); there is no channel ${q.channel}.`, [
-			{ path: 'channel', message: 'no such channel in this decode' }
-		]);
+		throw new Problem(
+			404,
+			`This decode has ${result.channels.length} channels (0–${result.channels.length - 1}); there is no channel ${q.channel}.`,
+			[{ path: 'channel', message: 'no such channel in this decode' }]
+		);
 	}
 	const from = q.from ?? Math.min(0, q.to ?? 0);
 	const to = q.to ?? Math.max(result.duration, from);
 	const d = decimateMinMax(channel.time, channel.value, from, to, q.points);
 	const { info } = channel;
 	const body: SeriesResponse = {
-		channel: { index: info.index, frameName: info.frameName, signalName: info.signalName, unit: info.unit },
+		channel: {
+			index: info.index,
+			frameName: info.frameName,
+			signalName: info.signalName,
+			unit: info.unit
+		},
 		time: Array.from(d.time),
 		// ±Infinity (a float field can carry it) has no JSON form
 		value: Array.from(d.value, (v) => (Number.isFinite(v) ? v : null)),

@@ -10,6 +10,12 @@ import type { RequestHandler } from './$types';
 export const PUT: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'editor');
 	const { version, draft } = await readJsonBody(event.request, draftInputSchema);
-	const saved = await saveDraft(event.locals.services.db, { workspaceId: workspace.id, mapId: event.params.mapId, version, draft, actorId: user.id });
+	const saved = await saveDraft(event.locals.services.db, {
+		workspaceId: workspace.id,
+		mapId: event.params.mapId,
+		version,
+		draft,
+		actorId: user.id
+	});
 	return json({ version: saved.version, lint: lintMap(draft) });
 });

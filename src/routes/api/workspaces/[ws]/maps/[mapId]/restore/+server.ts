@@ -8,6 +8,12 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'editor');
 	const { revision, version } = await readJsonBody(event.request, restoreInputSchema);
-	const restored = await restoreRevision(event.locals.services.db, { workspaceId: workspace.id, mapId: event.params.mapId, revision, version, actorId: user.id });
+	const restored = await restoreRevision(event.locals.services.db, {
+		workspaceId: workspace.id,
+		mapId: event.params.mapId,
+		revision,
+		version,
+		actorId: user.id
+	});
 	return json({ version: restored.version });
 });

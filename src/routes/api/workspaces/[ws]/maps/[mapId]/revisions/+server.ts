@@ -19,10 +19,19 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'editor');
 	const { note, version } = await readJsonBody(event.request, publishInputSchema);
 	const { db, sendMail } = event.locals.services;
-	const revision = await publishRevision(db, { workspaceId: workspace.id, mapId: event.params.mapId, version, note, actorId: user.id });
+	const revision = await publishRevision(db, {
+		workspaceId: workspace.id,
+		mapId: event.params.mapId,
+		version,
+		note,
+		actorId: user.id
+	});
 
 	// The revision is already stored; a mail failure is reported, not turned into a failed publish.
-	const url = new URL(`/w/${workspace.slug}/maps/${event.params.mapId}/revisions/${revision.number}`, event.url.origin).toString();
+	const url = new URL(
+		`/w/${workspace.slug}/maps/${event.params.mapId}/revisions/${revision.number}`,
+		event.url.origin
+	).toString();
 	const recipients = (await listMembers(db, workspace.id)).filter((m) => m.userId !== user.id);
 	const results = await Promise.allSettled(
 		recipients.map((member) =>
@@ -40,6 +49,10 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 		)
 	);
 	const failed = results.filter((r) => r.status === 'rejected').length;
-	if (failed > 0) console.error(`Publish of r${revision.number}: ${failed} notification(s) could not be sent`);
-	return json({ revision: { number: revision.number }, notified: results.length - failed }, { status: 201 });
+	if (failed > 0)
+		console.error(`Publish of r${revision.number}: ${failed} notification(s) could not be sent`);
+	return json(
+		{ revision: { number: revision.number }, notified: results.length - failed },
+		{ status: 201 }
+	);
 });

@@ -7,7 +7,12 @@ import { createWorkspace } from '$lib/server/db/workspaces';
 import { createTestServices, createUser, makeEvent, outcome } from '$lib/server/test-support';
 import { load } from './+page.server';
 
-const parsed = parseMap(readFileSync(new URL('../../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url), 'utf8'));
+const parsed = parseMap(
+	readFileSync(
+		new URL('../../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
+		'utf8'
+	)
+);
 if (!parsed.ok) throw new Error('fixture map does not parse');
 const clubRacer = parsed.map;
 
@@ -18,11 +23,33 @@ async function world() {
 	const viewer = await createUser(db, 'viewer@example.test');
 	const stranger = await createUser(db, 'stranger@example.test');
 	const ws = await createWorkspace(db, { name: 'Frame detail team', ownerId: editor.id });
-	await db.insertInto('memberships').values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at: new Date().toISOString() }).execute();
-	const { id: mapId } = await createMap(db, { workspaceId: ws.id, map: clubRacer, actorId: editor.id, source: 'json' });
+	await db
+		.insertInto('memberships')
+		.values({
+			workspace_id: ws.id,
+			user_id: viewer.id,
+			role: 'viewer',
+			joined_at: new Date().toISOString()
+		})
+		.execute();
+	const { id: mapId } = await createMap(db, {
+		workspaceId: ws.id,
+		map: clubRacer,
+		actorId: editor.id,
+		source: 'json'
+	});
 	const open = (user: typeof editor | null, frameIndex: string, mapIdParam = mapId) => {
 		const params = { ws: ws.slug, mapId: mapIdParam, frameIndex };
-		return outcome(() => load(makeEvent({ services, user, routeId: '/w/[ws]/maps/[mapId]/frames/[frameIndex]', params }) as never));
+		return outcome(() =>
+			load(
+				makeEvent({
+					services,
+					user,
+					routeId: '/w/[ws]/maps/[mapId]/frames/[frameIndex]',
+					params
+				}) as never
+			)
+		);
 	};
 	return { editor, viewer, stranger, open };
 }
@@ -33,20 +60,39 @@ describe('frame detail load', () => {
 		const last = String(clubRacer.frames.length - 1);
 		expect(await w.open(w.editor, last)).toMatchObject({
 			kind: 'value',
-			value: { map: { name: clubRacer.name, draft: clubRacer, version: 1 }, role: 'owner', frameIndex: clubRacer.frames.length - 1 }
+			value: {
+				map: { name: clubRacer.name, draft: clubRacer, version: 1 },
+				role: 'owner',
+				frameIndex: clubRacer.frames.length - 1
+			}
 		});
-		expect(await w.open(w.viewer, '0')).toMatchObject({ kind: 'value', value: { role: 'viewer', frameIndex: 0 } });
+		expect(await w.open(w.viewer, '0')).toMatchObject({
+			kind: 'value',
+			value: { role: 'viewer', frameIndex: 0 }
+		});
 	});
 
 	it.each(['-1', '1.5', 'x', '999'])('answers frame %s with a 404 page', async (frameIndex) => {
 		const w = await world();
-		expect(await w.open(w.editor, frameIndex)).toMatchObject({ kind: 'error', status: 404, message: expect.stringMatching(/has no frame/) });
+		expect(await w.open(w.editor, frameIndex)).toMatchObject({
+			kind: 'error',
+			status: 404,
+			message: expect.stringMatching(/has no frame/)
+		});
 	});
 
 	it('hides maps from non-members and unknown maps alike, and sends signed-out people to sign in', async () => {
 		const w = await world();
 		expect(await w.open(w.stranger, '0')).toMatchObject({ kind: 'error', status: 404 });
-		expect(await w.open(w.editor, '0', 'no-such-map')).toEqual({ kind: 'error', status: 404, message: 'Map not found in this workspace.' });
-		expect(await w.open(null, '0')).toMatchObject({ kind: 'redirect', status: 303, location: expect.stringMatching(/^\/signin\?/) });
+		expect(await w.open(w.editor, '0', 'no-such-map')).toEqual({
+			kind: 'error',
+			status: 404,
+			message: 'Map not found in this workspace.'
+		});
+		expect(await w.open(null, '0')).toMatchObject({
+			kind: 'redirect',
+			status: 303,
+			location: expect.stringMatching(/^\/signin\?/)
+		});
 	});
 });

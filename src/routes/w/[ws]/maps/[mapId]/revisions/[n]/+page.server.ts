@@ -11,7 +11,8 @@ export const load = (async (event) => {
 	return orPageError(async () => {
 		const map = await requireMap(db, workspace.id, event.params.mapId);
 		const ref = revisionRefSchema.safeParse(event.params.n);
-		if (!ref.success || ref.data === 'draft') throw new Problem(404, `"${event.params.n}" is not a revision number.`);
+		if (!ref.success || ref.data === 'draft')
+			throw new Problem(404, `"${event.params.n}" is not a revision number.`);
 		const view = await revisionView(db, workspace.id, map.id, ref.data);
 		return { ...view, map: { id: map.id, name: map.name }, role };
 	});

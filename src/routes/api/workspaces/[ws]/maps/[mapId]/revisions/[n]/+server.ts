@@ -8,6 +8,9 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
 	const ref = revisionRefSchema.safeParse(event.params.n);
-	if (!ref.success || ref.data === 'draft') throw new Problem(404, `"${event.params.n}" is not a revision number.`);
-	return json(await revisionView(event.locals.services.db, workspace.id, event.params.mapId, ref.data));
+	if (!ref.success || ref.data === 'draft')
+		throw new Problem(404, `"${event.params.n}" is not a revision number.`);
+	return json(
+		await revisionView(event.locals.services.db, workspace.id, event.params.mapId, ref.data)
+	);
 });
