@@ -3,7 +3,7 @@ import { readFileSync, writeFileSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { frameBits } from '../lib/can/frame-bits';
+import { referenceFrameBits } from '../lib/can/testing/reference-frame-bits';
 
 // Runs the real CLI in a child process, as scripts and CI pipelines do.
 const ROOT = new URL('../../', import.meta.url).pathname;
@@ -161,9 +161,10 @@ describe('cli calculators', () => {
 		const n = data.replace(/ /g, '').length / 2;
 		// ISO 11898-1: SOF…EOF unstuffed is 44 + 8n bits (base format) or 64 + 8n (extended).
 		expect(result.bits).toBe((extended ? 64 : 44) + 8 * n);
-		// The CLI passes the library's figures through unchanged (the library carries the CRC-15 checks).
+		// Stuff bits and CRC-15 of this exact frame: the frame spelled out bit by bit from ISO 11898-1, its
+		// CRC by polynomial long division, its stuff bits counted one at a time (testing/reference-frame-bits.ts).
 		const bytes = Uint8Array.from(data.match(/[0-9a-f]{2}/gi) ?? [], (h) => Number.parseInt(h, 16));
-		expect(result).toEqual(frameBits(Number.parseInt(id.slice(2), 16), extended, bytes));
+		expect(result).toEqual(referenceFrameBits(Number.parseInt(id.slice(2), 16), extended, bytes));
 	});
 
 	it('bit-timing lists settings whose arithmetic gives the bit rate', async () => {
@@ -181,23 +182,44 @@ describe('cli calculators', () => {
 		expect(settings[0]).toMatchObject({ bitrateError: 0, samplePoint: 0.875 });
 	});
 
-	it('bus-load of the club racer map follows from its cycle times', async () => {
-		const { code, stdout } = await cli('bus-load', '--map', CLUB_MAP);
+	it('bus-load of a map follows from its cycle times and the standard frame lengths', async () => {
+		const dir = mkdtempSync(join(tmpdir(), 'fw-cli-'));
+		const path = join(dir, 'load.json');
+		writeFileSync(
+			path,
+			JSON.stringify({
+				format: 'framewright-map@1',
+				name: 'load',
+				bitrate: 500000,
+				frames: [
+					{ name: 'A', id: '0x100', length: 8, cycleMs: 10 },
+					{ name: 'B', id: '0x101', length: 8, cycleMs: 20 },
+					{ name: 'C', id: '0x18FF0001', extended: true, length: 8, cycleMs: 100 },
+					{ name: 'OnEvent', id: '0x200', length: 2 }
+				]
+			})
+		);
+		const { code, stdout } = await cli('bus-load', '--map', path);
 		expect(code).toBe(0);
 		const load = JSON.parse(stdout);
-		const map = JSON.parse(readFileSync(join(ROOT, CLUB_MAP), 'utf8'));
-		const perSecond = map.frames.reduce(
-			(sum: number, f: { cycleMs: number }) => sum + 1000 / f.cycleMs,
-			0
-		);
-		// All frames are 8-byte base format. Nominal: 44 + 64 = 108 bits + 3 intermission (ISO 11898-1);
-		// worst case 135 bits including intermission (Davis et al. 2007).
-		expect(load.nominalPercent).toBeCloseTo((100 * perSecond * 111) / 500_000, 9);
-		expect(load.worstCasePercent).toBeCloseTo((100 * perSecond * 135) / 500_000, 9);
-		const at250 = JSON.parse(
-			(await cli('bus-load', '--map', CLUB_MAP, '--bitrate', '250k')).stdout
-		);
-		expect(at250.nominalPercent).toBeCloseTo(2 * load.nominalPercent, 9);
+		// Hand arithmetic. Nominal, unstuffed (ISO 11898-1) + 3-bit intermission: 8-byte base frame
+		// 44 + 64 + 3 = 111 bits, 8-byte extended 64 + 64 + 3 = 131 bits. Worst case including the
+		// intermission (Davis et al. 2007): 135 bits base, 160 bits extended. The event frame counts nothing.
+		// Nominal: (100 + 50) × 111 + 10 × 131 = 17 960 bit/s = 3.592 % of 500 kbit/s.
+		// Worst: 150 × 135 + 10 × 160 = 21 850 bit/s = 4.37 %.
+		expect(load.bitrate).toBe(500000);
+		expect(load.nominalPercent).toBeCloseTo(3.592, 9);
+		expect(load.worstCasePercent).toBeCloseTo(4.37, 9);
+		expect(load.frames.map((f: { excluded: string | null }) => f.excluded)).toEqual([
+			null,
+			null,
+			null,
+			'noCycleTime'
+		]);
+		// The same traffic on a 250 kbit/s bus: 7.184 % and 8.74 %.
+		const at250 = JSON.parse((await cli('bus-load', '--map', path, '--bitrate', '250k')).stdout);
+		expect(at250.nominalPercent).toBeCloseTo(7.184, 9);
+		expect(at250.worstCasePercent).toBeCloseTo(8.74, 9);
 	});
 
 	it.concurrent.each([[CLUB_MAP], [GENSET_MAP]])('lint finds no problems in %s', async (path) => {

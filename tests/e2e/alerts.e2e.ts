@@ -8,7 +8,7 @@ const capturePath = 'fixtures/club-racer-session.csv';
 
 // ---- The reference: the fixture read by hand, independently of the app's importer, decoder and alert engine. ----
 
-/** (time from the first frame, payload) per row of the canonical capture CSV (design.md). */
+/** (time from the first frame, payload) per row of the canonical capture CSV (docs/capture-csv.md). */
 const rows = readFixtureRows(capturePath);
 const t0 = rows[0].time;
 const recordingEnd = rows[rows.length - 1].time - t0;

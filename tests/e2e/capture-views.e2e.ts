@@ -13,7 +13,7 @@ const slug = 'quillmoor-club-racing';
 const capturePath = 'fixtures/genset-idle.csv';
 const mapName = 'Generator set engine (J1939)';
 
-// ---- The reference reading of the fixture (canonical layout, design.md: time,id,extended,dlc,data) ----
+// ---- The reference reading of the fixture (canonical layout, docs/capture-csv.md: time,id,extended,dlc,data) ----
 const rows = readFixtureRows(capturePath);
 const t0 = rows[0].time;
 const relative = (t: number) => Number((t - t0).toFixed(6));
@@ -36,7 +36,7 @@ function channelReference(id: number, read: (v: DataView) => number) {
 	};
 }
 
-/** Change counts per payload bit (design.md numbering = bits of the payload as a little-endian BigInt). */
+/** Change counts per payload bit (docs/bit-numbering.md: bits of the payload as a little-endian BigInt). */
 function referenceBitChanges(id: number): number[] {
 	const payloads = rows
 		.filter((r) => r.id === id)

@@ -30,13 +30,13 @@ const map = JSON.parse(readFileSync('fixtures/club-racer-ecu.map.json', 'utf8'))
 	frames: FixtureFrame[];
 };
 
-/** Rows of the canonical capture CSV (design.md: time,id,extended,dlc,data) as (id, payload bytes). */
+/** Rows of the canonical capture CSV (docs/capture-csv.md: time,id,extended,dlc,data) as (id, payload bytes). */
 const rows = readFixtureRows(capturePath);
 
 /**
  * A byte-aligned unsigned signal read with DataView (the reference implementation of byte order):
  * little-endian starts at byte startBit/8; a big-endian field's startBit is its least significant
- * bit, in its last byte (design.md bit numbering), so it starts length/8 − 1 bytes earlier.
+ * bit, in its last byte (docs/bit-numbering.md), so it starts length/8 − 1 bytes earlier.
  */
 function readByteAligned(view: DataView, s: FixtureSignal): number {
 	if (
@@ -260,7 +260,7 @@ test('a variant layout is shown column by column and can be corrected before pro
 }) => {
 	await signIn(page, 'tuner@framewright.test');
 	await page.goto(`/w/${slug}/captures`);
-	// Semicolons, millisecond times, no extended or DLC column, one column per payload byte (design.md's variants).
+	// Semicolons, millisecond times, no extended or DLC column, one column per payload byte (docs/capture-csv.md variants).
 	const variant = [
 		'Timestamp_ms;CAN_ID;D0;D1;D2',
 		'1000;100;11;22;33',

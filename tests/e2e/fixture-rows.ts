@@ -10,7 +10,7 @@ export interface FixtureRow {
 }
 
 /**
- * The rows of a canonical capture CSV (design.md: time,id,extended,dlc,data) read by hand with string
+ * The rows of a canonical capture CSV (docs/capture-csv.md: time,id,extended,dlc,data) read by hand with string
  * splitting — independent of the app's importer, so tests can check what the app shows against it.
  */
 export function readFixtureRows(path: string): FixtureRow[] {

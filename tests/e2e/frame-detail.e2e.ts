@@ -59,7 +59,7 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 	await page.goto(`/w/${slug}/maps/${mapId}/frames/0`);
 	await expect(page.getByRole('heading', { level: 1, name: 'Frame EngineStatus' })).toBeVisible();
 
-	// Drag from byte 2 bit 7 (top left) to byte 3 bit 0 (bottom right) as big-endian: design.md says a
+	// Drag from byte 2 bit 7 (top left) to byte 3 bit 0 (bottom right) as big-endian: docs/bit-numbering.md says a
 	// big-endian field filling bytes k … k+m−1 has startBit 8·(k+m−1) = 8·(2+2−1) = 24, 16 bits long.
 	await page.getByLabel('Drag places new signals as').selectOption('big');
 	await dragAcross(page, cell(page, 2, 7), cell(page, 3, 0));

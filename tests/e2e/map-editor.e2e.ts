@@ -112,7 +112,7 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	// Signals go in on the frame page: two 16-bit big-endian fields placed by dragging on the bit grid.
 	await editor.getByRole('link', { name: 'Open frame EngineStatus: 0 signals' }).click();
 	await expect(editor.getByRole('heading', { level: 1, name: 'Frame EngineStatus' })).toBeVisible();
-	await placeSignal(editor, 2, 'Boost', '0.25'); // bytes 2–3: design.md, start bit 8·(2+2−1) = 24
+	await placeSignal(editor, 2, 'Boost', '0.25'); // bytes 2–3: docs/bit-numbering.md, start bit 8·(2+2−1) = 24
 	await placeSignal(editor, 0, 'OilPressure', '0.1'); // bytes 0–1: start bit 8
 	await editor.getByRole('button', { name: 'Select signal Boost' }).click();
 	await editor.getByRole('grid', { name: 'Bit layout' }).focus();
@@ -137,7 +137,7 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	await expect(editor.getByLabel('Start bit')).toHaveValue('24');
 	await expect(editor.getByText('No lint problems in this frame.')).toBeVisible();
 
-	// Test payload: big-endian means the first byte is the most significant (design.md bit numbering).
+	// Test payload: big-endian means the first byte is the most significant (docs/bit-numbering.md).
 	await editor.getByLabel('Payload (hex)').fill('01 F4 12 34 00 00 00 00');
 	await expect(editor.getByLabel('Raw value of Boost')).toHaveText(String(0x1234));
 	await expect(editor.getByLabel('Physical value of Boost')).toHaveText(String(0x1234 * 0.25));

@@ -37,7 +37,7 @@ describe('byte-aligned fields read exactly as DataView reads them', () => {
 			const view = new DataView(data.buffer);
 			const k = rand.int(0, 64 - bytes);
 			for (const [order, littleEndian] of orders) {
-				// design.md: a big-endian field filling bytes k…k+m−1 has startBit = 8·(k+m−1)
+				// docs/bit-numbering.md: a big-endian field filling bytes k…k+m−1 has startBit = 8·(k+m−1)
 				const startBit = order === 'little' ? 8 * k : 8 * (k + bytes - 1);
 				const layout = fieldLayout(startBit, bytes * 8, order);
 				const unsigned = extractRaw(data, startBit, bytes * 8, order);
@@ -80,7 +80,7 @@ describe('byte-aligned fields read exactly as DataView reads them', () => {
 describe('unaligned fields against the slow reference', () => {
 	const rand = seededRandom(0x5eed02);
 
-	it('extractRaw and readIntegerNumber match the bit-by-bit reference (design.md rule)', () => {
+	it('extractRaw and readIntegerNumber match the bit-by-bit reference (docs/bit-numbering.md)', () => {
 		for (let round = 0; round < 3000; round++) {
 			const { startBit, length, order } = randomField(rand);
 			const data = rand.bytes(64);
@@ -122,9 +122,9 @@ describe('unaligned fields against the slow reference', () => {
 	});
 });
 
-describe('big-endian layout (design.md)', () => {
+describe('big-endian layout (docs/bit-numbering.md)', () => {
 	it('a field filling bytes k…k+m−1 has startBit 8·(k+m−1)', () => {
-		// Hand-worked from design.md: bytes 2,3 = 12 34 hold 0x1234 big-endian; LSB is bit 0 of byte 3.
+		// Hand-worked from docs/bit-numbering.md: bytes 2,3 = 12 34 hold 0x1234 big-endian; LSB is bit 0 of byte 3.
 		const data = Uint8Array.from([0, 0, 0x12, 0x34, 0, 0, 0, 0]);
 		expect(extractRaw(data, 24, 16, 'big')).toBe(0x1234n);
 		expect(fieldBitPositions(24, 16, 'big')).toEqual([

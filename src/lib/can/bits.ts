@@ -1,5 +1,5 @@
 /**
- * Raw bit-field access in a CAN payload, following design.md's one bit numbering:
+ * Raw bit-field access in a CAN payload, following the one bit numbering of docs/bit-numbering.md:
  * payload bit b is bit (b % 8) of byte floor(b / 8); `startBit` is the field's least significant bit;
  * `little` climbs through the payload bit numbers, `big` climbs to bit 7 of a byte and continues at
  * bit 0 of the previous byte.

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { captureBusLoad, frameBusBits, mapBusLoad } from './busload';
 import { canMapSchema } from './map';
+import { referenceFrameBits } from './testing/reference-frame-bits';
 
 // Demo map (invented), two periodic frames, one event frame and one CAN FD frame.
 const map = canMapSchema.parse({
@@ -71,14 +72,29 @@ describe('captureBusLoad', () => {
 		]);
 	});
 
-	it('counts a real frame as bits + its stuff bits + 3 intermission (ISO 11898-1)', () => {
-		// An 8-byte all-zero base frame with ID 0: 108 frame bits; stuff bits counted by frameBits.
+	it('counts a real frame as its bits, its own stuff bits and the 3-bit intermission (ISO 11898-1)', () => {
+		// Reference: each frame spelled out bit by bit from the ISO 11898-1 fields, its CRC by polynomial
+		// long division and its stuff bits counted one at a time (testing/reference-frame-bits.ts).
+		const frames: [number, boolean, number[]][] = [
+			[0, false, [0, 0, 0, 0, 0, 0, 0, 0]],
+			[0x7ff, false, []],
+			[0x123, false, [0x11, 0x22, 0x33]],
+			[0x18fef100, true, [0xff, 0xff, 0, 0, 0x0f, 0xf0, 0x55, 0xaa]]
+		];
+		for (const [id, extended, bytes] of frames) {
+			const ref = referenceFrameBits(id, extended, Uint8Array.from(bytes));
+			expect(frameBusBits(id, extended, Uint8Array.from(bytes))).toBe(ref.bits + ref.stuffBits + 3);
+		}
+		// The published bounds for an 8-byte base frame: at least 108 unstuffed bits + 3 (ISO 11898-1),
+		// at most 135 with the intermission (Davis et al. 2007).
 		const n = frameBusBits(0, false, new Uint8Array(8));
 		expect(n).toBeGreaterThan(108 + 3);
 		expect(n).toBeLessThanOrEqual(135);
-		const times = new Float64Array(1000).map((_, i) => i / 1000); // 1000 frames in one second
-		const [w] = captureBusLoad(times, new Float64Array(1000).fill(n), 500_000, 1);
-		expect(w.percent).toBeCloseTo((100 * 1000 * n) / 500_000, 10);
+		// 1000 such frames in one second fill a bus of 1000·n bit/s exactly (100 %) and half of one twice as fast.
+		const times = new Float64Array(1000).map((_, i) => i / 1000);
+		const bits = new Float64Array(1000).fill(n);
+		expect(captureBusLoad(times, bits, 1000 * n, 1)).toEqual([{ start: 0, percent: 100 }]);
+		expect(captureBusLoad(times, bits, 2000 * n, 1)).toEqual([{ start: 0, percent: 50 }]);
 	});
 
 	it('rejects mismatched inputs and absurd windows', () => {

@@ -1,5 +1,5 @@
 /**
- * One signal ↔ physical value: physical = raw × scale + offset (design.md), with value labels,
+ * One signal ↔ physical value: physical = raw × scale + offset (docs/bit-numbering.md), with value labels,
  * min/max checks and multiplexing. Encoding is the exact inverse: round to the nearest raw value
  * and clamp to what the field can hold.
  */

@@ -52,7 +52,7 @@ describe.each([{ codegen: true }, { codegen: false }])('compileMap %o', (options
 			for (const kind of kinds) {
 				for (const byteOrder of ['little', 'big'] as const) {
 					const k = rand.int(0, 64 - kind.bytes);
-					// design.md: big-endian field filling bytes k…k+m−1 has startBit 8·(k+m−1)
+					// docs/bit-numbering.md: big-endian field filling bytes k…k+m−1 has startBit 8·(k+m−1)
 					const startBit = byteOrder === 'little' ? 8 * k : 8 * (k + kind.bytes - 1);
 					const map = mapOf([
 						{

@@ -10,7 +10,7 @@ import {
 	nominalFrameBits,
 	worstCaseFrameBits
 } from './frame-bits';
-import { referenceFrameBits } from './testing/reference-frame-bits';
+import { referenceCrc15, referenceFrameBits } from './testing/reference-frame-bits';
 
 /** Deterministic pseudo-random bytes (LCG, Numerical Recipes constants) so failures reproduce. */
 function lcg(seed: number) {
@@ -21,21 +21,6 @@ function lcg(seed: number) {
 function randomId(rand: () => number, extended: boolean): number {
 	const wide = rand() * 0x200000 + rand() * 0x2000 + rand() * 0x20 + (rand() >> 3); // ≤ 0x1FFFFFFF
 	return extended ? wide : wide & 0x7ff;
-}
-
-/**
- * Reference CRC by plain polynomial long division over GF(2) with BigInt: remainder of
- * M(x)·x^15 divided by x^15 + 0x4599 (ISO 11898-1 generator), independent of crc15's shift register.
- */
-function referenceCrc(bits: ArrayLike<number>): number {
-	let m = 0n;
-	for (let i = 0; i < bits.length; i++) m = (m << 1n) | BigInt(bits[i]);
-	m <<= 15n;
-	const gen = (1n << 15n) | 0x4599n;
-	for (let shift = BigInt(bits.length); shift >= 0n; shift--) {
-		if ((m >> (shift + 15n)) & 1n) m ^= gen << shift;
-	}
-	return Number(m);
 }
 
 const str = (bits: ArrayLike<number>) => Array.from(bits).join('');
@@ -78,7 +63,7 @@ describe('frameBits (ISO 11898-1 classical data frames)', () => {
 			const id = randomId(rand, extended);
 			const data = Uint8Array.from({ length: t % 9 }, rand);
 			const seq = frameBitSequence(id, extended, data);
-			expect(seq.crc).toBe(referenceCrc(seq.bits.subarray(0, seq.stuffedLength - 15)));
+			expect(seq.crc).toBe(referenceCrc15(seq.bits.subarray(0, seq.stuffedLength - 15)));
 			expect(frameBits(id, extended, data).crc).toBe(seq.crc);
 		}
 	});
@@ -137,6 +122,37 @@ describe('bit stuffing (ISO 11898-1: a complement after 5 equal bits, stuff bits
 	});
 });
 
+/**
+ * Most stuff bits any bit string of `length` bits needs (ISO 11898-1: after five equal bits a
+ * complement is inserted, and it counts towards the next run). Exact, by dynamic programming over
+ * (last bit, length of the current run): the best count reachable after each bit.
+ */
+function maxStuffOver(length: number): number {
+	// best[last][run - 1] = most stuff bits so far when the stream ends in `run` equal bits `last`.
+	let best = [
+		[0, -Infinity, -Infinity, -Infinity, -Infinity],
+		[-Infinity, -Infinity, -Infinity, -Infinity, -Infinity]
+	]; // the first bit: either value, a run of one (symmetric, so only 0 is needed)
+	for (let i = 1; i < length; i++) {
+		const next = [0, 1].map(() => new Array<number>(5).fill(-Infinity));
+		for (const last of [0, 1]) {
+			for (let run = 1; run <= 5; run++) {
+				const count = best[last][run - 1];
+				if (count === -Infinity) continue;
+				// The same bit again: the run grows; at five a stuff bit of the other value follows.
+				if (run + 1 === 5) {
+					const stuffedTo = 1 - last;
+					next[stuffedTo][0] = Math.max(next[stuffedTo][0], count + 1);
+				} else next[last][run] = Math.max(next[last][run], count);
+				// The other bit: a new run of one.
+				next[1 - last][0] = Math.max(next[1 - last][0], count);
+			}
+		}
+		best = next;
+	}
+	return Math.max(...best.flat());
+}
+
 describe('worstCaseFrameBits (Davis, Burns, Bril, Lukkien 2007, eq. 1)', () => {
 	it.each([
 		// C = g + 8n + 13 + ⌊(g + 8n − 1)/4⌋, g = 34 base / 54 extended; 13 includes the 3-bit intermission.
@@ -149,14 +165,45 @@ describe('worstCaseFrameBits (Davis, Burns, Bril, Lukkien 2007, eq. 1)', () => {
 		expect(worstCaseFrameBits(n, extended)).toBe(expected);
 	});
 
-	it('decomposes into unstuffed frame + maximum stuff bits + intermission', () => {
+	it('equals the ISO 11898-1 frame, the most stuff bits any bit string of its stuffed length can need, and the intermission', () => {
+		// Independent of the paper's closed form: the field widths of ISO 11898-1 are added up here, and
+		// the worst stuffing is found by a search over every bit string of that length (maxStuffOver).
 		for (let n = 0; n <= 8; n++) {
 			for (const extended of [false, true]) {
-				const g = extended ? 54 : 34;
+				// SOF, identifier(s), control bits, DLC, data, CRC sequence: the part that is stuffed.
+				const stuffed = extended
+					? 1 + 11 + 1 + 1 + 18 + 1 + 1 + 1 + 4 + 8 * n + 15 // SOF ID SRR IDE ext RTR r1 r0 DLC data CRC
+					: 1 + 11 + 1 + 1 + 1 + 4 + 8 * n + 15; // SOF ID RTR IDE r0 DLC data CRC
+				const trailer = 1 + 1 + 1 + 7; // CRC delimiter, ACK slot, ACK delimiter, EOF
+				const intermission = 3;
 				expect(worstCaseFrameBits(n, extended)).toBe(
-					nominalFrameBits(n, extended) + Math.floor((g + 8 * n - 1) / 4) + interFrameBits
+					stuffed + trailer + maxStuffOver(stuffed) + intermission
 				);
 			}
+		}
+	});
+
+	it('the search behind that check agrees with trying every bit string up to 16 bits', () => {
+		for (let length = 1; length <= 16; length++) {
+			let most = 0;
+			for (let pattern = 0; pattern < 2 ** length; pattern++) {
+				const bits = Array.from({ length }, (_, i) => (pattern >> (length - 1 - i)) & 1);
+				// Counted here one bit at a time, as referenceFrameBits counts them.
+				let stuffBits = 0;
+				let run = 0;
+				let last = -1;
+				for (const bit of bits) {
+					run = bit === last ? run + 1 : 1;
+					last = bit;
+					if (run === 5) {
+						stuffBits++;
+						last = 1 - bit;
+						run = 1;
+					}
+				}
+				most = Math.max(most, stuffBits);
+			}
+			expect(maxStuffOver(length)).toBe(most);
 		}
 	});
 
@@ -285,6 +332,12 @@ describe('byte-wise fast path against the bit-by-bit reference', () => {
 		const seq = frameBitSequence(0x123, false, Uint8Array.of(0xaa));
 		const ref = referenceFrameBits(0x123, false, Uint8Array.of(0xaa));
 		expect(ref.bits).toBe(44 + 8);
-		expect(ref.crc).toBe(referenceCrc(seq.bits.subarray(0, seq.stuffedLength - 15)));
+		expect(ref.crc).toBe(referenceCrc15(seq.bits.subarray(0, seq.stuffedLength - 15)));
+		// The reference CRC meets the CRC RevEng catalogue check value of CRC-15/CAN: 0x059E for ASCII
+		// "123456789", fed most significant bit first.
+		const check = Array.from('123456789', (c) => c.charCodeAt(0)).flatMap((byte) =>
+			[7, 6, 5, 4, 3, 2, 1, 0].map((b) => (byte >> b) & 1)
+		);
+		expect(referenceCrc15(check)).toBe(0x059e);
 	});
 });

@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { decodeSignal, encodeSignal } from './codec';
+import { compileMap, SIGNAL_STATUS } from './decoder';
 import {
 	buildJ1939Id,
 	createTransportReassembler,
@@ -12,6 +14,7 @@ import {
 	TP_CM_BAM,
 	type TransportProblem
 } from './j1939';
+import { canMapSchema } from './map';
 
 describe('parseJ1939Id (SAE J1939-21 29-bit identifier layout)', () => {
 	it.each([
@@ -135,39 +138,125 @@ describe('j1939ValueStatus (SAE J1939-71 parameter ranges, recalled from memory)
 	});
 });
 
-describe('SAE J1939-71 scaling arithmetic (resolution × raw + offset)', () => {
-	// physical = raw × resolution + offset, the J1939-71 parameter definition; values per SAE J1939-71
-	// SPN definitions (recalled from memory). The codec checks the same through signals (codec.test.ts).
-	const physical = (raw: number, resolution: number, offset: number) => raw * resolution + offset;
-	it.each([
-		// SPN 190 engine speed: 0.125 rpm/bit, 0 offset, 2 bytes.
-		{ what: 'engine speed', raw: 0x1f40, resolution: 0.125, offset: 0, bits: 16, expected: 1000 },
-		// SPN 110 engine coolant temperature: 1 °C/bit, −40 °C offset, 1 byte.
-		{ what: 'coolant temperature', raw: 130, resolution: 1, offset: -40, bits: 8, expected: 90 },
-		// SPN 84 wheel-based vehicle speed: 1/256 km/h per bit, 2 bytes.
+describe('SAE J1939-71 scaling through the codec and the compiled decoder', () => {
+	// Each parameter sits where SAE J1939-71 puts it (byte numbers there count from 1; startBit here is
+	// the LSB's payload bit, docs/bit-numbering.md), with the standard's resolution and offset. Positions,
+	// resolutions and offsets are recalled from memory; the payload bytes are written by hand (least
+	// significant byte first, as J1939 sends multi-byte parameters) and the expected physical values are
+	// the hand-worked literals in the comments, so nothing below repeats the library's arithmetic.
+	// Unused bytes are 0xFF ("not available"), as a J1939 sender fills them.
+	const cases = [
 		{
-			what: 'wheel-based speed',
-			raw: 0x6400,
-			resolution: 1 / 256,
+			// SPN 190 engine speed, EEC1 (PGN 61444) bytes 4–5, 0.125 rpm/bit: 0x1F40 = 8000 → 1000 rpm.
+			what: 'engine speed',
+			id: 0x0cf00400,
+			startBit: 24,
+			length: 16,
+			scale: 0.125,
 			offset: 0,
-			bits: 16,
+			payload: [0xff, 0xff, 0xff, 0x40, 0x1f, 0xff, 0xff, 0xff],
+			expected: 1000
+		},
+		{
+			// SPN 190 at the top of its operational range: 0xFAFF = 64255 × 0.125 = 8031.875 rpm, the
+			// range end SAE J1939-71 lists for engine speed (from memory).
+			what: 'engine speed, top of range',
+			id: 0x0cf00400,
+			startBit: 24,
+			length: 16,
+			scale: 0.125,
+			offset: 0,
+			payload: [0xff, 0xff, 0xff, 0xff, 0xfa, 0xff, 0xff, 0xff],
+			expected: 8031.875
+		},
+		{
+			// SPN 513 actual engine percent torque, EEC1 byte 3, 1 %/bit, −125 % offset: 125 → 0 %.
+			what: 'percent torque at zero',
+			id: 0x0cf00400,
+			startBit: 16,
+			length: 8,
+			scale: 1,
+			offset: -125,
+			payload: [0xff, 0xff, 0x7d, 0xff, 0xff, 0xff, 0xff, 0xff],
+			expected: 0
+		},
+		{
+			// Same parameter at its top: 250 − 125 = 125 %.
+			what: 'percent torque at its top',
+			id: 0x0cf00400,
+			startBit: 16,
+			length: 8,
+			scale: 1,
+			offset: -125,
+			payload: [0xff, 0xff, 0xfa, 0xff, 0xff, 0xff, 0xff, 0xff],
+			expected: 125
+		},
+		{
+			// SPN 110 engine coolant temperature, ET1 (PGN 65262) byte 1, 1 °C/bit, −40 °C: 130 → 90 °C.
+			what: 'coolant temperature',
+			id: 0x18feee00,
+			startBit: 0,
+			length: 8,
+			scale: 1,
+			offset: -40,
+			payload: [0x82, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff],
+			expected: 90
+		},
+		{
+			// SPN 84 wheel-based vehicle speed, CCVS1 (PGN 65265) bytes 2–3, 1/256 km/h per bit:
+			// 0x6400 = 25600 / 256 = 100 km/h.
+			what: 'wheel-based speed',
+			id: 0x18fef100,
+			startBit: 8,
+			length: 16,
+			scale: 1 / 256,
+			offset: 0,
+			payload: [0xff, 0x00, 0x64, 0xff, 0xff, 0xff, 0xff, 0xff],
 			expected: 100
 		},
-		// SPN 91 accelerator pedal position 1: 0.4 %/bit, 1 byte.
-		{ what: 'accelerator pedal', raw: 250, resolution: 0.4, offset: 0, bits: 8, expected: 100 },
-		// SPN 513 actual engine percent torque: 1 %/bit, −125 % offset, 1 byte.
-		{ what: 'percent torque', raw: 125, resolution: 1, offset: -125, bits: 8, expected: 0 },
-		{ what: 'percent torque max', raw: 250, resolution: 1, offset: -125, bits: 8, expected: 125 }
-	])('$what: raw $raw → $expected', ({ raw, resolution, offset, bits, expected }) => {
-		expect(j1939ValueStatus(raw, bits)).toBe('valid');
-		expect(physical(raw, resolution, offset)).toBeCloseTo(expected, 9);
-	});
+		{
+			// SPN 91 accelerator pedal position 1, EEC2 (PGN 61443) byte 2, 0.4 %/bit: 250 → 100 %.
+			what: 'accelerator pedal',
+			id: 0x0cf00300,
+			startBit: 8,
+			length: 8,
+			scale: 0.4,
+			offset: 0,
+			payload: [0xff, 0xfa, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff],
+			expected: 100
+		}
+	];
 
-	it('the top of each range is 0xFAFF (engine speed 8031.875 rpm) — J1939-71 operational range', () => {
-		// SAE J1939-71 lists engine speed as 0 to 8031.875 rpm: 0xFAFF × 0.125.
-		expect(physical(0xfaff, 0.125, 0)).toBe(8031.875);
-		expect(j1939ValueStatus(0xfaff, 16)).toBe('valid');
+	it.each(cases)(
+		'$what: payload $payload → $expected',
+		({ id, startBit, length, scale, offset, payload, expected }) => {
+			const signal = { name: 'p', startBit, length, scale, offset };
+			const map = canMapSchema.parse({
+				format: 'framewright-map@1',
+				name: 'J1939-71 parameters',
+				frames: [{ name: 'F', id, extended: true, j1939: true, signals: [signal] }]
+			});
+			const data = Uint8Array.from(payload);
+			expect(decodeSignal(map.frames[0].signals[0], data).value).toBeCloseTo(expected, 9);
+			// The compiled decoder, matching a received ID from another source address (J1939-21: by PGN).
+			const compiled = compileMap(map);
+			const frame = compiled.lookup(id | 0x17, true)!;
+			const out = new Float64Array(1);
+			const status = new Uint8Array(1);
+			frame.decode(data, 0, 8, out, 0, status);
+			expect(out[0]).toBeCloseTo(expected, 9);
+			expect(status[0]).toBe(SIGNAL_STATUS.valid);
+			// Encoding is the inverse: the physical value writes the hand-written bytes back.
+			const written = new Uint8Array(8).fill(0xff);
+			encodeSignal(map.frames[0].signals[0], expected, written);
+			expect(Array.from(written)).toEqual(payload);
+		}
+	);
+
+	it('engine speed one step past the operational range is no longer a valid reading (J1939-71, from memory)', () => {
+		// 0xFB00 starts the parameter-specific band and 0xFF00 "not available" for 2-byte parameters.
 		expect(j1939ValueStatus(0xfb00, 16)).not.toBe('valid');
+		expect(j1939ValueStatus(0xff00, 16)).toBe('notAvailable');
 	});
 });
 

@@ -190,7 +190,7 @@ describe('lintMap', () => {
 		expect(problem.severity).toBe('error');
 	});
 
-	it('follows the big-endian bit walk when checking overlap (design.md)', () => {
+	it('follows the big-endian bit walk when checking overlap (docs/bit-numbering.md)', () => {
 		// big-endian 16 bits at startBit 8 fills bytes 0–1 (bits 8–15 then 0–7); a little-endian byte 0 overlaps it.
 		const [problem] = lintMap(
 			mapOf([frame([sig('be', 8, 16, { byteOrder: 'big' }), sig('b0', 0, 8)])])

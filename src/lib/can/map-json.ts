@@ -1,5 +1,5 @@
 /**
- * The `framewright-map@1` JSON format (design.md): parse with every problem reported by JSON path,
+ * The `framewright-map@1` JSON format (docs/map-format.md): parse with every problem reported by JSON path,
  * serialise with IDs as hex strings, and the JSON Schema generated from the same zod model.
  */
 import { z } from 'zod';

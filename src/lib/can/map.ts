@@ -1,6 +1,6 @@
 /**
  * The map model: zod schemas are the single definition of a broadcast map's shape.
- * Bit numbering and the `framewright-map@1` JSON format are specified in shared/design.md.
+ * Bit numbering and the `framewright-map@1` JSON format are specified in docs/bit-numbering.md and docs/map-format.md.
  * Structural checks that need the whole map (overlaps, duplicates) live in lint.ts.
  */
 import { z } from 'zod';

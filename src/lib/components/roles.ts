@@ -1,4 +1,4 @@
-/** Workspace roles as the UI names and explains them (design.md, "Users and roles"). */
+/** Workspace roles as the UI names and explains them (docs/architecture.md, "Auth, roles and the one guard"). */
 // The type comes from the server's zod enum (type-only import: erased, so nothing server-side ships).
 import type { Role } from '$lib/server/roles';
 export type { Role };

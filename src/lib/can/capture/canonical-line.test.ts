@@ -22,7 +22,7 @@ async function importBoth(text: string | string[]) {
 }
 
 // The reference for the fast path is the general route (papaparse + the row parser), which the
-// ingest tests check against the capture CSV contract of shared/design.md.
+// ingest tests check against the capture CSV contract in docs/capture-csv.md.
 describe('canonical fast path gives exactly what the general route gives', () => {
 	const awkward = [
 		'time,id,extended,dlc,data',

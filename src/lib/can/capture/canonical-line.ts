@@ -1,5 +1,5 @@
 /**
- * Fast path of the import for lines in the strict canonical shape (shared/design.md capture CSV):
+ * Fast path of the import for lines in the strict canonical shape (docs/capture-csv.md):
  * `0.012300,1a0,0,8,11 22 33 44 55 66 77 88`, possibly followed by more comma-separated columns.
  * It reads the characters of the chunk in place, so the row costs no field strings. It accepts only
  * lines the general route (papaparse + the row parser) would read without a problem, with the same

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileMap } from '../decoder';
 import { canMapSchema } from '../map';
+import { referenceFrameBits } from '../testing/reference-frame-bits';
 import { decodeCapture } from './decode-capture';
 import { FrameStore } from './frame-store';
 
@@ -118,18 +119,22 @@ describe('decodeCapture', () => {
 		expect(decoded.ids.find((s) => s.id === 0x300)!.frameIndex).toBeNull();
 	});
 
-	it('measures bus load within the published bounds for classical frames', () => {
+	it('measures a classical frame’s exact bus bits, within the published bounds', () => {
 		const one = decodeCapture(
 			store([[0, 0x100, false, [1, 2, 3, 4, 5, 6, 7, 8]]]),
 			compileMap(map),
 			{ loadWindowSeconds: 0.001 }
 		);
-		// An 8-byte base-format frame: 108 unstuffed bits + 3 intermission (ISO 11898-1) at least,
-		// at most 135 bits including intermission (Davis et al. 2007). 500 bit in 1 ms at 500 kbit/s.
-		const bits = (one.busLoad.windows[0].percent / 100) * 500;
+		// A 1 ms window at 500 kbit/s holds 500 bits, so the frame's bus bits are 5 × its percentage.
+		const bits = one.busLoad.windows[0].percent * 5;
+		// Exactly this frame: spelled out bit by bit from ISO 11898-1 (CRC by long division, stuff bits
+		// counted one at a time, testing/reference-frame-bits.ts), plus the 3-bit intermission.
+		const ref = referenceFrameBits(0x100, false, Uint8Array.of(1, 2, 3, 4, 5, 6, 7, 8));
+		expect(bits).toBeCloseTo(ref.bits + ref.stuffBits + 3, 9);
+		// And within the published bounds for an 8-byte base-format frame: 108 unstuffed bits + 3
+		// intermission (ISO 11898-1) at least, at most 135 bits including intermission (Davis et al. 2007).
 		expect(bits).toBeGreaterThanOrEqual(111);
 		expect(bits).toBeLessThanOrEqual(135);
-		expect(Math.abs(bits - Math.round(bits))).toBeLessThan(1e-9); // a whole number of bits
 	});
 });
 

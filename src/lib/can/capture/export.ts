@@ -2,7 +2,7 @@
  * Capture exports as CSV, produced as a generator of text chunks so a capture of millions of
  * samples never becomes one giant string: decoded channels in long form (one row per sample) or
  * wide form (one column per channel, resampled on a fixed interval), and the raw frames in the
- * canonical capture layout of shared/design.md, which the importer reads back unchanged.
+ * canonical capture layout of docs/capture-csv.md, which the importer reads back unchanged.
  * Numbers are written with `String(n)`, the shortest text that reads back to the same double
  * (ECMAScript Number::toString), so nothing is lost; names are quoted per RFC 4180 when needed.
  */

@@ -31,7 +31,7 @@ export interface UnknownId {
 	extended: boolean;
 	count: number;
 	maxLength: number;
-	/** changes[b] = how many times payload bit b (design.md numbering) differed from the previous frame of this ID. */
+	/** changes[b] = how many times payload bit b (docs/bit-numbering.md) differed from the previous frame of this ID. */
 	bitChanges: Uint32Array;
 }
 

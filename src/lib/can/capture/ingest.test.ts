@@ -4,7 +4,7 @@ import { ingestCapture, MAX_REPORTED_BAD_ROWS } from './ingest';
 import { CANONICAL_LAYOUT, type CaptureLayout } from './layout';
 
 // Expected values below are hand-computed from the CSV text and the capture format in
-// shared/design.md; DLC lengths follow the ISO 11898-1 CAN FD table (from memory).
+// docs/capture-csv.md; DLC lengths follow the ISO 11898-1 CAN FD table (from memory).
 
 const frames = async (csv: string, layout?: CaptureLayout) => {
 	const result = await ingestCapture(csv, { layout });

@@ -1,7 +1,7 @@
 /**
  * The column layout of a capture CSV file: what the importer guessed, shown to the user to confirm
  * or correct, and what the ingest then follows. One zod schema is the single definition.
- * The canonical layout is `time,id,extended,dlc,data` (shared/design.md).
+ * The canonical layout is `time,id,extended,dlc,data` (docs/capture-csv.md).
  */
 import { z } from 'zod';
 

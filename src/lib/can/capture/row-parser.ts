@@ -180,7 +180,7 @@ const FD_LENGTHS = new Set<number>(PAYLOAD_LENGTHS);
 /** A payload length a classical or CAN FD frame can have (ISO 11898-1). */
 export const isPayloadLength = (length: number): boolean => FD_LENGTHS.has(length);
 
-/** Checks the DLC column against the payload actually given (design.md: the data column decides). */
+/** Checks the DLC column against the payload actually given (docs/capture-csv.md: the data column decides). */
 export function dlcMatches(
 	dlc: number,
 	length: number,

@@ -1,7 +1,7 @@
 import type { ByteOrder } from '../map';
 
 /**
- * Independent slow reference, written straight from design.md's bit numbering and nothing else:
+ * Independent slow reference, written straight from the bit numbering of docs/bit-numbering.md and nothing else:
  * walk the value bits one by one (little: startBit + i; big: up to bit 7, then bit 0 of the previous byte).
  */
 export function referencePositions(startBit: number, length: number, order: ByteOrder): number[] {

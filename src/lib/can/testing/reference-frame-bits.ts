@@ -1,10 +1,25 @@
-import { crc15 } from '../crc15';
-
 /**
  * Slow bit-by-bit reference for frameBits, kept to check the byte-wise fast path: the frame is
- * spelled out as a string of '0'/'1' field by field straight from ISO 11898-1, the CRC is the
- * shift register fed one bit at a time (crc15), and stuff bits are counted one bit at a time.
+ * spelled out as a string of '0'/'1' field by field straight from ISO 11898-1, the CRC is a plain
+ * polynomial long division over GF(2) with BigInt (referenceCrc15), and stuff bits are counted one
+ * bit at a time. It uses nothing from the library, so it can check the library's CRC as well.
  */
+
+/**
+ * CRC-15 by polynomial long division: the remainder of M(x)·x^15 divided by x^15 + 0x4599, the
+ * ISO 11898-1 generator (init 0, no final XOR). Independent of crc15's shift register and table.
+ */
+export function referenceCrc15(bits: ArrayLike<number>): number {
+	let m = 0n;
+	for (let i = 0; i < bits.length; i++) m = (m << 1n) | BigInt(bits[i]);
+	m <<= 15n;
+	const gen = (1n << 15n) | 0x4599n;
+	for (let shift = BigInt(bits.length); shift >= 0n; shift--) {
+		if ((m >> (shift + 15n)) & 1n) m ^= gen << shift;
+	}
+	return Number(m);
+}
+
 export function referenceFrameBits(
 	id: number,
 	extended: boolean,
@@ -22,7 +37,7 @@ export function referenceFrameBits(
 		: // SOF, 11-bit ID, RTR=0, IDE=0, r0=0, DLC
 			'0' + field(id, 11) + '000' + field(data.length, 4);
 	const body = header + Array.from(data, (b) => field(b, 8)).join('');
-	const crc = crc15(Array.from(body, Number));
+	const crc = referenceCrc15(Array.from(body, Number));
 	const stuffed = body + field(crc, 15); // SOF … CRC sequence is stuffed
 	let stuffBits = 0;
 	let run = 0;

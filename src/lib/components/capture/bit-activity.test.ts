@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { bitActivity, busiestBits, formatPercent, shadeOf, SHADE_STEPS } from './bit-activity';
 
-/** Reference for design.md's numbering: payload bit b is bit b of the payload read as a little-endian integer (BigInt via DataView). */
+/** Reference for the numbering of docs/bit-numbering.md: payload bit b is bit b of the payload read as a little-endian integer (BigInt via DataView). */
 function payloadWithBit(bit: number): Uint8Array {
 	const bytes = new Uint8Array(8);
 	new DataView(bytes.buffer).setBigUint64(0, 1n << BigInt(bit), true);
@@ -21,7 +21,7 @@ function referenceChanges(payloads: Uint8Array[], length: number): number[] {
 }
 
 describe('bitActivity', () => {
-	it('puts payload bit b at byte ⌊b/8⌋, bit b % 8, where a little-endian DataView write puts it (design.md numbering)', () => {
+	it('puts payload bit b at byte ⌊b/8⌋, bit b % 8, where a little-endian DataView write puts it (docs/bit-numbering.md)', () => {
 		for (let bit = 0; bit < 64; bit++) {
 			const changes = new Array<number>(64).fill(0);
 			changes[bit] = 1;

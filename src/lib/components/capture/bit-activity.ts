@@ -6,7 +6,7 @@
  */
 
 export interface ActivityCell {
-	/** Payload bit number, design.md numbering: bit `bitInByte` of byte `byte`. */
+	/** Payload bit number, docs/bit-numbering.md: bit `bitInByte` of byte `byte`. */
 	bit: number;
 	byte: number;
 	bitInByte: number;

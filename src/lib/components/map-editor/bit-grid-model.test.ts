@@ -30,14 +30,14 @@ function ownedBits(model: ReturnType<typeof buildBitGrid>, index: number): numbe
 }
 
 describe('buildBitGrid', () => {
-	it('lays out rows = bytes 0…n−1 and columns = bits 7…0 (design.md: payload bit b is bit b % 8 of byte ⌊b/8⌋)', () => {
+	it('lays out rows = bytes 0…n−1 and columns = bits 7…0 (docs/bit-numbering.md: payload bit b is bit b % 8 of byte ⌊b/8⌋)', () => {
 		const model = buildBitGrid({ length: 2, signals: [] });
 		expect(model.rows.map((r) => r.byte)).toEqual([0, 1]);
 		expect(model.rows[1].cells.map((c) => c.bit)).toEqual([15, 14, 13, 12, 11, 10, 9, 8]);
 		expect(model.rows[1].cells.map((c) => c.bitInByte)).toEqual([7, 6, 5, 4, 3, 2, 1, 0]);
 	});
 
-	it('little-endian: value bit i sits on payload bit startBit + i (design.md), LSB marked at startBit', () => {
+	it('little-endian: value bit i sits on payload bit startBit + i (docs/bit-numbering.md), LSB marked at startBit', () => {
 		const model = buildBitGrid({
 			length: 8,
 			signals: [signal({ name: 'Rpm', startBit: 4, length: 12 })]
@@ -49,12 +49,12 @@ describe('buildBitGrid', () => {
 		expect(cellAt(model, 7).owners[0].continues).toBe('next-byte');
 	});
 
-	it('big-endian: the design.md example (startBit 8, length 16) fills bytes 0–1 and continues into the byte before', () => {
+	it('big-endian: the docs/bit-numbering.md example (startBit 8, length 16) fills bytes 0–1 and continues into the byte before', () => {
 		const model = buildBitGrid({
 			length: 8,
 			signals: [signal({ name: 'Boost', startBit: 8, length: 16, byteOrder: 'big' })]
 		});
-		// design.md: a big-endian field filling bytes k … k+m−1 has startBit = 8·(k+m−1); here k = 0, m = 2.
+		// docs/bit-numbering.md: a big-endian field filling bytes k … k+m−1 has startBit = 8·(k+m−1); here k = 0, m = 2.
 		expect(ownedBits(model, 0)).toEqual([8, 9, 10, 11, 12, 13, 14, 15, 0, 1, 2, 3, 4, 5, 6, 7]);
 		expect(cellAt(model, 8).owners[0].lsb).toBe(true);
 		expect(cellAt(model, 15).owners[0].continues).toBe('previous-byte');
@@ -122,13 +122,13 @@ describe('dragToField', () => {
 	});
 
 	it.each([
-		// design.md: big-endian field filling bytes k … k+m−1 has startBit = 8·(k+m−1).
+		// docs/bit-numbering.md: big-endian field filling bytes k … k+m−1 has startBit = 8·(k+m−1).
 		{ k: 0, m: 2 },
 		{ k: 2, m: 1 },
 		{ k: 1, m: 4 },
 		{ k: 0, m: 8 }
 	])(
-		'big-endian drag over whole bytes $k…(k+$m−1) gives startBit 8·(k+m−1) (design.md)',
+		'big-endian drag over whole bytes $k…(k+$m−1) gives startBit 8·(k+m−1) (docs/bit-numbering.md)',
 		({ k, m }) => {
 			const msb = 8 * k + 7; // top-left cell: bit 7 of byte k
 			const lsb = 8 * (k + m - 1); // bottom-right cell: bit 0 of byte k+m−1

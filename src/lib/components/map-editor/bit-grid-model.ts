@@ -3,7 +3,7 @@
  * signal's least significant bit sits, which way it continues into the next byte, and which bits
  * clash or lie beyond the payload. Also turns a pointer drag or an arrow key into a new
  * startBit/length. All bit positions come from the core library's `fieldBitPositions`
- * (design.md's one bit numbering), so the grid can never disagree with the decoder.
+ * (the one bit numbering, docs/bit-numbering.md), so the grid can never disagree with the decoder.
  */
 import { fieldBitPositions } from '$lib/can/bits';
 import { presentTogether } from '$lib/can/lint';

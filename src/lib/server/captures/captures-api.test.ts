@@ -1,7 +1,7 @@
 // The capture upload/process/delete API run as the server runs it: real route handlers, a freshly
 // migrated in-memory database and a temporary storage folder, the parse in a real worker thread.
 // Expected frames are written out by hand below (invented demo data) and each CSV variant of
-// shared/design.md is rendered from them; the check is that every variant reads back to them.
+// docs/capture-csv.md is rendered from them; the check is that every variant reads back to them.
 import { readdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { isMainThread, threadId as mainThreadId } from 'node:worker_threads';
@@ -202,7 +202,7 @@ interface Variant {
 const bytesSpaced = (f: Frame) => f.data.map((b) => hex(b)).join(' ');
 const EPOCH = 1_767_225_600; // 2026-01-01T00:00:00Z in Unix seconds
 
-// The variants shared/design.md names for the importer.
+// The variants docs/capture-csv.md names for the importer.
 const VARIANTS: Variant[] = [
 	{
 		name: 'canonical',

@@ -46,7 +46,7 @@ export interface UnknownIdSummary {
 	count: number;
 	rateHz: number | null;
 	maxLength: number;
-	/** bitChanges[b]: changes of payload bit b (design.md numbering) between consecutive frames. */
+	/** bitChanges[b]: changes of payload bit b (docs/bit-numbering.md) between consecutive frames. */
 	bitChanges: number[];
 }
 

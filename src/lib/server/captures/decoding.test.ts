@@ -229,7 +229,7 @@ describe('decoding a capture with a chosen revision', () => {
 		expect(r2.decode.revision).toBe(2);
 		expect(r1.summary.frameCount).toBe(csvFrames.length);
 
-		// EngineSpeed: start bit 8, big-endian, 16 bits = bytes 0–1 (design.md: a big-endian field filling
+		// EngineSpeed: start bit 8, big-endian, 16 bits = bytes 0–1 (docs/bit-numbering.md: a big-endian field filling
 		// bytes k … k+m−1 has startBit 8·(k+m−1)), read with DataView.
 		const speeds = csvFrames
 			.filter((f) => f.id === 0x5f0)
@@ -473,7 +473,7 @@ describe('frames', () => {
 		expect(detail.signals.map((s) => s.value)).toEqual(
 			reference.map((r) => (r.present ? r.value : null))
 		);
-		// ThrottlePosition: start bit 24 big-endian = bytes 2–3 (design.md rule), × 0.1 (the fixture map), read with DataView.
+		// ThrottlePosition: start bit 24 big-endian = bytes 2–3 (docs/bit-numbering.md), × 0.1 (the fixture map), read with DataView.
 		expect(detail.signals[1].value).toBeCloseTo(
 			new DataView(csvFrames[at].bytes.buffer).getUint16(2, false) * 0.1,
 			9

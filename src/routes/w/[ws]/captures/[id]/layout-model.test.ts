@@ -9,7 +9,7 @@ import {
 	withDataColumns
 } from './layout-model';
 
-// The canonical layout's own header and two rows (design.md capture CSV), one with bad hex.
+// The canonical layout's own header and two rows (docs/capture-csv.md), one with bad hex.
 const canonical = [
 	['time', 'id', 'extended', 'dlc', 'data'],
 	['0.5', '5F0', '0', '2', '15 14'],
