@@ -84,13 +84,15 @@ export class MapDraft<V extends DraftView = DraftView> {
 		this.notice = null;
 	}
 
+	// save, reload and undo are arrow properties so a page can hand them to a button as they are.
+
 	/** Puts back the working copy as it was before the last edit (one step). */
-	undo(): void {
+	undo = (): void => {
 		if (!this.#lastEdit) return;
 		this.#draft = this.#lastEdit.before;
 		this.#lastEdit = null;
 		this.notice = null;
-	}
+	};
 
 	/** Drops the unsaved edits: the working copy goes back to the last saved draft. */
 	discard(): void {
@@ -102,7 +104,7 @@ export class MapDraft<V extends DraftView = DraftView> {
 	 * Saves the working copy. Resolves true when saved; a second call while one is on its way does
 	 * nothing (resolves false). On failure the edits stay in place and `failure` says why.
 	 */
-	async save(): Promise<boolean> {
+	save = async (): Promise<boolean> => {
 		if (!this.editable || this.#saving) return false;
 		this.#saving = true;
 		this.failure = null;
@@ -122,19 +124,19 @@ export class MapDraft<V extends DraftView = DraftView> {
 		} finally {
 			this.#saving = false;
 		}
-	}
+	};
 
 	/** Replaces the working copy with the server's latest (unsaved edits are lost). */
-	async reload(notice = 'Reloaded the latest saved draft.'): Promise<boolean> {
+	reload = async (): Promise<boolean> => {
 		try {
 			this.#adopt(await this.#io.load());
-			this.notice = notice;
+			this.notice = 'Reloaded the latest saved draft.';
 			return true;
 		} catch (error) {
 			this.failure = { ...this.#io.describe(error), stale: false };
 			return false;
 		}
-	}
+	};
 
 	/**
 	 * Server data arriving through navigation: another map, or a newer version of this one, replaces
@@ -160,10 +162,9 @@ export class MapDraft<V extends DraftView = DraftView> {
 			this.#lastEdit = { ...this.#lastEdit, before: { ...this.#lastEdit.before, name } };
 	}
 
-	/** Shows a failure of a page action (publish, restore, rename …) the same way a save failure shows. */
-	fail(error: unknown): DraftFailure {
+	/** Shows a failure of a page action (restore, rename, delete) the same way a save failure shows. */
+	fail(error: unknown): void {
 		this.failure = this.#io.describe(error);
-		return this.failure;
 	}
 
 	/**
