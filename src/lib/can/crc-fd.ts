@@ -5,7 +5,7 @@
  * - CRC-21: x^21 + x^20 + x^13 + x^11 + x^7 + x^4 + x^3 + 1 → 0x102899 without the x^21 term
  * The CRC catalogue lists them with init 0, no reflection and no final XOR ("CRC-17/CAN-FD",
  * "CRC-21/CAN-FD"); inside a frame ISO 11898-1:2015 presets the register with a 1 in its top bit
- * (FD_FRAME_CRC_INIT), see fd-frame-bits.ts.
+ * (fdFrameCrcInit), see fd-frame-bits.ts.
  */
 
 export interface FdCrc {

@@ -30,8 +30,8 @@
  * Without BRS the whole frame goes at the nominal rate (dataPhaseBits = 0).
  */
 import { fdCrcFor, fdFrameCrcInit } from './crc-fd';
-import { dlcToLength, lengthToDlc, MAX_PAYLOAD_LENGTH } from './dlc';
-import { checkIdentifier, putBits, STUFF_TABLE, TRAILER_BITS } from './frame-bits';
+import { dlcToLength, MAX_PAYLOAD_LENGTH } from './dlc';
+import { checkIdentifier, putBits, STUFF_START, STUFF_TABLE, TRAILER_BITS } from './frame-bits';
 
 /** Bits of the stuff count field: 3 Gray-coded bits and a parity bit. ISO 11898-1:2015. */
 export const STUFF_COUNT_BITS = 4;
@@ -53,13 +53,20 @@ export function fdFixedStuffBits(crcWidth: number): number {
 	return 1 + Math.floor((STUFF_COUNT_BITS + crcWidth - 1) / 4);
 }
 
+/** DLC of each payload length an FD frame can have, −1 for the others (ISO 11898-1 DLC table). */
+const DLC_OF_LENGTH = (() => {
+	const table = new Int8Array(MAX_PAYLOAD_LENGTH + 1).fill(-1);
+	for (let dlc = 0; dlc <= 15; dlc++) table[dlcToLength(dlc)] = dlc;
+	return table;
+})();
+
 /** Throws a RangeError unless `length` is a payload a CAN FD frame can carry (0–8, 12, 16, 20, 24, 32, 48, 64). */
 export function checkFdLength(length: number): void {
 	if (
 		!Number.isInteger(length) ||
 		length < 0 ||
 		length > MAX_PAYLOAD_LENGTH ||
-		dlcToLength(lengthToDlc(length)) !== length
+		DLC_OF_LENGTH[length] < 0
 	) {
 		throw new RangeError(
 			`a CAN FD frame carries 0–8, 12, 16, 20, 24, 32, 48 or 64 data bytes, got ${length}`
@@ -114,7 +121,7 @@ function putFdHeader(
 		n = putBits(out, n, 0b00, 2); // RRS, IDE
 	}
 	n = putBits(out, n, brs ? 0b1010 : 0b1000, 4); // FDF=1, res=0, BRS, ESI=0
-	return putBits(out, n, lengthToDlc(length), 4); // DLC
+	return putBits(out, n, DLC_OF_LENGTH[length], 4); // DLC
 }
 
 /** Bits of a frame of this shape that do not depend on its content. */
@@ -199,8 +206,10 @@ export function fdFrameBits(
 
 /**
  * The phase bit counts of fdFrameBits for the frame whose payload is `bytes[offset … offset + length)`
- * (a capture's payload pool), without the CRC: the header bit by bit, then the payload a byte at a
- * time through the stuffing table (the bit count does not depend on the CRC, which has fixed stuffing).
+ * (a capture's payload pool), without the CRC, which the bit count does not depend on (the CRC
+ * field has fixed stuffing). Fast enough to run for every FD frame of a capture: the bits up to
+ * BRS are packed into whole bytes and, like the payload, counted through frame-bits.ts' stuffing
+ * table a byte at a time; only BRS, ESI and the DLC go bit by bit.
  */
 export function fdPhaseBitsAt(
 	id: number,
@@ -217,15 +226,45 @@ export function fdPhaseBitsAt(
 			`payload bytes ${offset}…${offset + length} lie outside a pool of ${bytes.length} bytes`
 		);
 	}
+	const table = STUFF_TABLE; // one read of the imported binding, not one per byte
 	const brs = options.bitRateSwitch;
-	const n = putFdHeader(scratchBits, id, extended, length, brs);
-	const brsIndex = arbitrationHeaderBits(extended) - 1;
-	let last = 1;
-	let run = 0;
+	// SOF … res, padded in front to whole bytes. Stuffing state = last << 2 | (run − 1).
+	let state: number;
 	let stuffBits = 0;
-	let stuffBeforeBrs = 0;
-	for (let i = 0; i < n; i++) {
-		const bit = scratchBits[i];
+	const header = headerBytes;
+	let headerLength: number;
+	if (extended) {
+		// Pad "10101" from the state "last 0, run 1": no run reaches 5 and it ends recessive, so the
+		// dominant SOF starts a fresh run as after an idle bus (the same pad as frame-bits.ts).
+		const base = id >>> 18;
+		const ext = id & 0x3ffff;
+		// [pad×5, SOF, base 10…9] [base 8…1] [base 0, SRR=1, IDE=1, ext 17…13] [ext 12…5] [ext 4…0, RRS=0, FDF=1, res=0]
+		header[0] = 0b10101000 | (base >>> 9);
+		header[1] = base >>> 1;
+		header[2] = ((base & 1) << 7) | 0b1100000 | (ext >>> 13);
+		header[3] = ext >>> 5;
+		header[4] = ((ext & 0x1f) << 3) | 0b010;
+		headerLength = 5;
+		state = STUFF_START;
+	} else {
+		// [SOF, ID 10…4] [ID 3…0, RRS=0, IDE=0, FDF=1, res=0], from "last recessive, run 1".
+		header[0] = id >>> 4;
+		header[1] = ((id & 0xf) << 4) | 0b0010;
+		headerLength = 2;
+		state = 0b100;
+	}
+	for (let k = 0; k < headerLength; k++) {
+		const v = table[(state << 8) | header[k]];
+		stuffBits += v & 3;
+		state = v >> 2;
+	}
+	const stuffBeforeBrs = stuffBits;
+	// BRS, ESI=0, DLC(4).
+	const tail = (brs ? 0b100000 : 0) | DLC_OF_LENGTH[length];
+	let last = state >> 2;
+	let run = (state & 3) + 1;
+	for (let b = 5; b >= 0; b--) {
+		const bit = (tail >> b) & 1;
 		if (bit === last) run++;
 		else {
 			last = bit;
@@ -233,21 +272,22 @@ export function fdPhaseBitsAt(
 		}
 		if (run === 5) {
 			stuffBits++;
-			if (i < brsIndex) stuffBeforeBrs++;
 			last = 1 - bit;
 			run = 1;
 		}
 	}
-	// Stuffing-table state = last << 2 | (run − 1) (frame-bits.ts).
-	let state = (last << 2) | (run - 1);
+	state = (last << 2) | (run - 1);
 	for (let k = offset, end = offset + length; k < end; k++) {
-		const v = STUFF_TABLE[(state << 8) | bytes[k]];
+		const v = table[(state << 8) | bytes[k]];
 		stuffBits += v & 3;
 		state = v >> 2;
 	}
 	const fixed = fixedCounts(length, extended);
 	return phases(fixed.bits + stuffBits + fixed.fixedStuffBits, extended, stuffBeforeBrs, brs);
 }
+
+/** Scratch for fdPhaseBitsAt's packed header (at most 5 bytes). */
+const headerBytes = new Uint8Array(5);
 
 /**
  * Phase bits of an FD frame of this shape without dynamic stuff bits (fixed stuff bits included,
