@@ -222,6 +222,35 @@ describe('cli calculators', () => {
 		expect(at250.worstCasePercent).toBeCloseTo(8.74, 9);
 	});
 
+	it('bus-load runs a CAN FD frame’s data phase at --data-bitrate', async () => {
+		const dir = mkdtempSync(join(tmpdir(), 'fw-cli-'));
+		const path = join(dir, 'fd.map.json');
+		// Invented test map: one classical and one 64-byte CAN FD frame, both every 10 ms.
+		writeFileSync(
+			path,
+			JSON.stringify({
+				format: 'framewright-map@1',
+				name: 'FD load',
+				bitrate: 500000,
+				frames: [
+					{ name: 'Classic', id: '0x100', length: 8, cycleMs: 10 },
+					{ name: 'Wide', id: '0x300', length: 64, cycleMs: 10 }
+				]
+			})
+		);
+		const { code, stdout } = await cli('bus-load', '--map', path, '--data-bitrate', '2M');
+		expect(code).toBe(0);
+		const load = JSON.parse(stdout);
+		// Classic: 108 + 3 = 111 bits (ISO 11898-1). Wide (ISO 11898-1:2015 FD layout, base format,
+		// CRC-21): 26 bits at 500 kbit/s (SOF…BRS, ACK, EOF) + 3 intermission, 550 at 2 Mbit/s
+		// (ESI…CRC delimiter with 7 fixed stuff bits) = 137.5 nominal bit times → 166.5.
+		expect(load.dataBitrate).toBe(2_000_000);
+		expect(load.nominalPercent).toBeCloseTo((100 * 100 * (111 + 166.5)) / 500_000, 9);
+		const refused = await cli('bus-load', '--map', path, '--data-bitrate', '250k');
+		expect(refused.code).toBe(2);
+		expect(refused.stderr).toMatch(/data bit rate \(250000\) must be at least the nominal/);
+	});
+
 	it.concurrent.each([[CLUB_MAP], [GENSET_MAP]])('lint finds no problems in %s', async (path) => {
 		const { code, stdout } = await cli('lint', '--map', path);
 		expect(JSON.parse(stdout)).toEqual([]);
@@ -333,6 +362,18 @@ describe('cli bad input', () => {
 			['bus-load', '--map', CLUB_MAP, '--bitrate', '10'],
 			2,
 			/at least 1000/
+		],
+		[
+			'bus-load data bitrate not a number',
+			['bus-load', '--map', CLUB_MAP, '--data-bitrate', 'fast'],
+			2,
+			/--data-bitrate \(bits per second\) "fast" is not a number/
+		],
+		[
+			'bus-load data bitrate too high',
+			['bus-load', '--map', CLUB_MAP, '--data-bitrate', '20M'],
+			2,
+			/--data-bitrate must be at most 16M/
 		],
 		['lint missing file', ['lint', '--map', 'nope.json'], 1, /nope.json: no such file/]
 	] as [string, string[], number, RegExp][])('%s', async (_, args, exitCode, message) => {

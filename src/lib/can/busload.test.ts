@@ -17,12 +17,12 @@ const map = canMapSchema.parse({
 });
 
 describe('mapBusLoad', () => {
-	it('matches the hand arithmetic for two frames (ISO 11898-1 bit counts, Davis et al. 2007 bound)', () => {
+	it('matches the hand arithmetic for two classical frames (ISO 11898-1 bit counts, Davis et al. 2007 bound)', () => {
 		// Fast: base, 8 bytes, 100 /s. Nominal 44+8·8 = 108 bits + 3 intermission = 111 → 11 100 bit/s.
 		//       Worst (Davis) 34+64+13+⌊97/4⌋ = 135 → 13 500 bit/s.
 		// Slow: extended, 4 bytes, 10 /s. Nominal 64+8·4 = 96 + 3 = 99 → 990 bit/s.
 		//       Worst 54+32+13+⌊85/4⌋ = 120 → 1 200 bit/s.
-		// Totals at 500 kbit/s: nominal 12 090 / 500 000 = 2.418 %, worst 14 700 / 500 000 = 2.94 %.
+		// Classical totals at 500 kbit/s: nominal 12 090 / 500 000 = 2.418 %, worst 14 700 / 500 000 = 2.94 %.
 		const load = mapBusLoad(map);
 		expect(load.frames[0]).toMatchObject({
 			framesPerSecond: 100,
@@ -37,11 +37,43 @@ describe('mapBusLoad', () => {
 		});
 		expect(load.frames[0].nominalPercent).toBeCloseTo(2.22, 10);
 		expect(load.frames[1].worstCasePercent).toBeCloseTo(0.24, 10);
-		expect(load.nominalPercent).toBeCloseTo(2.418, 10);
-		expect(load.worstCasePercent).toBeCloseTo(2.94, 10);
+		const classical = mapBusLoad({ ...map, frames: map.frames.slice(0, 3) });
+		expect(classical.nominalPercent).toBeCloseTo(2.418, 10);
+		expect(classical.worstCasePercent).toBeCloseTo(2.94, 10);
 	});
 
-	it('lists frames without a cycle time or beyond classical CAN with zero load', () => {
+	it('counts a CAN FD frame at the nominal rate when no data bit rate is given (ISO 11898-1:2015 layout)', () => {
+		// Wide: base, 64 bytes, 100 /s. SOF…DLC 22 + data 512 + stuff count 4 + CRC-21 21 + delimiter, ACK,
+		// EOF 10 = 569 bits, + 7 fixed stuff bits = 576, + 3 intermission = 579 → 57 900 bit/s.
+		// Worst: + ⌊(22 + 512 − 1)/4⌋ = 133 dynamic stuff bits → 712 → 71 200 bit/s.
+		// Totals: nominal 12 090 + 57 900 = 69 990 → 13.998 %; worst 14 700 + 71 200 = 85 900 → 17.18 %.
+		const load = mapBusLoad(map);
+		expect(load.dataBitrate).toBe(500_000);
+		expect(load.frames[3]).toMatchObject({
+			name: 'Wide',
+			excluded: null,
+			nominalBitsPerSecond: 57_900,
+			worstCaseBitsPerSecond: 71_200
+		});
+		expect(load.nominalPercent).toBeCloseTo(13.998, 10);
+		expect(load.worstCasePercent).toBeCloseTo(17.18, 10);
+	});
+
+	it('runs the FD data phase at the data bit rate', () => {
+		// Wide at 500 kbit/s nominal, 2 Mbit/s data. Nominal rate: SOF…BRS 17 + ACK slot, ACK delimiter,
+		// EOF 9 = 26 bits + 3 intermission; data rate: the other 576 − 26 = 550 bits = 137.5 nominal bit
+		// times → 166.5 × 100 = 16 650. Worst: at most ⌊(16 − 1)/4⌋ = 3 stuff bits before BRS, the other
+		// 130 after: 29 + 3 + (709 − 29)/4 = 202 → 20 200.
+		const load = mapBusLoad(map, 500_000, 2_000_000);
+		expect(load.dataBitrate).toBe(2_000_000);
+		expect(load.frames[3].nominalBitsPerSecond).toBeCloseTo(16_650, 9);
+		expect(load.frames[3].worstCaseBitsPerSecond).toBeCloseTo(20_200, 9);
+		// Classical frames are untouched by the data bit rate.
+		expect(load.frames[0]).toEqual(mapBusLoad(map).frames[0]);
+		expect(load.nominalPercent).toBeCloseTo((100 * (12_090 + 16_650)) / 500_000, 10);
+	});
+
+	it('lists frames without a cycle time with zero load', () => {
 		const load = mapBusLoad(map);
 		expect(load.frames[2]).toMatchObject({
 			name: 'OnChange',
@@ -49,13 +81,16 @@ describe('mapBusLoad', () => {
 			nominalPercent: 0,
 			excluded: 'noCycleTime'
 		});
-		expect(load.frames[3]).toMatchObject({ name: 'Wide', worstCasePercent: 0, excluded: 'canFd' });
 	});
 
 	it('uses the given bit rate instead of the map’s', () => {
-		// Same 12 090 bit/s on a 250 kbit/s bus: 4.836 %.
-		expect(mapBusLoad(map, 250_000).nominalPercent).toBeCloseTo(4.836, 10);
+		// Same 12 090 bit/s of classical frames on a 250 kbit/s bus: 4.836 %.
+		const classical = { ...map, frames: map.frames.slice(0, 3) };
+		expect(mapBusLoad(classical, 250_000).nominalPercent).toBeCloseTo(4.836, 10);
 		expect(() => mapBusLoad(map, 0)).toThrow(/bit rate/);
+		expect(() => mapBusLoad(map, 500_000, 250_000)).toThrow(
+			/data bit rate \(250000\) must be at least the nominal bit rate \(500000\)/
+		);
 	});
 });
 

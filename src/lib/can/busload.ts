@@ -1,9 +1,16 @@
 /**
- * Bus load: the share of the bit rate that frames occupy, from a map's cycle times (planning)
- * or from a capture's actual frames (measurement). Classical CAN only: CAN FD frames switch bit
- * rate in the data phase and are listed but left out of the totals.
+ * Bus load: the share of bus time that frames occupy, from a map's cycle times (planning) or from
+ * a capture's actual frames (measurement). CAN FD frames (payloads over 8 bytes) send their data
+ * phase at the data bit rate (fd-frame-bits.ts); their load is expressed in nominal bit times,
+ * so every percentage is busy time over elapsed time. See docs/can-fd-and-transport.md.
  */
 import type { CanMap } from './map';
+import {
+	fdNominalPhaseBits,
+	fdWorstCasePhaseBits,
+	type FdFrameOptions,
+	type FdPhaseBits
+} from './fd-frame-bits';
 import {
 	CLASSICAL_MAX_LENGTH,
 	frameBits,
@@ -13,13 +20,14 @@ import {
 	worstCaseFrameBits
 } from './frame-bits';
 
-export type BusLoadExclusion = 'noCycleTime' | 'canFd';
+export type BusLoadExclusion = 'noCycleTime';
 
 export interface FrameBusLoad {
 	frameIndex: number;
 	name: string;
 	id: number;
 	framesPerSecond: number;
+	/** Bus time per second in nominal bit times (an FD data phase bit weighs bitrate / dataBitrate). */
 	nominalBitsPerSecond: number;
 	worstCaseBitsPerSecond: number;
 	nominalPercent: number;
@@ -29,7 +37,10 @@ export interface FrameBusLoad {
 }
 
 export interface MapBusLoad {
+	/** Nominal (arbitration) bit rate; the percentages are of this rate's bit times. */
 	bitrate: number;
+	/** Bit rate of CAN FD data phases (equal to `bitrate` when none was given). */
+	dataBitrate: number;
 	nominalPercent: number;
 	worstCasePercent: number;
 	frames: FrameBusLoad[];
@@ -42,27 +53,65 @@ function checkPositive(value: number, what: string): void {
 }
 
 /**
- * Planned bus load of a map from its frames' cycle times, in percent of the bit rate
- * (map.bitrate unless `bitrate` is given). Per frame and second:
+ * Checks a nominal / data bit rate pair. A data phase slower than the arbitration phase is refused:
+ * it defeats the purpose of the switch, and the FD worst-case bound assumes it does not happen.
+ */
+export function checkBitrates(bitrate: number, dataBitrate: number): void {
+	checkPositive(bitrate, 'bit rate');
+	checkPositive(dataBitrate, 'data bit rate');
+	if (dataBitrate < bitrate) {
+		throw new RangeError(
+			`the data bit rate (${dataBitrate}) must be at least the nominal bit rate (${bitrate})`
+		);
+	}
+}
+
+/**
+ * Bus time of FD phase bits plus the intermission, in nominal bit times: the data phase's bits
+ * weigh bitrate / dataBitrate each. Exact for classical frames (no data phase bits).
+ */
+export function nominalBitTimes(phases: FdPhaseBits, bitrate: number, dataBitrate: number): number {
+	return phases.arbitrationBits + interFrameBits + phases.dataPhaseBits * (bitrate / dataBitrate);
+}
+
+/**
+ * Planned bus load of a map from its frames' cycle times, in percent of bus time at the nominal bit
+ * rate (map.bitrate unless `bitrate` is given). Per frame and second:
  * - nominal = (unstuffed bits SOF…EOF + 3-bit intermission) × frames per second — no stuffing
  *   estimate, so it is the floor the bus can never go below;
  * - worst case = Davis et al. 2007 bound (already including the intermission) × frames per second.
- * Frames without a cycle time (event-driven or unknown) and CAN FD frames are listed with zero load.
+ * CAN FD frames (more than 8 bytes) count their data phase at `dataBitrate` (default: the nominal
+ * rate, i.e. no switch): nominal = fdNominalPhaseBits (fixed stuff bits, no dynamic ones), worst
+ * case = fdWorstCasePhaseBits, both plus the intermission, in nominal bit times.
+ * Frames without a cycle time (event-driven or unknown) are listed with zero load.
  */
-export function mapBusLoad(map: CanMap, bitrate: number = map.bitrate): MapBusLoad {
-	checkPositive(bitrate, 'bit rate');
+export function mapBusLoad(
+	map: CanMap,
+	bitrate: number = map.bitrate,
+	dataBitrate: number = bitrate
+): MapBusLoad {
+	checkBitrates(bitrate, dataBitrate);
+	// A map says nothing about BRS; with no data bit rate given both rates are equal, so assuming
+	// the switch changes nothing, and with one given the switch is what it is for.
+	const fd: FdFrameOptions = { bitRateSwitch: true };
 	let nominal = 0;
 	let worst = 0;
 	const frames = map.frames.map((frame, frameIndex): FrameBusLoad => {
-		const excluded: BusLoadExclusion | null =
-			frame.length > CLASSICAL_MAX_LENGTH ? 'canFd' : frame.cycleMs == null ? 'noCycleTime' : null;
+		const excluded: BusLoadExclusion | null = frame.cycleMs == null ? 'noCycleTime' : null;
 		const framesPerSecond = excluded === null && frame.cycleMs ? 1000 / frame.cycleMs : 0;
-		const nominalBitsPerSecond = excluded
-			? 0
-			: framesPerSecond * (nominalFrameBits(frame.length, frame.extended) + interFrameBits);
-		const worstCaseBitsPerSecond = excluded
-			? 0
-			: framesPerSecond * worstCaseFrameBits(frame.length, frame.extended);
+		const isFd = frame.length > CLASSICAL_MAX_LENGTH;
+		const nominalBits = isFd
+			? nominalBitTimes(fdNominalPhaseBits(frame.length, frame.extended, fd), bitrate, dataBitrate)
+			: nominalFrameBits(frame.length, frame.extended) + interFrameBits;
+		const worstBits = isFd
+			? nominalBitTimes(
+					fdWorstCasePhaseBits(frame.length, frame.extended, fd),
+					bitrate,
+					dataBitrate
+				)
+			: worstCaseFrameBits(frame.length, frame.extended);
+		const nominalBitsPerSecond = excluded ? 0 : framesPerSecond * nominalBits;
+		const worstCaseBitsPerSecond = excluded ? 0 : framesPerSecond * worstBits;
 		nominal += nominalBitsPerSecond;
 		worst += worstCaseBitsPerSecond;
 		return {
@@ -79,6 +128,7 @@ export function mapBusLoad(map: CanMap, bitrate: number = map.bitrate): MapBusLo
 	});
 	return {
 		bitrate,
+		dataBitrate,
 		nominalPercent: (100 * nominal) / bitrate,
 		worstCasePercent: (100 * worst) / bitrate,
 		frames
@@ -119,7 +169,8 @@ export const MAX_LOAD_WINDOWS = 1_000_000;
  * Measured bus load of a capture over fixed windows: each frame's bit count is added to the window
  * holding its timestamp (a frame crossing a window edge is counted whole in its own window).
  * Windows start at the earliest timestamp; empty windows are reported with 0 %.
- * `times` in seconds (any order), `frameBitCounts[i]` the bus bits of frame i (see frameBusBits).
+ * `times` in seconds (any order), `frameBitCounts[i]` the bus time of frame i in nominal bit times
+ * (see frameBusBits, and nominalBitTimes for CAN FD frames).
  */
 export function captureBusLoad(
 	times: Float64Array,

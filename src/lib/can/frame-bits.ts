@@ -1,6 +1,7 @@
 /**
  * Bit-level layout of classical CAN data frames (ISO 11898-1): the exact bit sequence, its CRC,
  * the stuff bits it needs, and the worst-case stuffed length for bus load and timing analysis.
+ * CAN FD frames (ISO 11898-1:2015) are in fd-frame-bits.ts, which shares the stuffing helpers below.
  */
 import { crc15, crc15Step, crc15UpdateByte, CRC15_POLY } from './crc15';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from './map';
@@ -30,7 +31,8 @@ export interface FrameBitSequence {
 	crc: number;
 }
 
-function checkFrame(id: number, extended: boolean, length: number): void {
+/** Throws a RangeError unless `id` fits the 11-bit (base) or 29-bit (extended) format. */
+export function checkIdentifier(id: number, extended: boolean): void {
 	const max = extended ? MAX_EXTENDED_ID : MAX_STANDARD_ID;
 	if (!Number.isInteger(id) || id < 0 || id > max) {
 		const kind = extended
@@ -38,6 +40,10 @@ function checkFrame(id: number, extended: boolean, length: number): void {
 			: 'a standard (11-bit) ID must be 0…0x7FF';
 		throw new RangeError(`${kind}, got ${id}`);
 	}
+}
+
+function checkFrame(id: number, extended: boolean, length: number): void {
+	checkIdentifier(id, extended);
 	if (length > CLASSICAL_MAX_LENGTH) {
 		throw new RangeError(
 			`classical CAN frames carry 0–8 data bytes, got ${length} (CAN FD frames are not modelled here)`
@@ -88,7 +94,7 @@ export function frameBitSequence(
 const scratchBits = new Uint8Array(64 + 8 * CLASSICAL_MAX_LENGTH);
 
 /** Writes `width` bits of `value`, most significant first, at out[n]; returns the next position. */
-function putBits(out: Uint8Array, n: number, value: number, width: number): number {
+export function putBits(out: Uint8Array, n: number, value: number, width: number): number {
 	for (let b = width - 1; b >= 0; b--) out[n++] = (value >>> b) & 1;
 	return n;
 }
@@ -192,12 +198,15 @@ export function frameStuffBitsAt(
  */
 
 /** Stuffing state = last << 2 | (run − 1), run 1…4 (a run of 5 is stuffed at once): 8 states. */
-const STUFF_START = 0; // last 0, run 1
+export const STUFF_START = 0; // last 0, run 1
 const STUFF_PAD_BASE = 0b10101000;
 const STUFF_PAD_EXTENDED = 0b10000000;
 
-/** STUFF_TABLE[state << 8 | byte] = new state << 2 | stuff bits inserted in that byte (0–2). */
-const STUFF_TABLE = (() => {
+/**
+ * STUFF_TABLE[state << 8 | byte] = new state << 2 | stuff bits inserted in that byte (0–2), the byte
+ * taken most significant bit first; a run of 5 ending on the byte's last bit is stuffed (counted) too.
+ */
+export const STUFF_TABLE = (() => {
 	const table = new Uint8Array(8 << 8);
 	for (let state = 0; state < 8; state++) {
 		for (let byte = 0; byte < 256; byte++) {
@@ -410,7 +419,7 @@ function range(from: number, to: number): number[] {
 }
 
 /** One bit of the stuffing rule: the new run state and whether a stuff bit follows. */
-function advance(
+export function advance(
 	last: number,
 	run: number,
 	bit: number

@@ -1,19 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { decodeSignal, encodeSignal } from './codec';
 import { compileMap, SIGNAL_STATUS } from './decoder';
-import {
-	buildJ1939Id,
-	createTransportReassembler,
-	encodeDm1,
-	j1939ValueStatus,
-	parseDm1,
-	parseJ1939Id,
-	PGN_DM1,
-	PGN_TP_CM,
-	PGN_TP_DT,
-	TP_CM_BAM,
-	type TransportProblem
-} from './j1939';
+import { buildJ1939Id, encodeDm1, j1939ValueStatus, parseDm1, parseJ1939Id } from './j1939';
 import { canMapSchema } from './map';
 
 describe('parseJ1939Id (SAE J1939-21 29-bit identifier layout)', () => {
@@ -260,42 +248,6 @@ describe('SAE J1939-71 scaling through the codec and the compiled decoder', () =
 	});
 });
 
-// Helpers building frames purely from the SAE J1939-21 layout.
-const SA = 0x00;
-const cmId = buildJ1939Id({
-	priority: 7,
-	pgn: PGN_TP_CM,
-	sourceAddress: SA,
-	destinationAddress: 0xff
-});
-const dtId = buildJ1939Id({
-	priority: 7,
-	pgn: PGN_TP_DT,
-	sourceAddress: SA,
-	destinationAddress: 0xff
-});
-
-function bamFrames(pgn: number, message: Uint8Array): Uint8Array[] {
-	const packets = Math.ceil(message.length / 7);
-	const cm = Uint8Array.of(
-		TP_CM_BAM,
-		message.length & 0xff,
-		message.length >> 8,
-		packets,
-		0xff,
-		pgn & 0xff,
-		(pgn >> 8) & 0xff,
-		pgn >> 16
-	);
-	const dts = Array.from({ length: packets }, (_, i) => {
-		const dt = new Uint8Array(8).fill(0xff); // J1939-21: unused bytes of the last packet are 0xFF
-		dt[0] = i + 1;
-		dt.set(message.subarray(i * 7, i * 7 + 7), 1);
-		return dt;
-	});
-	return [cm, ...dts];
-}
-
 const lampsOff = { state: 'off', flash: 'none' } as const;
 
 describe('DM1 (SAE J1939-73)', () => {
@@ -356,114 +308,5 @@ describe('DM1 (SAE J1939-73)', () => {
 
 	it('rejects a payload shorter than the lamp bytes', () => {
 		expect(() => parseDm1(Uint8Array.of(0x00))).toThrow(/lamp bytes/);
-	});
-});
-
-describe('BAM transport reassembly (SAE J1939-21) carrying DM1 (SAE J1939-73)', () => {
-	const codes = [
-		{ spn: 100, fmi: 1, occurrenceCount: 3, conversionMethod: 0 },
-		{ spn: 110, fmi: 0, occurrenceCount: 1, conversionMethod: 0 },
-		{ spn: 190, fmi: 2, occurrenceCount: 9, conversionMethod: 0 },
-		{ spn: 0x40001, fmi: 16, occurrenceCount: 126, conversionMethod: 0 }
-	];
-	const lamps = {
-		malfunctionIndicator: lampsOff,
-		redStop: lampsOff,
-		amberWarning: { state: 'on', flash: 'slow' },
-		protect: lampsOff
-	} as const;
-	const message = encodeDm1(lamps, codes); // 2 + 4 × 4 = 18 bytes → 3 packets of 7
-
-	it('reassembles a 3-packet DM1 and truncates the 0xFF padding to the announced size', () => {
-		expect(message.length).toBe(18);
-		const frames = bamFrames(PGN_DM1, message);
-		expect(frames).toHaveLength(4);
-		const tp = createTransportReassembler();
-		// J1939-21: BAM packets are sent 50–200 ms apart (from memory).
-		const results = frames.map((f, i) => tp.push(i === 0 ? cmId : dtId, 1 + i * 0.05, f));
-		expect(results.slice(0, 3)).toEqual([null, null, null]);
-		const done = results[3]!;
-		expect(done).toMatchObject({ pgn: PGN_DM1, sourceAddress: SA, time: 1.15 });
-		expect(done.data).toEqual(message);
-		expect(parseDm1(done.data)).toEqual({ lamps, troubleCodes: codes });
-		expect(tp.pending).toBe(0);
-	});
-
-	it('rejects an out-of-order packet, reports it and returns no partial message', () => {
-		const problems: TransportProblem[] = [];
-		const tp = createTransportReassembler({ onProblem: (p) => problems.push(p) });
-		const [cm, dt1, dt2, dt3] = bamFrames(PGN_DM1, message);
-		expect(tp.push(cmId, 0, cm)).toBeNull();
-		expect(tp.push(dtId, 0.05, dt1)).toBeNull();
-		expect(tp.push(dtId, 0.1, dt3)).toBeNull(); // packet 2 missing
-		expect(tp.push(dtId, 0.15, dt2)).toBeNull(); // late packet of a dropped transfer is ignored
-		expect(problems).toEqual([
-			expect.objectContaining({ kind: 'outOfOrder', sourceAddress: SA, pgn: PGN_DM1 })
-		]);
-		expect(problems[0].message).toMatch(/packet 3 arrived, expected 2/);
-		expect(tp.pending).toBe(0);
-	});
-
-	it('drops a transfer whose packets are further apart than T1 (750 ms, J1939-21, from memory)', () => {
-		const problems: TransportProblem[] = [];
-		const tp = createTransportReassembler({ onProblem: (p) => problems.push(p) });
-		const [cm, dt1, dt2, dt3] = bamFrames(PGN_DM1, message);
-		tp.push(cmId, 0, cm);
-		tp.push(dtId, 0.05, dt1);
-		expect(tp.push(dtId, 1.0, dt2)).toBeNull();
-		expect(tp.push(dtId, 1.05, dt3)).toBeNull();
-		expect(problems.map((p) => p.kind)).toEqual(['timeout']);
-	});
-
-	it('keeps transfers from different source addresses apart', () => {
-		const other = 0x3d;
-		const cmOther = buildJ1939Id({ priority: 7, pgn: PGN_TP_CM, sourceAddress: other });
-		const dtOther = buildJ1939Id({ priority: 7, pgn: PGN_TP_DT, sourceAddress: other });
-		const second = encodeDm1(lamps, codes.slice(0, 2)); // 10 bytes → 2 packets
-		const a = bamFrames(PGN_DM1, message);
-		const b = bamFrames(PGN_DM1, second);
-		const tp = createTransportReassembler();
-		const out = [
-			tp.push(cmId, 0, a[0]),
-			tp.push(cmOther, 0.01, b[0]),
-			tp.push(dtId, 0.05, a[1]),
-			tp.push(dtOther, 0.06, b[1]),
-			tp.push(dtId, 0.1, a[2]),
-			tp.push(dtOther, 0.11, b[2]),
-			tp.push(dtId, 0.15, a[3])
-		].filter((m) => m !== null);
-		expect(out.map((m) => [m.sourceAddress, m.data.length])).toEqual([
-			[other, 10],
-			[SA, 18]
-		]);
-		expect(parseDm1(out[0].data).troubleCodes).toEqual(codes.slice(0, 2));
-	});
-
-	it('reports a BAM whose packet count does not fit its size, and a restart mid-transfer', () => {
-		const problems: TransportProblem[] = [];
-		const tp = createTransportReassembler({ onProblem: (p) => problems.push(p) });
-		const [cm, dt1] = bamFrames(PGN_DM1, message);
-		const badCm = cm.slice();
-		badCm[3] = 2; // 18 bytes cannot fit in 2 packets of 7
-		tp.push(cmId, 0, badCm);
-		tp.push(cmId, 1, cm);
-		tp.push(dtId, 1.05, dt1);
-		tp.push(cmId, 1.1, cm);
-		expect(problems.map((p) => p.kind)).toEqual(['malformed', 'replaced']);
-		expect(tp.pending).toBe(1);
-	});
-
-	it('ignores connection-mode (RTS/CTS) frames and unrelated PGNs', () => {
-		const tp = createTransportReassembler();
-		const rts = Uint8Array.of(16, 18, 0, 3, 0xff, 0xca, 0xfe, 0x00); // control byte 16 = RTS
-		const toNode = buildJ1939Id({
-			priority: 7,
-			pgn: PGN_TP_CM,
-			sourceAddress: SA,
-			destinationAddress: 0x21
-		});
-		expect(tp.push(toNode, 0, rts)).toBeNull();
-		expect(tp.push(0x0cf00400, 0, new Uint8Array(8))).toBeNull();
-		expect(tp.pending).toBe(0);
 	});
 });

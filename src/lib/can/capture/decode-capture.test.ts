@@ -172,8 +172,10 @@ describe('decodeCapture J1939 pass', () => {
 		expect(scan.transportMessages).toEqual([
 			{
 				time: 1.1,
+				mode: 'bam',
 				pgn: 0xfeca,
 				sourceAddress: 0,
+				destinationAddress: 0xff,
 				length: 10,
 				data: new Uint8Array([0x04, 0xff, 0x6e, 0x00, 0x03, 0x01, 0xbe, 0x00, 0x10, 0x02])
 			}

@@ -26,6 +26,8 @@ export interface DecodeCaptureOptions {
 	bitrate?: number;
 	/** Bus-load window length in seconds (default 0.1). */
 	loadWindowSeconds?: number;
+	/** Data-phase bit rate of CAN FD frames; when given, FD frames are taken to switch (BRS). */
+	dataBitrate?: number;
 }
 
 export function decodeCapture(
@@ -49,7 +51,8 @@ export function decodeCapture(
 		busLoad: loadOverTime(
 			store,
 			options.bitrate ?? compiled.map.bitrate,
-			options.loadWindowSeconds
+			options.loadWindowSeconds,
+			options.dataBitrate
 		),
 		j1939: ids.some((s) => s.extended) ? scanJ1939(store) : null
 	};

@@ -1,16 +1,14 @@
 /**
- * J1939 helper pass over a capture: active trouble codes from DM1 (single frames and BAM
- * transfers, SAE J1939-73 / J1939-21) and every multi-packet broadcast message reassembled.
+ * J1939 helper pass over a capture: active trouble codes from DM1 (single frames and transport
+ * transfers, SAE J1939-73 / J1939-21) and every multi-packet message reassembled, broadcast (BAM)
+ * and connection mode (RTS/CTS) alike.
  */
+import { parseDm1, parseJ1939Id, PGN_DM1, type Dm1Lamps, type TroubleCode } from '../j1939';
 import {
 	createTransportReassembler,
-	parseDm1,
-	parseJ1939Id,
-	PGN_DM1,
-	type Dm1Lamps,
-	type TransportProblem,
-	type TroubleCode
-} from '../j1939';
+	type TransportMode,
+	type TransportProblem
+} from '../j1939-transport';
 import { FLAG_EXTENDED, type FrameStore } from './frame-store';
 
 export interface Dm1Message {
@@ -40,11 +38,15 @@ export interface J1939Scan {
 	/** Reassembled messages with their bytes (at most 1785 each, SAE J1939-21), so a view can show them. */
 	transportMessages: {
 		time: number;
+		mode: TransportMode;
 		pgn: number;
 		sourceAddress: number;
+		/** The responder of an RTS/CTS transfer; 0xFF (global) for BAM. */
+		destinationAddress: number;
 		length: number;
 		data: Uint8Array;
 	}[];
+	/** Transfers dropped, aborted, timed out or left incomplete (the first MAX_LISTED). */
 	transportProblems: TransportProblem[];
 }
 
@@ -94,7 +96,9 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 		}
 	};
 
+	let lastTime = -Infinity;
 	for (let i = 0; i < store.count; i++) {
+		if (store.time[i] > lastTime) lastTime = store.time[i];
 		if ((store.flags[i] & FLAG_EXTENDED) === 0) continue;
 		const id = store.id[i];
 		const time = store.time[i];
@@ -106,8 +110,10 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 			if (scan.transportMessages.length < MAX_LISTED) {
 				scan.transportMessages.push({
 					time: message.time,
+					mode: message.mode,
 					pgn: message.pgn,
 					sourceAddress: message.sourceAddress,
+					destinationAddress: message.destinationAddress,
 					length: message.data.length,
 					data: message.data
 				});
@@ -116,6 +122,8 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 				recordDm1(message.time, message.sourceAddress, message.data, true);
 		}
 	}
+	// Transfers still open when the capture ends are reported, not silently forgotten.
+	if (store.count) reassembler.finish(lastTime);
 	scan.troubleCodes = [...codes.values()];
 	return scan;
 }

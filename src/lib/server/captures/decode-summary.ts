@@ -5,6 +5,7 @@
  */
 import type { CaptureDecoding } from '../../can/capture/decode-capture';
 import type { Dm1Lamps } from '../../can/j1939';
+import type { TransportMode } from '../../can/j1939-transport';
 
 export interface ChannelSummary {
 	index: number;
@@ -64,7 +65,16 @@ export interface TroubleCodeSummary {
 
 export interface J1939Summary {
 	troubleCodes: TroubleCodeSummary[];
-	messages: { time: number; pgn: number; sourceAddress: number; length: number; dataHex: string }[];
+	/** Reassembled transport messages: BAM (destination 0xFF) and RTS/CTS (destination = responder). */
+	messages: {
+		time: number;
+		mode: TransportMode;
+		pgn: number;
+		sourceAddress: number;
+		destinationAddress: number;
+		length: number;
+		dataHex: string;
+	}[];
 }
 
 export interface DecodeSummary {
@@ -115,8 +125,10 @@ function summarizeJ1939(scan: NonNullable<CaptureDecoding['j1939']>): J1939Summa
 		troubleCodes: [...codes.values()],
 		messages: scan.transportMessages.map((m) => ({
 			time: m.time,
+			mode: m.mode,
 			pgn: m.pgn,
 			sourceAddress: m.sourceAddress,
+			destinationAddress: m.destinationAddress,
 			length: m.length,
 			dataHex: hexOf(m.data)
 		}))

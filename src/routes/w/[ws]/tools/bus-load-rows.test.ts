@@ -25,14 +25,16 @@ describe('busLoadRows', () => {
 	it('lists counted frames heaviest first with their hex IDs, and the rest apart with the reason', () => {
 		const { counted, uncounted } = busLoadRows(response);
 		expect(counted.map((r) => [r.name, r.idText, r.cycleMs])).toEqual([
+			['FdBlock', '0x300', 10],
 			['Fast', '0x18FEF100', 10],
 			['Slow', '0x100', 100]
 		]);
 		// ISO 11898-1 frame length without stuffing: 64 + 8n bits extended, plus 3 bits intermission.
-		expect(counted[0].nominalBitsPerSecond).toBeCloseTo(100 * (64 + 64 + 3), 9);
+		expect(counted[1].nominalBitsPerSecond).toBeCloseTo(100 * (64 + 64 + 3), 9);
+		// CAN FD, 64 bytes, base format (ISO 11898-1:2015): 569 bits + 7 fixed stuff bits + 3 intermission.
+		expect(counted[0].nominalBitsPerSecond).toBeCloseTo(100 * (569 + 7 + 3), 9);
 		expect(uncounted.map((r) => [r.name, r.reason])).toEqual([
-			['OnChange', expect.stringMatching(/no cycle time/)],
-			['FdBlock', expect.stringMatching(/CAN FD/)]
+			['OnChange', expect.stringMatching(/no cycle time/)]
 		]);
 	});
 });

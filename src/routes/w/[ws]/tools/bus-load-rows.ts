@@ -27,8 +27,7 @@ export interface UncountedFrameRow {
 }
 
 export const EXCLUSION_REASONS: Record<BusLoadExclusion, string> = {
-	noCycleTime: 'no cycle time (event-driven or unknown)',
-	canFd: 'CAN FD payload (its data phase runs at another bit rate)'
+	noCycleTime: 'no cycle time (event-driven or unknown)'
 };
 
 export function busLoadRows(response: BusLoadResponse): {
