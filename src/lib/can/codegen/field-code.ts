@@ -43,10 +43,12 @@ export function unpackExpression(layout: FieldLayout, type: IntType): string {
 		return `(${byte} << ${valueBit - low})`;
 	});
 	const coveredBits = 8 * layout.byteCount - layout.shift;
-	const joined = parts.join(' | ');
-	if (coveredBits > layout.length && layout.length < typeWidth(type))
-		return `(${type})((${joined}) & ${maskLiteral(bitMask(layout.length), type)})`;
-	return parts.length === 1 && layout.shift === 0 ? joined : `(${type})(${joined})`;
+	// Long fields put one byte per line, continuing the statement the caller writes at depth 1.
+	const joined = parts.length > 3 ? parts.join('\n\t\t| ') : parts.join(' | ');
+	const masked = coveredBits > layout.length && layout.length < typeWidth(type);
+	const inner = parts.length === 1 ? joined : `(${joined})`;
+	if (masked) return `(${type})(${inner} & ${maskLiteral(bitMask(layout.length), type)})`;
+	return parts.length === 1 && layout.shift === 0 ? joined : `(${type})${inner}`;
 }
 
 /**

@@ -111,6 +111,11 @@ function usableSignals(frame: Frame, f: number, notes: CodegenNote[]) {
 				s,
 				`"${signal.name}" is ${signal.valueType} but ${signal.length} bits long; left out of the generated code`
 			);
+		} else if (layout.lowByte < 0) {
+			note(
+				s,
+				`"${signal.name}" runs past byte 0 (big-endian bits continue in the byte before); left out of the generated code`
+			);
 		} else if (!fieldFits(layout, frame.length)) {
 			note(
 				s,
@@ -262,14 +267,12 @@ function describeFrame(frame: Frame): string {
 function describeSignal(s: SignalModel): string {
 	const { signal } = s;
 	const unit = signal.unit ? ` [${signal.unit}]` : '';
-	const value =
-		s.kind === 'float32' || s.kind === 'float64'
-			? s.kind
-			: `${s.rawType} raw × ${signal.scale} + ${signal.offset}`;
+	const scaling = `scale ${signal.scale}, offset ${signal.offset}`;
+	const value = s.kind === 'float32' || s.kind === 'float64' ? `${s.kind}, ${scaling}` : scaling;
 	const page = s.muxValue !== null ? `, page ${s.muxValue} only` : '';
 	const mux = signal.multiplexer && s.muxValue === null ? ', the multiplexer' : '';
 	return commentText(
-		`"${signal.name}"${unit}: bit ${signal.startBit}, ${signal.length} bits ${signal.byteOrder}-endian, ${value}${mux}${page}`
+		`"${signal.name}"${unit}: start bit ${signal.startBit}, ${signal.length} bit${signal.length === 1 ? '' : 's'} ${signal.byteOrder}-endian, ${value}${mux}${page}`
 	);
 }
 
