@@ -104,6 +104,24 @@ describe('cli codegen', () => {
 		}
 	);
 
+	it.skipIf(!HAS_GCC)(
+		'compiles the example of docs/codegen.md against the club racer map',
+		async () => {
+			const out = temporary();
+			expect((await cli('codegen', '--map', CLUB_MAP, '--out', out)).code).toBe(0);
+			const doc = readFileSync(join(ROOT, 'docs/codegen.md'), 'utf8');
+			const example = /## Example[\s\S]*?```c\n([\s\S]*?)```/.exec(doc)![1];
+			writeFileSync(join(out, 'example.c'), example);
+			const compiled = spawnSync(
+				'gcc',
+				['-std=c99', '-Wall', '-Wextra', '-Werror', '-pedantic', '-c', 'example.c'],
+				{ cwd: out }
+			);
+			expect(compiled.stderr.toString()).toBe('');
+			expect(compiled.status).toBe(0);
+		}
+	);
+
 	it('prints each renamed identifier as a note on stderr and in the summary', async () => {
 		const dir = temporary();
 		const mapFile = join(dir, 'names.json');
