@@ -145,8 +145,8 @@ describe('cli codegen', () => {
 		const { code, stdout, stderr } = await cli('codegen', '--map', mapFile, '--out', dir);
 		expect(code).toBe(0);
 		expect(stderr.trim().split('\n')).toEqual([
-			'note: frames[0].signals[0]: "int" is named s_int: int is a C or C++ keyword',
-			'note: frames[0].signals[1]: "Int" is named s_int_2: int is a C or C++ keyword, and s_int is already used by another name'
+			'note: frames[0].signals[0]: "int" is named s_int: int is a C or C++ keyword or standard macro',
+			'note: frames[0].signals[1]: "Int" is named s_int_2: int is a C or C++ keyword or standard macro, and s_int is already used by another name'
 		]);
 		expect(JSON.parse(stdout).notes).toHaveLength(2);
 		expect(readFileSync(join(dir, 'fw.h'), 'utf8')).toMatch(/double s_int;[\s\S]*double s_int_2;/);

@@ -56,8 +56,8 @@ describe('cName and preferredName', () => {
 		else expect(result.adjusted).toMatch(why);
 	});
 
-	it('knows C99, C23 and C++ keywords (ISO/IEC 9899:1999 6.4.1, C23 6.4.1, C++ [lex.key]) (from memory)', () => {
-		for (const word of ['int', 'restrict', 'inline', 'bool', 'nullptr', 'template', 'xor'])
+	it('knows C99, C23 and C++ keywords (ISO/IEC 9899:1999 6.4.1, C23 6.4.1, C++ [lex.key]) and the errno macro (C99 7.5) (from memory)', () => {
+		for (const word of ['int', 'restrict', 'inline', 'bool', 'nullptr', 'template', 'xor', 'errno'])
 			expect(isReservedWord(word)).toBe(true);
 		for (const word of ['speed', 'page', 'integer']) expect(isReservedWord(word)).toBe(false);
 	});

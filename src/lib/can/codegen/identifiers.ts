@@ -24,8 +24,10 @@ export function snakeCase(name: string): string {
 }
 
 /**
- * C99, C11/C23 and C++ keywords and alternative tokens (the header may be included from C++), which a
- * struct member may not be called. Only lower-case words: snake_case never produces anything else.
+ * C99, C11/C23 and C++ keywords and alternative tokens (the header may be included from C++), and the
+ * lower-case object-like macros of standard headers firmware may include before ours (`errno`,
+ * <complex.h>'s `complex`, <stdnoreturn.h>'s `noreturn`): a struct member may not be called any of them.
+ * Only lower-case words: snake_case never produces anything else.
  */
 const RESERVED_WORDS = new Set(
 	(
@@ -36,7 +38,7 @@ const RESERVED_WORDS = new Set(
 		'compl concept consteval constinit const_cast co_await co_return co_yield decltype delete ' +
 		'dynamic_cast explicit export friend mutable namespace new noexcept not not_eq operator or or_eq ' +
 		'private protected public reinterpret_cast requires static_cast template this throw try typeid ' +
-		'typename using virtual wchar_t xor xor_eq'
+		'typename using virtual wchar_t xor xor_eq errno complex imaginary noreturn math_errhandling'
 	).split(' ')
 );
 
@@ -134,7 +136,7 @@ export function preferredName(
 	if (member && /^[0-9]/.test(trimmed))
 		return { base: `s_${trimmed}`, adjusted: 'a C name cannot start with a digit' };
 	if (member && isReservedWord(trimmed))
-		return { base: `s_${trimmed}`, adjusted: `${trimmed} is a C or C++ keyword` };
+		return { base: `s_${trimmed}`, adjusted: `${trimmed} is a C or C++ keyword or standard macro` };
 	if (trimmed !== snake)
 		return {
 			base: trimmed,
