@@ -84,6 +84,16 @@ describe('generateC names', () => {
 			['mux', 'mux_page_2']
 		]);
 		expect(first.frames.map((f) => f.cName)).toEqual(['a', 'a_b', 'a_2', 'paged']);
+		// in map order, whichever step found them
+		expect(first.notes.map((n) => n.path)).toEqual([
+			'frames[0].signals[0]',
+			'frames[0].signals[1]',
+			'frames[0].signals[2]',
+			'frames[0].signals[4]',
+			'frames[1].signals[0]',
+			'frames[2]',
+			'frames[3].signals[1]'
+		]);
 		const notes = Object.fromEntries(first.notes.map((n) => [n.path, n.message]));
 		expect(notes).toEqual({
 			'frames[0].signals[0]': expect.stringMatching(

@@ -190,7 +190,7 @@ function buildModel(map: CanMap, prefix: string, notes: CodegenNote[]): FrameMod
 	const usable = map.frames.map((frame, f) => usableSignals(frame, f, notes));
 	const muxAts = map.frames.map((frame) => multiplexerIndex(frame));
 	const hasPage = usable.map((list, f) => list.some((u) => u.index === muxAts[f]));
-	// A frame's struct members share one namespace, and `page` is taken where a multiplexer exists.
+	// A frame's struct members share one namespace, and `mux_page` is taken where a multiplexer exists.
 	hasPage.forEach((yes, f) => {
 		if (yes) taken.add(`member ${f} ${PAGE_MEMBER}`);
 	});
@@ -264,13 +264,13 @@ function describeFrame(frame: Frame): string {
 	return commentText(parts.join(', '));
 }
 
-function describeSignal(s: SignalModel): string {
+function describeSignal(s: SignalModel, isMux: boolean): string {
 	const { signal } = s;
 	const unit = signal.unit ? ` [${signal.unit}]` : '';
 	const scaling = `scale ${signal.scale}, offset ${signal.offset}`;
 	const value = s.kind === 'float32' || s.kind === 'float64' ? `${s.kind}, ${scaling}` : scaling;
 	const page = s.muxValue !== null ? `, page ${s.muxValue} only` : '';
-	const mux = signal.multiplexer && s.muxValue === null ? ', the multiplexer' : '';
+	const mux = isMux ? ', the multiplexer' : '';
 	return commentText(
 		`"${signal.name}"${unit}: start bit ${signal.startBit}, ${signal.length} bit${signal.length === 1 ? '' : 's'} ${signal.byteOrder}-endian, ${value}${mux}${page}`
 	);
@@ -491,6 +491,12 @@ export function generateC(map: CanMap, options: CodegenOptions): CodegenResult {
 	const P = prefix.toUpperCase();
 	const notes: CodegenNote[] = [];
 	const model = buildModel(map, prefix, notes);
+	// Notes in map order (frame, then its signals), whichever step found them.
+	const position = (path: string) => [...path.matchAll(/\d+/g)].map(Number);
+	notes.sort((a, b) => {
+		const [pa, pb] = [position(a.path), position(b.path)];
+		return (pa[0] ?? -1) - (pb[0] ?? -1) || (pa[1] ?? -1) - (pb[1] ?? -1);
+	});
 	const all = model.flatMap((m) => m.signals);
 	const uses = {
 		j1939: model.some((m) => m.j1939),
@@ -534,7 +540,8 @@ export function generateC(map: CanMap, options: CodegenOptions): CodegenResult {
 			members.push(
 				`${m.mux.rawType} ${PAGE_MEMBER}; /* multiplexer raw value: the page decode filled */`
 			);
-		for (const s of m.signals) members.push(`double ${s.member}; /* ${describeSignal(s)} */`);
+		for (const s of m.signals)
+			members.push(`double ${s.member}; /* ${describeSignal(s, s === m.mux)} */`);
 		if (members.length === 0) members.push('char no_signals; /* C99 allows no empty struct */');
 		header.push('typedef struct {', ...indent(members), `} ${m.fn}_t;`);
 		header.push(
