@@ -30,6 +30,10 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 	lint: {
 		summary: 'lint --map MAP.json                  problems in a map (exit 1 on errors)',
 		load: () => import('./commands/lint')
+	},
+	codegen: {
+		summary: 'codegen --map MAP.json --out DIR [--prefix fw]   C99 code for firmware',
+		load: () => import('./commands/codegen')
 	}
 };
 
