@@ -30,6 +30,14 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 	lint: {
 		summary: 'lint --map MAP.json                  problems in a map (exit 1 on errors)',
 		load: () => import('./commands/lint')
+	},
+	link: {
+		summary: 'link --map MAP.json --profile PROFILE.json   link a receiver profile to a map',
+		load: () => import('./commands/link')
+	},
+	'receive-set': {
+		summary: 'receive-set --map MAP.json --profile PROFILE.json   receive set of a linked profile',
+		load: () => import('./commands/receive-set')
 	}
 };
 

@@ -71,7 +71,7 @@ export const receiveSetSchema = z.strictObject({
 		.min(1)
 		.nullable()
 		.describe('the map revision linked to; null for a file'),
-	bitrate: z.number().int().describe('bus bit rate in bit/s'),
+	bitrate: z.number().int().min(1000).max(8_000_000).describe('bus bit rate in bit/s'),
 	channels: z.array(receiveChannelSchema),
 	unlinked: z
 		.array(z.strictObject({ name: z.string(), required: z.boolean() }))
