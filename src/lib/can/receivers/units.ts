@@ -10,13 +10,16 @@ import { QUANTITY_LABELS, type Quantity } from './quantities';
 /** Only the unit machinery of mathjs, so bundles stay small. */
 const math = create({ unitDependencies, createUnitDependencies });
 
+// Conventional millimetre of mercury: 1 mm of mercury of density 13 595.1 kg/m³ under standard
+// gravity 9.80665 m/s² (from memory). mathjs rounds it to 133.322 Pa, off in the 7th digit.
+const MM_HG_PA = 0.001 * 13595.1 * 9.80665;
+math.createUnit({ mmHg: `${MM_HG_PA} Pa` }, { override: true });
+
 // Units mathjs lacks, defined from their textbook definitions (not from the figures the tests check).
 math.createUnit({
 	mph: '1 mi/h',
 	knot: '1852 m/h', // international nautical mile per hour
-	// Conventional inch of mercury: 25.4 mm of mercury of density 13 595.1 kg/m³ under standard
-	// gravity 9.80665 m/s² (from memory).
-	inHg: `${0.0254 * 13595.1 * 9.80665} Pa`,
+	inHg: '25.4 mmHg', // conventional inch of mercury
 	rpm: '360 deg/min',
 	rps: '360 deg/s',
 	gn: '9.80665 m/s^2' // standard acceleration of gravity (CGPM 1901)
