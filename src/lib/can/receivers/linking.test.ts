@@ -529,6 +529,23 @@ describe('linkProfile', () => {
 		});
 	});
 
+	it('a unitless signal takes its quantity from its name, by hand as automatically', () => {
+		const unitless = mapOf([['Lambda', '']]);
+		const wanted = {
+			name: 'Mix',
+			quantity: 'air-fuel-ratio',
+			unit: 'AFR',
+			fuel: 'gasoline'
+		} as const;
+		const report = linkProfile(
+			{ ...profileOf(wanted), manualLinks: [{ wanted: 'Mix', frame: 'F0', signal: 'Lambda' }] },
+			unitless
+		);
+		// λ → AFR: × 14.7 for gasoline (common practice).
+		expect(report.links[0].link.conversion).toMatchObject({ kind: 'mixture', scale: 14.7 });
+		expect(linkProfile(profileOf({ ...wanted, name: 'AFR' }), unitless).links).toHaveLength(1);
+	});
+
 	it('a hand-made link to a signal the revision no longer has is a clear problem, not a guess', () => {
 		const report = linkProfile(
 			{

@@ -255,7 +255,8 @@ export function findMapSignal(
 export function resolveManualLink(
 	wanted: WantedChannel,
 	map: CanMap,
-	ref: { frame: string; signal: string }
+	ref: { frame: string; signal: string },
+	matcher: NameMatcher = createNameMatcher()
 ):
 	| { ok: true; link: Link; reason: string }
 	| { ok: false; field: 'frame' | 'signal' | 'wanted'; message: string } {
@@ -274,7 +275,7 @@ export function resolveManualLink(
 					message: `map "${map.name}" has no frame "${ref.frame}" (removed or renamed?), so "${wanted.name}" cannot link to ${channelText(ref.frame, ref.signal)}`
 				};
 	}
-	const converted = conversionFor(found.signal, wanted, undefined);
+	const converted = conversionFor(found.signal, wanted, matcher.describe(found.signal.name));
 	if (!converted.ok)
 		return {
 			ok: false,
@@ -335,7 +336,7 @@ export function linkProfile(
 			});
 			return;
 		}
-		const resolved = resolveManualLink(wanted, map, ref);
+		const resolved = resolveManualLink(wanted, map, ref, matcher);
 		if (!resolved.ok) {
 			// A broken hand-made link is reported, never quietly replaced by an automatic guess.
 			problems.push({ wanted: wanted.name, path: path(resolved.field), message: resolved.message });
