@@ -70,3 +70,7 @@ export const canIdArgument = z
 export const mapPath = z
 	.string({ error: '--map MAP.json is required' })
 	.min(1, '--map needs a file name');
+
+export const profilePath = z
+	.string({ error: '--profile PROFILE.json is required' })
+	.min(1, '--profile needs a file name');

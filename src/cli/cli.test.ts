@@ -11,6 +11,8 @@ const CLUB_MAP = 'fixtures/club-racer-ecu.map.json';
 const CLUB_CSV = 'fixtures/club-racer-session.csv';
 const GENSET_MAP = 'fixtures/genset-j1939.map.json';
 const GENSET_CSV = 'fixtures/genset-idle.csv';
+const DASH_PROFILE = 'fixtures/dash-display.profile.json';
+const GENSET_PROFILE = 'fixtures/genset-panel.profile.json';
 
 function cli(...args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
 	return new Promise((resolve) => {
@@ -294,6 +296,159 @@ describe('cli calculators', () => {
 		expect(problem).toMatchObject({ severity: 'error', code: 'format' });
 		expect(problem.message).toMatch(/line 3/);
 	});
+});
+
+describe('cli receiver profiles', () => {
+	it('link: JSON report with score, reason, conversion and composed scaling; exit 0', async () => {
+		const { code, stdout, stderr } = await cli(
+			'link',
+			'--map',
+			CLUB_MAP,
+			'--profile',
+			DASH_PROFILE
+		);
+		expect(stderr).toBe('');
+		expect(code).toBe(0);
+		const report = JSON.parse(stdout);
+		expect(report.profile).toBe('Club dash display');
+		const oil = report.links.find((l: { wanted: string }) => l.wanted === 'Oil pressure');
+		expect(oil).toMatchObject({
+			frame: 'Pressures',
+			id: '0x5F2',
+			signal: 'OilPressure',
+			manual: false,
+			conversion: { kind: 'units', from: 'kPa', to: 'bar', text: 'kPa → bar: × 0.01' },
+			composed: { form: 'linear', offset: 0 }
+		});
+		// 0.1 kPa per bit (the map) and 1 bar = 100 kPa (NIST SP 811 B.8).
+		expect(oil.composed.scale).toBeCloseTo(0.001, 15);
+		expect(oil.score).toBeGreaterThanOrEqual(0.6);
+		expect(oil.reason).toMatch(/oil pressure/);
+		expect(report.unlinked).toEqual([
+			expect.objectContaining({ wanted: 'Fuel level', required: false, candidates: [] })
+		]);
+	});
+
+	it('link exits 1 naming a required channel that stays unlinked, and still prints the report', async () => {
+		const dir = mkdtempSync(join(tmpdir(), 'fw-link-'));
+		const profile = join(dir, 'p.json');
+		const document = JSON.parse(readFileSync(join(ROOT, GENSET_PROFILE), 'utf8'));
+		document.wanted.find((w: { name: string }) => w.name === 'Fuel level').required = true;
+		writeFileSync(profile, JSON.stringify(document));
+		const { code, stdout, stderr } = await cli('link', '--map', GENSET_MAP, '--profile', profile);
+		expect(code).toBe(1);
+		expect(stderr).toBe('error: required channel left unlinked: Fuel level\n');
+		expect(JSON.parse(stdout).unlinked.map((u: { wanted: string }) => u.wanted)).toEqual([
+			'Fuel level',
+			'Engine hours'
+		]);
+	});
+
+	it('link --synonyms adds a workspace synonym; a bad synonym file is refused', async () => {
+		const dir = mkdtempSync(join(tmpdir(), 'fw-syn-'));
+		// Invented: this workspace's panels call coolant temperature "wet temp".
+		const profile = join(dir, 'p.json');
+		writeFileSync(
+			profile,
+			JSON.stringify({
+				format: 'framewright-profile@1',
+				name: 'Panel',
+				kind: 'display',
+				wanted: [{ name: 'Wet temp', quantity: 'temperature', unit: '°C' }]
+			})
+		);
+		const synonyms = join(dir, 's.json');
+		writeFileSync(
+			synonyms,
+			JSON.stringify({ concepts: [{ id: 'coolant-temperature', names: ['wet temp'] }] })
+		);
+		const plain = JSON.parse((await cli('link', '--map', GENSET_MAP, '--profile', profile)).stdout);
+		expect(plain.links).toEqual([]);
+		const extended = await cli(
+			'link',
+			'--map',
+			GENSET_MAP,
+			'--profile',
+			profile,
+			'--synonyms',
+			synonyms
+		);
+		expect(extended.code).toBe(0);
+		expect(JSON.parse(extended.stdout).links.map((l: { signal: string }) => l.signal)).toEqual([
+			'CoolantTemp'
+		]);
+		const bad = join(dir, 'bad.json');
+		writeFileSync(bad, JSON.stringify({ concepts: [{ id: 'Not An Id', names: ['x'] }] }));
+		const refused = await cli('link', '--map', GENSET_MAP, '--profile', profile, '--synonyms', bad);
+		expect(refused.code).toBe(1);
+		expect(refused.stderr).toMatch(
+			/is not a valid synonym table: concepts\[0\]\.id: a concept id is lower-case words/
+		);
+	});
+
+	it('receive-set: framewright-receive@1, J1939 frames matched by PGN, °C → °F composed', async () => {
+		const { code, stdout, stderr } = await cli(
+			'receive-set',
+			'--map',
+			GENSET_MAP,
+			'--profile',
+			GENSET_PROFILE
+		);
+		expect(stderr).toBe('');
+		expect(code).toBe(0);
+		const set = JSON.parse(stdout);
+		expect(set).toMatchObject({ format: 'framewright-receive@1', bitrate: 250000 });
+		const coolant = set.channels.find((c: { name: string }) => c.name === 'Coolant temperature');
+		// SAE J1939-71 coolant temperature: 1 °C/bit, −40 °C offset; NIST SP 811: t/°F = 1.8 t/°C + 32.
+		expect(coolant).toMatchObject({
+			id: '0x18FEEE00',
+			extended: true,
+			j1939: true,
+			startBit: 0,
+			length: 8,
+			form: 'linear',
+			unit: '°F'
+		});
+		expect(coolant.scale).toBeCloseTo(1.8, 12);
+		expect(coolant.offset).toBeCloseTo(-40 * 1.8 + 32, 12);
+	});
+
+	// Not concurrent: each case starts a Node process, and the shared table below already runs many at once.
+	it.each([
+		[
+			'link without --profile',
+			['link', '--map', CLUB_MAP],
+			2,
+			/--profile PROFILE.json is required/
+		],
+		[
+			'link a map given as the profile',
+			['link', '--map', CLUB_MAP, '--profile', CLUB_MAP],
+			1,
+			/is not a valid receiver profile: format: must be "framewright-profile@1"/
+		],
+		[
+			'link a hand-made link the map does not have',
+			['link', '--map', GENSET_MAP, '--profile', DASH_PROFILE],
+			1,
+			/manualLinks\[0\]\.frame: map "Generator set engine \(J1939\)" has no frame "Pressures"/
+		],
+		[
+			'receive-set missing profile file',
+			['receive-set', '--map', CLUB_MAP, '--profile', 'nope.json'],
+			1,
+			/nope.json: no such file/
+		]
+	] as [string, string[], number, RegExp][])(
+		'bad input: %s',
+		async (_, args, exitCode, message) => {
+			const { code, stdout, stderr } = await cli(...args);
+			expect(code).toBe(exitCode);
+			expect(stderr).toMatch(message);
+			expect(stderr.trim().split('\n')).toHaveLength(1); // one-line message
+			if (exitCode === 2) expect(stdout).toBe('');
+		}
+	);
 });
 
 describe('cli bad input', () => {

@@ -34,6 +34,14 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 	codegen: {
 		summary: 'codegen --map MAP.json --out DIR [--prefix fw]   C99 code for firmware',
 		load: () => import('./commands/codegen')
+	},
+	link: {
+		summary: 'link --map MAP.json --profile PROFILE.json   link a receiver profile to a map',
+		load: () => import('./commands/link')
+	},
+	'receive-set': {
+		summary: 'receive-set --map MAP.json --profile PROFILE.json   receive set of a linked profile',
+		load: () => import('./commands/receive-set')
 	}
 };
 

@@ -1,8 +1,8 @@
 /** Node-side file access for the CLI: maps are read whole, captures are streamed. */
 import { createReadStream } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
-import { parseMap } from '../lib/can/map-json';
 import type { CanMap } from '../lib/can/map';
+import { parseMap, type MapProblem } from '../lib/can/map-json';
 import { InputError } from './errors';
 
 function describeFsError(path: string, error: unknown): string {
@@ -13,22 +13,34 @@ function describeFsError(path: string, error: unknown): string {
 	return `${path}: ${(error as Error).message}`;
 }
 
-export async function readMapFile(path: string): Promise<CanMap> {
+/** Reads and validates a JSON document; a bad one is one line naming its first problems. */
+export async function readDocument<T>(
+	path: string,
+	what: string,
+	parse: (text: string) => { ok: true; value: T } | { ok: false; problems: MapProblem[] }
+): Promise<T> {
 	let text: string;
 	try {
 		text = await readFile(path, 'utf8');
 	} catch (error) {
 		throw new InputError(describeFsError(path, error));
 	}
-	const result = parseMap(text);
+	const result = parse(text);
 	if (!result.ok) {
 		const shown = result.problems
 			.slice(0, 3)
 			.map((p) => (p.path ? `${p.path}: ${p.message}` : p.message));
 		const more = result.problems.length > 3 ? ` (and ${result.problems.length - 3} more)` : '';
-		throw new InputError(`${path} is not a valid map: ${shown.join('; ')}${more}`);
+		throw new InputError(`${path} is not a valid ${what}: ${shown.join('; ')}${more}`);
 	}
-	return result.map;
+	return result.value;
+}
+
+export function readMapFile(path: string): Promise<CanMap> {
+	return readDocument(path, 'map', (text) => {
+		const result = parseMap(text);
+		return result.ok ? { ok: true, value: result.map } : result;
+	});
 }
 
 /** Opens a capture as an async iterable of byte chunks (a Node file stream is one). */

@@ -30,7 +30,7 @@ export function formatJsonPath(path: readonly PropertyKey[]): string {
 }
 
 /** zod's default wording, made to read as advice about one field. */
-function problemMessage(issue: z.core.$ZodIssue, input: unknown): string {
+function problemMessage(issue: z.core.$ZodIssue, input: unknown, format: string): string {
 	if (issue.code === 'invalid_type') {
 		const present = valueAt(input, issue.path) !== undefined;
 		return present
@@ -41,7 +41,7 @@ function problemMessage(issue: z.core.$ZodIssue, input: unknown): string {
 		return `unknown field${issue.keys.length > 1 ? 's' : ''} ${issue.keys.map((k) => `"${k}"`).join(', ')}`;
 	}
 	if (issue.code === 'invalid_value' && issue.path.length === 1 && issue.path[0] === 'format') {
-		return `must be "${MAP_FORMAT}" (this is not a Framewright map, or a newer format version)`;
+		return `must be "${format}" (this is not a Framewright ${format.replace(/^framewright-|@\d+$/g, '')} file, or a newer format version)`;
 	}
 	return issue.message.replace(/^Invalid input: /, '');
 }
@@ -70,6 +70,21 @@ function valueAt(input: unknown, path: readonly PropertyKey[]): unknown {
 
 /** Parse JSON text or an already-parsed value into a validated map, or list every problem found. */
 export function parseMap(input: string | unknown): ParseMapResult {
+	const result = parseJsonDocument(input, canMapSchema, MAP_FORMAT);
+	return result.ok ? { ok: true, map: result.value } : result;
+}
+
+export type ParseDocumentResult<T> = { ok: true; value: T } | { ok: false; problems: MapProblem[] };
+
+/**
+ * Any Framewright JSON document (`format` tag + zod schema): JSON syntax errors with line and
+ * column, then every schema problem by JSON path, worded as advice.
+ */
+export function parseJsonDocument<S extends z.ZodType>(
+	input: string | unknown,
+	schema: S,
+	format: string
+): ParseDocumentResult<z.output<S>> {
 	let value: unknown = input;
 	if (typeof input === 'string') {
 		const text = input.replace(/^\uFEFF/, ''); // editors on some systems prepend a byte order mark
@@ -87,13 +102,13 @@ export function parseMap(input: string | unknown): ParseMapResult {
 			};
 		}
 	}
-	const parsed = canMapSchema.safeParse(value);
-	if (parsed.success) return { ok: true, map: parsed.data };
+	const parsed = schema.safeParse(value);
+	if (parsed.success) return { ok: true, value: parsed.data };
 	return {
 		ok: false,
 		problems: parsed.error.issues.map((issue) => ({
 			path: formatJsonPath(issue.path),
-			message: problemMessage(issue, value)
+			message: problemMessage(issue, value, format)
 		}))
 	};
 }
