@@ -17,8 +17,9 @@ export const COUNTER_MIN_SHARE = 0.8;
 export const LSB_MIN_FLIP_RATE = 0.75;
 /**
  * A bit joins the counter only if the frame pairs it breaks (pairs that followed the rule without
- * it and do not with it) are at most this share of its own flips: a counter bit flips exactly on
- * the carries, an unrelated bit mostly elsewhere.
+ * it and do not with it) are at most this share of the rarer of the pairs with and without a carry
+ * out of the bits below: a counter bit flips as the carry and the step dictate, so it breaks none;
+ * an unrelated bit (even one that toggles every frame) breaks at least the rare events it ignores.
  */
 export const EXTENSION_BREAK_RATIO = 0.1;
 const MAX_COUNTER_BITS = 32;
@@ -66,8 +67,10 @@ function grow(
 		const wider = modulus * 2;
 		let same = 0; // pairs still following with the same step
 		let carried = 0; // … with the step's new top bit set
+		let carries = 0; // following pairs whose addition carries out of the bits so far
 		for (let k = 0; k < pairs; k++) {
 			if (!follows[k]) continue;
+			if (values[k] + step >= modulus) carries++;
 			let d = values[k + 1] + column[k + 1] * modulus - values[k] - column[k] * modulus;
 			if (d < 0) d += wider;
 			if (d === step) same++;
@@ -76,7 +79,10 @@ function grow(
 		const newStep = same >= carried ? step : step + modulus;
 		const newFollowers = Math.max(same, carried);
 		const broken = followers - newFollowers;
-		if (broken > EXTENSION_BREAK_RATIO * stats.flips[q]) break;
+		// The new bit must flip on the carries (step bit 0) or on the pairs without one (step bit 1);
+		// the rarer of the two is what an unrelated bit gets wrong.
+		const events = Math.min(carries, followers - carries);
+		if (events === 0 || broken > EXTENSION_BREAK_RATIO * events) break;
 		if (newFollowers < COUNTER_MIN_SHARE * pairs) break;
 		for (let k = 0; k < count; k++) values[k] += column[k] * modulus;
 		for (let k = 0; k < pairs; k++) {

@@ -22,7 +22,7 @@ import type { FieldProposal, IdProposals, ValueProposal } from './proposal';
 import { describeValue, findValues } from './values';
 
 /** Fewer analysed frames than this give no proposals. */
-export const MIN_FRAMES = 8;
+export const MIN_FRAMES = 20;
 /** Constants per multiplexor page need at least this many frames of the page. */
 export const MIN_PAGE_FRAMES_FOR_CONSTANTS = 24;
 
