@@ -30,6 +30,11 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 	lint: {
 		summary: 'lint --map MAP.json                  problems in a map (exit 1 on errors)',
 		load: () => import('./commands/lint')
+	},
+	fields: {
+		summary:
+			'fields CAPTURE.csv [--id ID]         proposed fields of each ID (counters, checksums…)',
+		load: () => import('./commands/fields')
 	}
 };
 

@@ -7,7 +7,10 @@
  * w ≤ SWITCH_RATIO · g. Candidates are ranked on a run of consecutive frames by Σ (g − w) over
  * switched bits; the best is checked on every frame.
  */
+import type { ByteOrder } from '../map';
 import { spreadHistogram, type BitStatistics, type FrameSet } from './bit-statistics';
+import { link } from './values';
+import { bitAbove, bitBelow } from './chain';
 import type { CounterProposal, MuxProposal } from './proposal';
 import { percent, round4 } from './statistics';
 
@@ -103,17 +106,37 @@ interface Score {
 	reduction: number; // mean 1 − w/g over switched bits
 }
 
+/**
+ * A selector must not be part of a value. The sign-extension bits above a small signed value, for
+ * one, all follow its sign and so look "switched" by any of them; but they flip together with the
+ * bits below them as carries do (the link test of the value detector), which a selector does not.
+ */
+function partOfValue(stats: BitStatistics, s: Selector, other: Uint8Array, L: number): boolean {
+	const end = s.startBit + s.length - 1;
+	const pairs: [number, number, ByteOrder][] = [
+		[bitBelow(s.startBit, 'little', L), s.startBit, 'little'],
+		[bitBelow(s.startBit, 'big', L), s.startBit, 'big'],
+		[end, bitAbove(end, 'little', L), 'little'],
+		[end, bitAbove(end, 'big', L), 'big']
+	];
+	return pairs.some(([lower, upper, order]) => {
+		const outside = lower === end ? upper : lower;
+		return outside >= 0 && other[outside] === 1 && link(stats, order, lower, upper) !== null;
+	});
+}
+
 function score(
 	s: Selector,
+	range: { from: number; to: number },
 	global: Uint32Array,
-	globalPairs: number,
 	pf: PageFlips,
 	other: Uint8Array
 ): Score {
 	const switched: number[] = [];
+	const globalPairs = range.to - range.from - 1;
 	let total = 0;
 	let reduction = 0;
-	if (pf.withinPairs === 0 || globalPairs === 0) return { score: 0, switched, reduction };
+	if (pf.withinPairs === 0 || globalPairs <= 0) return { score: 0, switched, reduction };
 	for (let b = 0; b < other.length; b++) {
 		if (!other[b] || (b >= s.startBit && b < s.startBit + s.length)) continue;
 		if (global[b] < MIN_SWITCHED_FLIPS) continue;
@@ -178,6 +201,7 @@ export function findMux(
 				const s = { startBit: byte * 8 + shift, length };
 				if (!selectable[s.startBit + length - 1]) break; // longer runs would include it too
 				if (overlapsCounter(s) && !counterOf(s)) continue;
+				if (partOfValue(stats, s, other, L)) continue;
 				values.fill(0);
 				let distinct = 0;
 				for (let k = quick.from; k < quick.to && distinct <= MUX_MAX_PAGES; k++) {
@@ -199,7 +223,7 @@ export function findMux(
 		}
 		const ranked: { s: Selector; score: Score }[] = [];
 		for (const s of list) {
-			const sc = score(s, global, to - from - 1, pageFlips(set, s, from, to, mask), other);
+			const sc = score(s, { from, to }, global, pageFlips(set, s, from, to, mask), other);
 			if (sc.switched.length >= minSwitched) ranked.push({ s, score: sc });
 		}
 		return ranked.sort((a, b) => b.score.score - a.score.score);
@@ -234,7 +258,7 @@ export function findMux(
 	}
 	if (pageCount < 2 || pageCount > MUX_MAX_PAGES || rare > RARE_PAGE_SHARE * count) return null;
 	const kept = pageFlips(set, chosen, 0, count, everyBit, keep);
-	const final = score(chosen, stats.flips, stats.pairs, kept, other);
+	const final = score(chosen, { from: 0, to: count }, stats.flips, kept, other);
 	if (final.switched.length < MUX_MIN_SWITCHED_BITS) return null;
 
 	const pages = new Map<number, Uint32Array>();

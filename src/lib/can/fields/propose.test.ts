@@ -253,6 +253,33 @@ describe('measured values', () => {
 	);
 });
 
+describe('signed values near zero', () => {
+	it('reads sign-extension bits as the top of a signed value, not as a multiplexor', () => {
+		// A big-endian signed 16-bit value within ±60, crossing zero in about 1 frame in 8: its top 9 or 10 bits all
+		// copy the sign, so any of them seems to switch the others.
+		const fields: PlantedField[] = [
+			{
+				kind: 'value',
+				startBit: 8,
+				length: 16,
+				byteOrder: 'big',
+				signed: true,
+				speed: 25,
+				accel: 25,
+				range: [-60, 60]
+			},
+			noise(16, 16)
+		];
+		const result = propose({ seed: 8, frames: 5000, payloadLength: 4, period: 0.01, fields });
+		expect(
+			expectProposal(result, 'value', { startBit: 8, length: 16, byteOrder: 'big' })
+		).toMatchObject({
+			signed: true
+		});
+		expect(result.fields.filter((f) => f.kind === 'mux')).toEqual([]);
+	});
+});
+
 describe('multiplexor', () => {
 	const fields: PlantedField[] = [
 		{

@@ -43,7 +43,12 @@ interface Candidate {
 }
 
 /** Normalised lift of the link lower → upper (how much more often they flip together), or null. */
-function link(stats: BitStatistics, order: ByteOrder, lower: number, upper: number): number | null {
+export function link(
+	stats: BitStatistics,
+	order: ByteOrder,
+	lower: number,
+	upper: number
+): number | null {
 	const pairs = stats.pairs;
 	const both = (order === 'little' ? stats.bothLittle : stats.bothBig)[lower];
 	const k = stats.flips[upper];

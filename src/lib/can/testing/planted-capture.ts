@@ -27,6 +27,8 @@ export type PlantedField =
 			signed: boolean;
 			speed: number;
 			accel: number;
+			/** Raw range to stay in; default the whole range of the field. */
+			range?: [number, number];
 	  }
 	/**
 	 * Checksum byte over the other payload bytes in order (bytes 0 … L−1 without this one), with an
@@ -106,8 +108,10 @@ function fieldSource(field: PlantedField, rand: ReturnType<typeof seededRandom>)
 				return raw;
 			};
 		case 'value': {
-			const lo = field.signed ? -(2 ** (field.length - 1)) : 0;
-			const hi = field.signed ? 2 ** (field.length - 1) - 1 : 2 ** field.length - 1;
+			const [lo, hi] = field.range ?? [
+				field.signed ? -(2 ** (field.length - 1)) : 0,
+				field.signed ? 2 ** (field.length - 1) - 1 : 2 ** field.length - 1
+			];
 			let x = lo + (hi - lo) * (0.3 + 0.4 * rand.next());
 			let rate = 0;
 			return () => {
