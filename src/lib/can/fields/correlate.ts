@@ -2,7 +2,8 @@
  * Which field of an unknown ID follows a known channel? Each candidate field is read from its
  * frames, the channel is interpolated linearly to those frame times (only inside the channel's
  * span and across gaps no longer than `maxGap`), and the pairs are scored by Pearson's r and
- * Spearman's ρ (Pearson of the ranks, ties sharing their mean rank). A least-squares line
+ * Spearman's ρ (Pearson of the ranks, ties sharing their mean rank; on at most SPEARMAN_MAX_PAIRS
+ * pairs spread evenly over the capture). A least-squares line
  * channel ≈ raw × scale + offset proposes the signal's scaling; the scatter plot gets at most
  * `maxPoints` pairs, evenly spread over time.
  */
@@ -121,20 +122,53 @@ function pearson(x: Float64Array, y: Float64Array, n: number) {
 /** Ranks 1…n, tied values sharing the mean of their ranks. */
 function ranks(x: Float64Array, n: number): Float64Array {
 	const sorted = x.slice(0, n).sort();
+	// Distinct values in order, each with the mean rank of its run of ties.
+	const distinct = new Float64Array(n);
+	const meanRank = new Float64Array(n);
+	let m = 0;
+	for (let i = 0; i < n;) {
+		let j = i;
+		while (j + 1 < n && sorted[j + 1] === sorted[i]) j++;
+		distinct[m] = sorted[i];
+		meanRank[m++] = (i + j) / 2 + 1;
+		i = j + 1;
+	}
 	const out = new Float64Array(n);
 	for (let i = 0; i < n; i++) {
-		const first = lowerBound(sorted, x[i]);
-		const last = upperBound(sorted, x[i]) - 1;
-		out[i] = (first + last) / 2 + 1;
+		let lo = 0;
+		let hi = m - 1;
+		while (lo < hi) {
+			const mid = (lo + hi) >>> 1;
+			if (distinct[mid] < x[i]) lo = mid + 1;
+			else hi = mid;
+		}
+		out[i] = meanRank[lo];
 	}
 	return out;
 }
 
+/** Spearman's ρ is computed on at most this many pairs, evenly spread (ranking needs a sort). */
+export const SPEARMAN_MAX_PAIRS = 4096;
+
+/** The channel at every frame time of an ID (NaN where it has no value). */
+function channelAtFrames(channel: ChannelSamples, frames: IdFrames, maxGap: number): Float64Array {
+	const out = new Float64Array(frames.count);
+	for (let i = 0; i < frames.count; i++) out[i] = interpolate(channel, frames.time[i], maxGap);
+	return out;
+}
+
+/** `count` of the first `n` items, evenly spread (stride n / count). */
+function thin(x: Float64Array, n: number, count: number): Float64Array {
+	const out = new Float64Array(count);
+	const stride = n / count;
+	for (let s = 0; s < count; s++) out[s] = x[Math.floor(s * stride)];
+	return out;
+}
+
 function correlateOne(
-	channel: ChannelSamples,
+	channelAt: Float64Array,
 	field: CandidateField,
 	frames: IdFrames,
-	maxGap: number,
 	maxPoints: number
 ): FieldCorrelation {
 	const layout = fieldLayout(field.startBit, field.length, field.byteOrder);
@@ -146,25 +180,18 @@ function correlateOne(
 	let n = 0;
 	for (let i = 0; i < frames.count; i++) {
 		const base = i * frames.stride;
-		if (!fieldFits(layout, frames.length[i])) continue;
+		const c = channelAt[i];
+		if (c !== c || !fieldFits(layout, frames.length[i])) continue;
 		if (pageLayout) {
 			if (!fieldFits(pageLayout, frames.length[i])) continue;
 			if (readIntegerNumber(frames.data, base, pageLayout, false) !== field.page!.value) continue;
 		}
-		const c = interpolate(channel, frames.time[i], maxGap);
-		if (c !== c) continue;
 		raw[n] = readIntegerNumber(frames.data, base, layout, field.signed);
 		ch[n] = c;
 		n++;
 	}
-	const stride = Math.max(1, n / maxPoints);
 	const points = Math.min(n, maxPoints);
-	const scatter = { raw: new Float64Array(points), channel: new Float64Array(points) };
-	for (let s = 0; s < points; s++) {
-		const i = Math.floor(s * stride);
-		scatter.raw[s] = raw[i];
-		scatter.channel[s] = ch[i];
-	}
+	const scatter = { raw: thin(raw, n, points), channel: thin(ch, n, points) };
 	const none = { pearson: null, spearman: null, scale: null, offset: null, residual: null };
 	if (n < 3) return { field, samples: n, ...none, scatter };
 	const p = pearson(raw, ch, n);
@@ -173,7 +200,8 @@ function correlateOne(
 	const offset = p.my - scale * p.mx;
 	// Residual sum of squares of the fitted line: Syy − Sxy² / Sxx.
 	const residual = Math.sqrt(Math.max(0, p.syy - (p.sxy * p.sxy) / p.sxx) / n);
-	const spearman = pearson(ranks(raw, n), ranks(ch, n), n).r;
+	const m = Math.min(n, SPEARMAN_MAX_PAIRS);
+	const spearman = pearson(ranks(thin(raw, n, m), m), ranks(thin(ch, n, m), m), m).r;
 	return { field, samples: n, pearson: p.r, spearman, scale, offset, residual, scatter };
 }
 
@@ -190,9 +218,14 @@ export function correlateFields(
 	}
 	const maxGap = options.maxGap ?? 5 * medianSpacing(channel.time);
 	const maxPoints = Math.max(1, Math.floor(options.maxPoints ?? 2000));
-	const results = candidates.map((c) =>
-		correlateOne(channel, c.field, c.frames, maxGap, maxPoints)
-	);
+	// Candidates of one ID share its frame times, so the channel is interpolated once per ID.
+	const atFrames = new Map<IdFrames, Float64Array>();
+	const results = candidates.map((c) => {
+		let channelAt = atFrames.get(c.frames);
+		if (!channelAt)
+			atFrames.set(c.frames, (channelAt = channelAtFrames(channel, c.frames, maxGap)));
+		return correlateOne(channelAt, c.field, c.frames, maxPoints);
+	});
 	const strength = (x: number | null) => (x === null ? -1 : Math.abs(x));
 	return results.sort(
 		(a, b) =>

@@ -60,19 +60,15 @@ export interface PlantedSpec {
 
 const POLY: Record<string, number> = { 'crc8-sae-j1850': 0x1d, 'crc8-autosar': 0x2f };
 
-function writeBits(
-	payload: Uint8Array,
-	startBit: number,
-	length: number,
-	order: ByteOrder,
-	raw: number
-) {
-	const positions = referencePositions(startBit, length, order);
-	positions.forEach((p, i) => {
-		const bit = Math.floor(raw / 2 ** i) % 2;
-		const byte = Math.floor(p / 8);
-		payload[byte] = bit ? payload[byte] | (1 << (p % 8)) : payload[byte] & ~(1 << (p % 8));
-	});
+/** Writes `raw` (least significant bit first) to the payload bits at `positions`. */
+function writeBits(payload: Uint8Array, positions: number[], raw: number) {
+	let rest = raw;
+	for (const p of positions) {
+		const byte = p >> 3;
+		if (rest % 2) payload[byte] |= 1 << (p & 7);
+		else payload[byte] &= ~(1 << (p & 7));
+		rest = Math.floor(rest / 2);
+	}
 }
 
 export function checksumOf(
@@ -104,7 +100,9 @@ function fieldSource(field: PlantedField, rand: ReturnType<typeof seededRandom>)
 			if (field.length > 32) throw new RangeError('plant noise in runs of at most 32 bits');
 			return () => {
 				let raw = 0;
-				for (let i = 0; i < field.length; i++) raw += rand.int(0, 1) * 2 ** i;
+				for (let i = 0, weight = 1; i < field.length; i++, weight *= 2) {
+					if (rand.next() >= 0.5) raw += weight; // = rand.int(0, 1), one draw per bit
+				}
 				return raw;
 			};
 		case 'value': {
@@ -140,9 +138,10 @@ export function plantedFrames(spec: PlantedSpec): { time: Float64Array; payloads
 				value: page.value,
 				writers: page.fields.map(writerFor)
 			}));
+			const selector = referencePositions(field.startBit, field.length, 'little');
 			return (payload, frame) => {
 				const page = pages[frame % pages.length];
-				writeBits(payload, field.startBit, field.length, 'little', page.value);
+				writeBits(payload, selector, page.value);
 				for (const w of page.writers) w(payload, frame);
 			};
 		}
@@ -152,7 +151,8 @@ export function plantedFrames(spec: PlantedSpec): { time: Float64Array; payloads
 		}
 		const next = fieldSource(field, rand);
 		const order = 'byteOrder' in field ? field.byteOrder : 'little';
-		return (payload) => writeBits(payload, field.startBit, field.length, order, next());
+		const positions = referencePositions(field.startBit, field.length, order);
+		return (payload) => writeBits(payload, positions, next());
 	};
 	for (const field of spec.fields) writers.push(writerFor(field));
 
