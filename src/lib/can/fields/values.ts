@@ -3,10 +3,11 @@
  * bits rarely, and when a high bit flips (a carry or borrow) the bit below it flips too. So a value
  * is proposed for a run of bits, along the chain of one byte order, in which every neighbouring
  * pair is "linked": the lower bit flips together with the upper one far more often than two
- * independent bits would (a z-score over the upper bit's flips), and the lower bit flips at least
- * about as often as the upper one. Low bits that flip like noise carry no such link; they are
- * added while they stay inside the byte of the run's lowest bit (fields usually start on a byte or
- * nibble boundary, and noise-like low bits cannot tell where they end).
+ * independent bits would (a binomial tail over the upper bit's flips), and the lower bit flips at
+ * least about as often as the upper one. Low bits that flip like noise carry no such link; they are
+ * added while they stay inside the byte of the run's lowest bit (fields usually start on a byte
+ * boundary, and noise-like low bits cannot tell where they end), and a noise-like byte below joins
+ * when its changes carry into the value's.
  */
 import type { ByteOrder } from '../map';
 import { fieldValues, isConstantBit, type BitStatistics, type FrameSet } from './bit-statistics';
