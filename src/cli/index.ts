@@ -42,6 +42,11 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 	'receive-set': {
 		summary: 'receive-set --map MAP.json --profile PROFILE.json   receive set of a linked profile',
 		load: () => import('./commands/receive-set')
+	},
+	fields: {
+		summary:
+			'fields CAPTURE.csv [--id ID]         proposed fields of each ID (counters, checksums…)',
+		load: () => import('./commands/fields')
 	}
 };
 
