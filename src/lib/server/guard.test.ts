@@ -6,10 +6,10 @@ import * as invitationsRoute from '../../routes/api/workspaces/[ws]/invitations/
 import * as memberRoute from '../../routes/api/workspaces/[ws]/members/[userId]/+server';
 import * as membersRoute from '../../routes/api/workspaces/[ws]/members/+server';
 import * as workspaceLayout from '../../routes/w/[ws]/+layout.server';
-import { createInvitation } from './db/invitations';
-import { createWorkspace } from './db/workspaces';
+import { createInvitation } from './workspaces/invitations';
+import { createWorkspace } from './workspaces/workspaces';
 import type { SessionUser } from './guard';
-import type { Role } from './roles';
+import type { Role } from '../roles';
 import {
 	countRows,
 	createTestServices,

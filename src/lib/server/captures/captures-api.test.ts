@@ -14,11 +14,11 @@ import * as processRoute from '../../../routes/api/workspaces/[ws]/captures/[id]
 import * as statusRoute from '../../../routes/api/workspaces/[ws]/captures/[id]/status/+server';
 import { load as listLoad } from '../../../routes/w/[ws]/captures/+page.server';
 import { load as captureLoad } from '../../../routes/w/[ws]/captures/[id]/+page.server';
-import { createMap } from '../db/maps';
-import { publishRevision } from '../db/revisions';
-import { createWorkspace } from '../db/workspaces';
+import { createMap } from '../maps/maps';
+import { publishRevision } from '../maps/revisions';
+import { createWorkspace } from '../workspaces/workspaces';
 import type { SessionUser } from '../guard';
-import type { Role } from '../roles';
+import type { Role } from '../../roles';
 import {
 	createTestServices,
 	createUser,
@@ -26,14 +26,15 @@ import {
 	outcome,
 	type TestServices
 } from '../test-support';
-import { findCaptureRow, type CaptureDetail, type CaptureSummary } from './captures-db';
+import type { CaptureDetail, CaptureSummary } from '$lib/api/captures';
+import { findCaptureRow } from './captures-db';
 import {
 	failInterruptedProcessing,
 	INTERRUPTED_MESSAGE,
 	parseInWorker,
 	processingDone
 } from './processing';
-import type { DetectedLayout } from './schemas';
+import type { DetectedLayout } from '../../api/captures';
 import { loadFrameStore } from './store';
 
 type Handler = (event: RequestEvent) => Promise<Response>;

@@ -3,54 +3,19 @@
  * a capture of another workspace is as unknown as a missing one.
  */
 import type { z } from 'zod';
-import type { CaptureLayout } from '../../can/capture/layout';
-import { captureLayoutSchema } from '../../can/capture/layout';
-import type { DB } from '../db/connection';
-import { personRef, type PersonRef } from '../db/maps';
-import type { CaptureRow, CaptureStatus, CaptureUpdate, NewCaptureRow } from '../db/schema';
-import { Problem } from '../problem';
 import {
 	captureReportSchema,
 	detectedLayoutSchema,
-	type CaptureReport,
-	type DetectedLayout
-} from './schemas';
-
-export interface DecodeRecord {
-	id: string;
-	/** null once the map was deleted. */
-	mapId: string | null;
-	mapName: string;
-	/** Revision number, or null for the draft. */
-	revision: number | null;
-	draftVersion: number | null;
-	decodedAt: string;
-	decodedBy: PersonRef | null;
-}
-
-export interface CaptureSummary {
-	id: string;
-	name: string;
-	fileName: string;
-	sizeBytes: number;
-	uploadedAt: string;
-	uploadedBy: PersonRef | null;
-	status: CaptureStatus;
-	progress: number;
-	frameCount: number | null;
-	durationS: number | null;
-	error: string | null;
-	lastDecode: Pick<DecodeRecord, 'id' | 'mapId' | 'mapName' | 'revision' | 'decodedAt'> | null;
-}
-
-/** The GET capture shape (API and page load). */
-export interface CaptureDetail {
-	capture: CaptureSummary;
-	detected: DetectedLayout | null;
-	layout: CaptureLayout | null;
-	report: CaptureReport | null;
-	decodes: DecodeRecord[];
-}
+	type CaptureDetail,
+	type CaptureStatusResponse,
+	type CaptureSummary,
+	type DecodeRecord
+} from '../../api/captures';
+import { captureLayoutSchema } from '../../can/capture/layout';
+import type { DB } from '../db/connection';
+import type { CaptureRow, CaptureUpdate, NewCaptureRow } from '../db/schema';
+import { personRef } from '../people';
+import { Problem } from '../problem';
 
 function summaryQuery(db: DB) {
 	return db
@@ -173,6 +138,16 @@ export async function requireCaptureRow(
 	const row = await findCaptureRow(db, workspaceId, captureId);
 	if (!row) throw new Problem(404, 'Capture not found.');
 	return row;
+}
+
+/** Processing status and progress, for polling. */
+export async function captureStatus(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureStatusResponse> {
+	const row = await requireCaptureRow(db, workspaceId, captureId);
+	return { status: row.status, progress: row.progress, error: row.error };
 }
 
 export async function findCaptureSummary(

@@ -3,80 +3,8 @@
  * the sample arrays (those are fetched per channel, decimated, through the series route).
  * Typed arrays become plain arrays and NaN-free numbers, so the shape survives JSON unchanged.
  */
+import type { DecodeSummary, J1939Summary, TroubleCodeSummary } from '../../api/capture-views';
 import type { CaptureDecoding } from '../../can/capture/decode-capture';
-import type { Dm1Lamps } from '../../can/j1939';
-
-export interface ChannelSummary {
-	index: number;
-	frameName: string;
-	signalName: string;
-	unit: string;
-	count: number;
-	min: number | null;
-	max: number | null;
-	mean: number | null;
-	last: number | null;
-	/** Samples outside [limitMin, limitMax] (the signal's min/max in the map). */
-	outOfRange: number;
-	limitMin: number | null;
-	limitMax: number | null;
-	/** Samples a J1939 sender flagged as "not available" / "error" (SAE J1939-71 ranges). */
-	notAvailable: number;
-	errors: number;
-}
-
-export interface IdSummary {
-	id: number;
-	extended: boolean;
-	/** The map frame's name, null for an ID the map does not define. */
-	name: string | null;
-	count: number;
-	rateHz: number | null;
-	meanPeriodMs: number | null;
-	jitterMs: number | null;
-	/** The cycle time the map promises, to compare with meanPeriodMs. */
-	cycleMs: number | null;
-	minLength: number;
-	maxLength: number;
-}
-
-export interface UnknownIdSummary {
-	id: number;
-	extended: boolean;
-	count: number;
-	rateHz: number | null;
-	maxLength: number;
-	/** bitChanges[b]: changes of payload bit b (design.md numbering) between consecutive frames. */
-	bitChanges: number[];
-}
-
-export interface TroubleCodeSummary {
-	/** When this (source, SPN, FMI) was first reported; lastTime when last. */
-	time: number;
-	lastTime: number;
-	sourceAddress: number;
-	spn: number;
-	fmi: number;
-	occurrenceCount: number;
-	/** Lamp states of the latest DM1 that reported it. */
-	lamps: Dm1Lamps;
-}
-
-export interface J1939Summary {
-	troubleCodes: TroubleCodeSummary[];
-	messages: { time: number; pgn: number; sourceAddress: number; length: number; dataHex: string }[];
-}
-
-export interface DecodeSummary {
-	frameCount: number;
-	durationS: number;
-	bitrate: number;
-	channels: ChannelSummary[];
-	ids: IdSummary[];
-	unknownIds: UnknownIdSummary[];
-	busLoad: { start: number; percent: number }[];
-	j1939: J1939Summary | null;
-}
 
 /** JSON has no NaN or ±Infinity (a float signal can decode to them); they become null. */
 const finiteOrNull = (n: number | null): number | null =>

@@ -12,9 +12,10 @@ import { parseMap } from '$lib/can/map-json';
 import type { CanMap } from '$lib/can/map';
 import { insertCapture } from '$lib/server/captures/captures-db';
 import { captureKeys } from '$lib/server/captures/store';
-import { createMap, findMapForWorkspace, saveDraft } from '$lib/server/db/maps';
-import { publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { saveDraft } from '$lib/server/maps/drafts';
+import { createMap, findMapForWorkspace } from '$lib/server/maps/maps';
+import { publishRevision } from '$lib/server/maps/revisions';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
 import type { SessionUser } from '$lib/server/guard';
 import {
 	createTestServices,
@@ -28,14 +29,10 @@ import { GET as decodesRoute } from '../../../routes/api/workspaces/[ws]/capture
 import { POST as defineFrameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/define-frame/+server';
 import { GET as framesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/+server';
 import { GET as frameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/[index]/+server';
-import {
-	GET as seriesRoute,
-	type SeriesResponse
-} from '../../../routes/api/workspaces/[ws]/captures/[id]/series/+server';
+import { GET as seriesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/series/+server';
 import { GET as exportRoute } from '../../../routes/w/[ws]/captures/[id]/export/+server';
-import type { DecodeResponse } from './decoding';
+import type { DecodeResponse, FrameDetail, FrameRow, SeriesResponse } from '$lib/api/capture-views';
 import { forgetCaptureDecodes, getDecoded } from './decoding';
-import type { FrameDetail, FrameRow } from './frame-views';
 
 const fixture = (name: string) =>
 	readFileSync(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');

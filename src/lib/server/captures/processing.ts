@@ -8,7 +8,7 @@
 import { Worker } from 'node:worker_threads';
 import { ingestCapture } from '../../can/capture/ingest';
 import type { CaptureLayout } from '../../can/capture/layout';
-import { appendAudit } from '../db/audit';
+import { appendAudit } from '../workspaces/audit';
 import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
@@ -17,10 +17,9 @@ import {
 	insertCapture,
 	requireCaptureRow,
 	requireCaptureSummary,
-	updateCapture,
-	type CaptureSummary
+	updateCapture
 } from './captures-db';
-import type { CaptureReport } from './schemas';
+import type { CaptureReport, CaptureSummary } from '../../api/captures';
 import { captureKeys, forgetFrameStore } from './store';
 import { DETECTION_BYTES, detectFromHead } from './upload';
 import { captureWorkerPath } from './worker-bundle';

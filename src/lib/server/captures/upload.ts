@@ -6,13 +6,13 @@
  * capture columns, 400 for an empty body.
  */
 import Papa from 'papaparse';
+import type { DetectedLayout, UploadResponse } from '../../api/captures';
 import { CaptureFormatError, detectCaptureLayout } from '../../can/capture/detect-layout';
-import { appendAudit } from '../db/audit';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { formatBytes, StorageLimitError } from '../storage/storage';
-import { insertCapture, requireCaptureSummary, type CaptureSummary } from './captures-db';
-import type { DetectedLayout } from './schemas';
+import { appendAudit } from '../workspaces/audit';
+import { insertCapture, requireCaptureSummary } from './captures-db';
 import { captureKeys } from './store';
 
 /** Bytes kept aside for the layout guess. */
@@ -95,6 +95,16 @@ export function detectFromHead(head: Uint8Array, complete: boolean): DetectedLay
 	return { layout: guess.layout, notes: guess.notes, sampleRows: preview.data };
 }
 
+/** The request's Content-Length as a byte count, null when it sent none. */
+export function readContentLength(headers: Headers): number | null {
+	const header = headers.get('content-length');
+	if (header === null) return null;
+	const bytes = Number(header);
+	if (!(Number.isInteger(bytes) && bytes >= 0))
+		throw new Problem(400, 'The Content-Length header is not a byte count.');
+	return bytes;
+}
+
 const refuseNotCapture = (detail: string) =>
 	new Problem(
 		415,
@@ -104,7 +114,7 @@ const refuseNotCapture = (detail: string) =>
 export async function receiveCaptureUpload(
 	services: Pick<Services, 'db' | 'storage' | 'config'>,
 	input: UploadInput
-): Promise<{ capture: CaptureSummary; detected: DetectedLayout }> {
+): Promise<UploadResponse> {
 	const limit = services.config.captureMaxBytes;
 	const tooLarge = () =>
 		new Problem(

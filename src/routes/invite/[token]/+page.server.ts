@@ -3,7 +3,7 @@ import {
 	acceptInvitation,
 	findInvitationByToken,
 	invitationProblem
-} from '$lib/server/db/invitations';
+} from '$lib/server/workspaces/invitations';
 import { requireUser } from '$lib/server/guard';
 import { Problem } from '$lib/server/problem';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,5 +1,5 @@
-import { listMaps } from '$lib/server/db/maps';
-import { listRevisions } from '$lib/server/db/revisions';
+import { listMaps } from '$lib/server/maps/maps';
+import { listRevisions } from '$lib/server/maps/revisions';
 import { requireRole } from '$lib/server/guard';
 import type { PageServerLoad } from './$types';
 

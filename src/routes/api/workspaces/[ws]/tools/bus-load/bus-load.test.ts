@@ -5,9 +5,10 @@ import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import { mapBusLoad } from '$lib/can/busload';
 import { parseMap } from '$lib/can/map-json';
-import { createMap, saveDraft } from '$lib/server/db/maps';
-import { loadSnapshot, publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { saveDraft } from '$lib/server/maps/drafts';
+import { createMap } from '$lib/server/maps/maps';
+import { loadSnapshot, publishRevision } from '$lib/server/maps/revisions';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
 import type { SessionUser } from '$lib/server/guard';
 import {
 	createTestServices,
@@ -15,7 +16,7 @@ import {
 	makeEvent,
 	type TestServices
 } from '$lib/server/test-support';
-import type { BusLoadResponse } from './bus-load-response';
+import type { BusLoadResponse } from '$lib/api/tools';
 import { GET } from './+server';
 
 const ROUTE = '/api/workspaces/[ws]/tools/bus-load';

@@ -10,9 +10,10 @@ import { ingestCapture } from '$lib/can/capture/ingest';
 import { parseMap } from '$lib/can/map-json';
 import type { CanMap } from '$lib/can/map';
 import { insertCapture } from '$lib/server/captures/captures-db';
-import { createMap, saveDraft } from '$lib/server/db/maps';
-import { publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { saveDraft } from '$lib/server/maps/drafts';
+import { createMap } from '$lib/server/maps/maps';
+import { publishRevision } from '$lib/server/maps/revisions';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
 import type { SessionUser } from '$lib/server/guard';
 import {
 	createTestServices,

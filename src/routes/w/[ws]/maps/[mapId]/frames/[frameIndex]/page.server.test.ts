@@ -2,8 +2,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parseMap } from '$lib/can/map-json';
-import { createMap } from '$lib/server/db/maps';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { createMap } from '$lib/server/maps/maps';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
 import { createTestServices, createUser, makeEvent, outcome } from '$lib/server/test-support';
 import { load } from './+page.server';
 

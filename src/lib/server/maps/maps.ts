@@ -1,24 +1,16 @@
+/**
+ * Repository of maps: list, find, create, delete. Draft changes are in `drafts.ts`, revisions in
+ * `revisions.ts`. A map of another workspace is as unknown as a missing one.
+ */
 import { sql } from 'kysely';
+import type { MapSummary } from '../../api/maps';
+import type { PersonRef } from '../../api/shapes';
 import type { CanMap } from '../../can/map';
 import { parseMap, serializeMap } from '../../can/map-json';
+import type { DB } from '../db/connection';
+import { personRef } from '../people';
 import { Problem } from '../problem';
-import { appendAudit } from './audit';
-import type { DB } from './connection';
-
-/** Who did something, as shown next to a change. */
-export interface PersonRef {
-	email: string;
-	name: string | null;
-}
-
-export interface MapSummary {
-	id: string;
-	name: string;
-	updatedAt: string;
-	updatedBy: PersonRef | null;
-	latestRevision: number | null;
-	frameCount: number;
-}
+import { appendAudit } from '../workspaces/audit';
 
 export interface MapRecord {
 	id: string;
@@ -30,6 +22,9 @@ export interface MapRecord {
 	updatedBy: PersonRef | null;
 }
 
+/** Where a new map came from (kept in the audit log). */
+export type MapSource = 'blank' | 'json' | 'csv';
+
 /** Stored maps are written by serializeMap, so a parse failure means the database was altered by hand. */
 export function readStoredMap(text: string, what: string): CanMap {
 	const parsed = parseMap(text);
@@ -38,14 +33,6 @@ export function readStoredMap(text: string, what: string): CanMap {
 			`Stored ${what} is not a valid map: ${parsed.problems[0]?.path} ${parsed.problems[0]?.message}`
 		);
 	return parsed.map;
-}
-
-export function personRef(email: string | null, name: string | null): PersonRef | null {
-	return email === null ? null : { email, name };
-}
-
-export function personLabel(person: PersonRef | null): string {
-	return person ? (person.name ?? person.email) : 'someone';
 }
 
 export async function listMaps(db: DB, workspaceId: string): Promise<MapSummary[]> {
@@ -117,7 +104,7 @@ export async function createMap(
 		workspaceId: string;
 		map: CanMap;
 		actorId: string;
-		source: 'blank' | 'json' | 'csv';
+		source: MapSource;
 		now?: Date;
 	}
 ): Promise<{ id: string; name: string }> {
@@ -147,84 +134,6 @@ export async function createMap(
 		});
 	});
 	return { id, name: input.map.name };
-}
-
-/**
- * Replaces the draft only if nobody changed it since `version` was read (optimistic concurrency):
- * the UPDATE names the version, so two racing saves cannot both succeed.
- */
-export async function replaceDraft(
-	db: DB,
-	input: {
-		workspaceId: string;
-		mapId: string;
-		version: number;
-		draft: CanMap;
-		actorId: string;
-		action: string;
-		details?: Record<string, unknown>;
-	}
-): Promise<{ version: number }> {
-	return db.transaction().execute(async (trx) => {
-		const current = await requireMap(trx, input.workspaceId, input.mapId);
-		const next = input.version + 1;
-		const result = await trx
-			.updateTable('maps')
-			.set({
-				name: input.draft.name,
-				draft_json: serializeMap(input.draft),
-				draft_version: next,
-				updated_by: input.actorId,
-				updated_at: new Date().toISOString()
-			})
-			.where('id', '=', input.mapId)
-			.where('draft_version', '=', input.version)
-			.executeTakeFirst();
-		if (Number(result.numUpdatedRows) !== 1) throw staleDraft(current);
-		await appendAudit(trx, {
-			workspaceId: input.workspaceId,
-			actorId: input.actorId,
-			action: input.action,
-			target: input.mapId,
-			details: { version: next, ...input.details }
-		});
-		return { version: next };
-	});
-}
-
-export function staleDraft(current: MapRecord): Problem {
-	return new Problem(
-		409,
-		`This map was changed by ${personLabel(current.updatedBy)} at ${current.updatedAt} since you loaded it. Reload to see their changes; your edit was not saved.`,
-		undefined,
-		{ currentVersion: current.version }
-	);
-}
-
-export async function saveDraft(
-	db: DB,
-	input: { workspaceId: string; mapId: string; version: number; draft: CanMap; actorId: string }
-): Promise<{ version: number }> {
-	return replaceDraft(db, {
-		...input,
-		action: 'map.draft.save',
-		details: { frames: input.draft.frames.length }
-	});
-}
-
-/** Renaming changes the draft's name too, so the next revision carries it. */
-export async function renameMap(
-	db: DB,
-	input: { workspaceId: string; mapId: string; version: number; name: string; actorId: string }
-): Promise<{ version: number; name: string }> {
-	const current = await requireMap(db, input.workspaceId, input.mapId);
-	const { version } = await replaceDraft(db, {
-		...input,
-		draft: { ...current.draft, name: input.name },
-		action: 'map.rename',
-		details: { from: current.name, to: input.name }
-	});
-	return { version, name: input.name };
 }
 
 export async function deleteMap(

@@ -3,26 +3,27 @@ import { readFileSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import { parseMap } from '$lib/can/map-json';
-import * as shareLinksRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
-import * as shareLinkRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
-import * as mapRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/+server';
-import * as sharePage from '../../routes/s/[token]/+page.server';
-import * as shareExport from '../../routes/s/[token]/export/+server';
-import * as shareSheet from '../../routes/s/[token]/sheet/+page.server';
-import * as mapsPage from '../../routes/w/[ws]/maps/+page.server';
-import * as mapPage from '../../routes/w/[ws]/maps/[mapId]/+page.server';
-import * as sheetPage from '../../routes/w/[ws]/maps/[mapId]/sheet/+page.server';
-import * as diffPage from '../../routes/w/[ws]/maps/[mapId]/diff/+page.server';
-import * as revisionPage from '../../routes/w/[ws]/maps/[mapId]/revisions/[n]/+page.server';
-import { createMap, saveDraft } from './db/maps';
-import { publishRevision } from './db/revisions';
-import { findSharedRevision } from './db/share-links';
-import { createWorkspace } from './db/workspaces';
-import { SHARE_LINK_GONE } from './map-views';
-import { countRows, createTestServices, createUser, makeEvent, outcome } from './test-support';
+import * as shareLinksRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
+import * as shareLinkRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
+import * as mapRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/+server';
+import * as sharePage from '../../../routes/s/[token]/+page.server';
+import * as shareExport from '../../../routes/s/[token]/export/+server';
+import * as shareSheet from '../../../routes/s/[token]/sheet/+page.server';
+import * as mapsPage from '../../../routes/w/[ws]/maps/+page.server';
+import * as mapPage from '../../../routes/w/[ws]/maps/[mapId]/+page.server';
+import * as sheetPage from '../../../routes/w/[ws]/maps/[mapId]/sheet/+page.server';
+import * as diffPage from '../../../routes/w/[ws]/maps/[mapId]/diff/+page.server';
+import * as revisionPage from '../../../routes/w/[ws]/maps/[mapId]/revisions/[n]/+page.server';
+import { saveDraft } from './drafts';
+import { createMap } from './maps';
+import { publishRevision } from './revisions';
+import { findSharedRevision } from './share-links';
+import { createWorkspace } from '../workspaces/workspaces';
+import { SHARE_LINK_GONE } from './views';
+import { countRows, createTestServices, createUser, makeEvent, outcome } from '../test-support';
 
 const parsed = parseMap(
-	readFileSync(new URL('../../../fixtures/genset-j1939.map.json', import.meta.url), 'utf8')
+	readFileSync(new URL('../../../../fixtures/genset-j1939.map.json', import.meta.url), 'utf8')
 );
 if (!parsed.ok) throw new Error('fixture map does not parse');
 const genset = parsed.map;

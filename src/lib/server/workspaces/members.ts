@@ -1,16 +1,11 @@
+/** Repository of workspace memberships; the last owner can never be demoted or removed. */
+import type { MemberView, MembersOverview } from '../../api/workspaces';
+import type { Role } from '../../roles';
+import type { DB } from '../db/connection';
+import type { Membership } from '../db/schema';
 import { Problem } from '../problem';
-import type { Role } from '../roles';
 import { appendAudit } from './audit';
-import type { DB } from './connection';
-import type { Membership } from './schema';
-
-export interface MemberView {
-	userId: string;
-	email: string;
-	name: string | null;
-	role: Role;
-	joinedAt: string;
-}
+import { listPendingInvitations } from './invitations';
 
 export async function findMembership(
 	db: DB,
@@ -44,6 +39,20 @@ export async function listMembers(db: DB, workspaceId: string): Promise<MemberVi
 		.orderBy('memberships.joined_at')
 		.orderBy('User.email')
 		.execute();
+}
+
+/** The members page: everyone, and pending invitations for owners (who was invited is their business only). */
+export async function membersOverview(
+	db: DB,
+	access: { workspaceId: string; userId: string; role: Role }
+): Promise<MembersOverview> {
+	return {
+		members: await listMembers(db, access.workspaceId),
+		invitations:
+			access.role === 'owner' ? await listPendingInvitations(db, access.workspaceId) : [],
+		myRole: access.role,
+		myUserId: access.userId
+	};
 }
 
 async function countOwners(db: DB, workspaceId: string): Promise<number> {

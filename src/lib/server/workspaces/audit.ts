@@ -1,4 +1,4 @@
-import type { DB } from './connection';
+import type { DB } from '../db/connection';
 
 export interface AuditEntry {
 	workspaceId: string | null;

@@ -6,32 +6,32 @@ import { describe, expect, it } from 'vitest';
 import type { CanMap, CanMapInput } from '$lib/can/map';
 import { parseMap } from '$lib/can/map-json';
 import type { MapDiff } from '$lib/can/map-diff';
-import * as mapsRoute from '../../routes/api/workspaces/[ws]/maps/+server';
-import * as mapRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/+server';
-import * as draftRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/draft/+server';
-import * as revisionsRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/revisions/+server';
-import * as revisionRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/revisions/[n]/+server';
-import * as diffRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/diff/+server';
-import * as restoreRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/restore/+server';
-import * as shareLinksRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
-import * as shareLinkRoute from '../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
-import * as exportRoute from '../../routes/w/[ws]/maps/[mapId]/export/+server';
-import { createWorkspace } from './db/workspaces';
-import type { SessionUser } from './guard';
-import type { Role } from './roles';
+import * as mapsRoute from '../../../routes/api/workspaces/[ws]/maps/+server';
+import * as mapRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/+server';
+import * as draftRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/draft/+server';
+import * as revisionsRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/revisions/+server';
+import * as revisionRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/revisions/[n]/+server';
+import * as diffRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/diff/+server';
+import * as restoreRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/restore/+server';
+import * as shareLinksRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
+import * as shareLinkRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
+import * as exportRoute from '../../../routes/w/[ws]/maps/[mapId]/export/+server';
+import { createWorkspace } from '../workspaces/workspaces';
+import type { SessionUser } from '../guard';
+import type { Role } from '../../roles';
 import {
 	countRows,
 	createTestServices,
 	createUser,
 	makeEvent,
 	type TestServices
-} from './test-support';
+} from '../test-support';
 
 type Handler = (event: RequestEvent) => Promise<Response>;
 type Actor = Role | 'outsider' | 'signed-out';
 
 const clubRacerJson = readFileSync(
-	new URL('../../../fixtures/club-racer-ecu.map.json', import.meta.url),
+	new URL('../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
 	'utf8'
 );
 

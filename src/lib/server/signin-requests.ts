@@ -1,4 +1,4 @@
-import type { DB } from './connection';
+import type { DB } from './db/connection';
 
 const HOUR_MS = 60 * 60 * 1000;
 

@@ -1,19 +1,13 @@
-import { Problem } from '../problem';
-import type { Role } from '../roles';
-import { appendAudit } from './audit';
-import type { DB } from './connection';
-import type { Workspace } from './schema';
+/** Repository of workspaces: create (the creator becomes owner), find, list, rename, delete. */
+import type { WorkspaceSummary } from '../../api/workspaces';
 import { slugPart } from '../../slug';
-
-export interface WorkspaceSummary {
-	id: string;
-	slug: string;
-	name: string;
-	role: Role;
-}
+import type { DB } from '../db/connection';
+import type { Workspace } from '../db/schema';
+import { Problem } from '../problem';
+import { appendAudit } from './audit';
 
 /** URL-safe slug: lowercase ASCII letters, digits and single hyphens. */
-export function slugify(name: string): string {
+function slugify(name: string): string {
 	return slugPart(name, 'workspace');
 }
 
@@ -36,7 +30,7 @@ async function uniqueSlug(db: DB, name: string): Promise<string> {
 export async function createWorkspace(
 	db: DB,
 	input: { name: string; ownerId: string }
-): Promise<Workspace> {
+): Promise<WorkspaceSummary> {
 	return db.transaction().execute(async (trx) => {
 		const now = new Date().toISOString();
 		const workspace: Workspace = {
@@ -58,7 +52,7 @@ export async function createWorkspace(
 			target: workspace.slug,
 			details: { name: workspace.name }
 		});
-		return workspace;
+		return { id: workspace.id, slug: workspace.slug, name: workspace.name, role: 'owner' };
 	});
 }
 
@@ -76,18 +70,23 @@ export async function listWorkspacesForUser(db: DB, userId: string): Promise<Wor
 		.execute();
 }
 
+async function requireWorkspace(db: DB, workspaceId: string): Promise<Workspace> {
+	const workspace = await db
+		.selectFrom('workspaces')
+		.selectAll()
+		.where('id', '=', workspaceId)
+		.executeTakeFirst();
+	if (!workspace) throw new Problem(404, 'Workspace not found.');
+	return workspace;
+}
+
 /** Renaming keeps the slug, so links people already shared keep working. */
 export async function renameWorkspace(
 	db: DB,
 	input: { workspaceId: string; name: string; actorId: string }
-): Promise<Workspace> {
+): Promise<Omit<WorkspaceSummary, 'role'>> {
 	return db.transaction().execute(async (trx) => {
-		const before = await trx
-			.selectFrom('workspaces')
-			.selectAll()
-			.where('id', '=', input.workspaceId)
-			.executeTakeFirst();
-		if (!before) throw new Problem(404, 'Workspace not found.');
+		const before = await requireWorkspace(trx, input.workspaceId);
 		await trx
 			.updateTable('workspaces')
 			.set({ name: input.name })
@@ -100,7 +99,7 @@ export async function renameWorkspace(
 			target: before.slug,
 			details: { from: before.name, to: input.name }
 		});
-		return { ...before, name: input.name };
+		return { id: before.id, slug: before.slug, name: input.name };
 	});
 }
 
@@ -109,12 +108,7 @@ export async function deleteWorkspace(
 	input: { workspaceId: string; actorId: string }
 ): Promise<void> {
 	await db.transaction().execute(async (trx) => {
-		const before = await trx
-			.selectFrom('workspaces')
-			.selectAll()
-			.where('id', '=', input.workspaceId)
-			.executeTakeFirst();
-		if (!before) throw new Problem(404, 'Workspace not found.');
+		const before = await requireWorkspace(trx, input.workspaceId);
 		// Memberships and invitations go with it (ON DELETE CASCADE); the audit trail stays.
 		await trx.deleteFrom('workspaces').where('id', '=', input.workspaceId).execute();
 		await appendAudit(trx, {

@@ -1,25 +1,24 @@
+/**
+ * Share links: a read-only link to one revision of a map for people outside the workspace. The
+ * token is handed out once and only its hash is stored; revoked and expired links stop working.
+ */
 import { createHash, randomBytes } from 'node:crypto';
-import { Problem } from '../problem';
-import { appendAudit } from './audit';
-import type { DB } from './connection';
-import { personRef, readStoredMap, requireMap, type PersonRef } from './maps';
-import type { RevisionSummary } from './revisions';
-import { requireRevision } from './revisions';
+import type {
+	CreatedShareLinkResponse,
+	RevisionSummary,
+	ShareLinkStatus,
+	ShareLinkView
+} from '../../api/maps';
+import { sharePath } from '../../api/paths';
 import type { CanMap } from '../../can/map';
+import type { DB } from '../db/connection';
+import { personRef } from '../people';
+import { Problem } from '../problem';
+import { appendAudit } from '../workspaces/audit';
+import { readStoredMap, requireMap } from './maps';
+import { requireRevision } from './revisions';
 
-export type ShareLinkStatus = 'active' | 'revoked' | 'expired';
-
-export interface ShareLinkView {
-	id: string;
-	revision: number;
-	createdAt: string;
-	createdBy: PersonRef | null;
-	expiresAt: string | null;
-	revokedAt: string | null;
-	status: ShareLinkStatus;
-}
-
-export function hashShareToken(token: string): string {
+function hashShareToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 
@@ -32,11 +31,14 @@ function statusOf(
 	return 'active';
 }
 
+/** The share links of a map in the workspace, newest first. */
 export async function listShareLinks(
 	db: DB,
+	workspaceId: string,
 	mapId: string,
 	now = new Date()
 ): Promise<ShareLinkView[]> {
+	await requireMap(db, workspaceId, mapId);
 	const rows = await db
 		.selectFrom('share_links')
 		.innerJoin('map_revisions', 'map_revisions.id', 'share_links.revision_id')
@@ -58,7 +60,7 @@ export async function listShareLinks(
 }
 
 /** Creates a link to one revision; the raw token is returned once and only its hash is stored. */
-export async function createShareLink(
+async function createShareLink(
 	db: DB,
 	input: {
 		workspaceId: string;
@@ -194,4 +196,26 @@ export async function findSharedRevision(
 		map,
 		expiresAt: row.expires_at
 	};
+}
+
+/**
+ * A share link as the API hands it out: the expiry normalised to UTC, and the link's full URL
+ * (with its token), which only this answer ever carries.
+ */
+export async function shareRevision(
+	db: DB,
+	input: {
+		workspaceId: string;
+		mapId: string;
+		revision: number;
+		expiresAt: string | null | undefined;
+		actorId: string;
+		origin: string;
+	}
+): Promise<CreatedShareLinkResponse> {
+	const { shareLink, token } = await createShareLink(db, {
+		...input,
+		expiresAt: input.expiresAt ? new Date(input.expiresAt).toISOString() : null
+	});
+	return { shareLink: { ...shareLink, url: new URL(sharePath(token), input.origin).toString() } };
 }

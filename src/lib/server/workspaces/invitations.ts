@@ -1,17 +1,18 @@
+/**
+ * Invitations to a workspace: created by an owner and sent by e-mail, accepted once by the invited
+ * address. The token travels only in the e-mail; the database keeps its hash.
+ */
 import { createHash, randomBytes } from 'node:crypto';
+import type { InvitationResponse, InvitationView } from '../../api/workspaces';
+import { invitationPath } from '../../api/paths';
+import type { Role } from '../../roles';
+import type { DB } from '../db/connection';
+import type { Invitation } from '../db/schema';
+import type { WorkspaceAccess } from '../access';
+import { invitationMail } from '../mail/templates';
 import { Problem } from '../problem';
-import type { Role } from '../roles';
+import type { Services } from '../services';
 import { appendAudit } from './audit';
-import type { DB } from './connection';
-import type { Invitation } from './schema';
-
-export interface InvitationView {
-	id: string;
-	email: string;
-	role: Role;
-	expiresAt: string;
-	invitedBy: string | null;
-}
 
 export function hashInvitationToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
@@ -109,6 +110,33 @@ export async function createInvitation(
 			}
 		};
 	});
+}
+
+/** Invites an address to the caller's workspace and e-mails it the link. */
+export async function inviteByEmail(
+	services: Pick<Services, 'db' | 'config' | 'sendMail'>,
+	access: Pick<WorkspaceAccess, 'user' | 'workspace'>,
+	input: { email: string; role: Role; origin: string }
+): Promise<InvitationResponse> {
+	const { user, workspace } = access;
+	const { invitation, token } = await createInvitation(services.db, {
+		workspaceId: workspace.id,
+		email: input.email,
+		role: input.role,
+		invitedBy: user.id,
+		maxAgeMs: services.config.invitationMaxAgeMs
+	});
+	await services.sendMail(
+		invitationMail({
+			to: input.email,
+			url: new URL(invitationPath(token), input.origin).toString(),
+			workspaceName: workspace.name,
+			role: input.role,
+			invitedBy: user.name ?? user.email,
+			expires: new Date(invitation.expiresAt)
+		})
+	);
+	return { invitation };
 }
 
 export async function revokeInvitation(

@@ -1,24 +1,17 @@
+/**
+ * Published revisions of a map: immutable copies of the draft, numbered r1, r2, … Publishing and
+ * restoring name the draft version they were made on, like every draft change (`drafts.ts`).
+ */
+import type { RevisionRef, RevisionSummary } from '../../api/maps';
+import { lintMap, type LintProblem } from '../../can/lint';
 import type { CanMap } from '../../can/map';
 import { serializeMap } from '../../can/map-json';
-import { lintMap, type LintProblem } from '../../can/lint';
+import type { DB } from '../db/connection';
+import { personRef } from '../people';
 import { Problem } from '../problem';
-import { appendAudit } from './audit';
-import type { DB } from './connection';
-import {
-	personRef,
-	readStoredMap,
-	replaceDraft,
-	requireMap,
-	staleDraft,
-	type PersonRef
-} from './maps';
-
-export interface RevisionSummary {
-	number: number;
-	note: string;
-	publishedAt: string;
-	publishedBy: PersonRef | null;
-}
+import { appendAudit } from '../workspaces/audit';
+import { replaceDraft, staleDraft } from './drafts';
+import { readStoredMap, requireMap } from './maps';
 
 export interface RevisionRecord extends RevisionSummary {
 	id: string;
@@ -49,6 +42,16 @@ export async function listRevisions(db: DB, mapId: string): Promise<RevisionSumm
 		publishedAt: r.publishedAt,
 		publishedBy: personRef(r.email, r.userName)
 	}));
+}
+
+/** The revisions of a map in the workspace (404 for a map it does not hold). */
+export async function listMapRevisions(
+	db: DB,
+	workspaceId: string,
+	mapId: string
+): Promise<RevisionSummary[]> {
+	const map = await requireMap(db, workspaceId, mapId);
+	return listRevisions(db, map.id);
 }
 
 export async function findRevision(
@@ -167,9 +170,6 @@ export async function restoreRevision(
 		details: { revision: revision.number }
 	});
 }
-
-/** `r3` or `draft`, the word every export, sheet and header uses. */
-export type RevisionRef = number | 'draft';
 
 export interface MapSnapshot {
 	map: CanMap;
