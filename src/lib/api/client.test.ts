@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ApiError, callApi, endpointUrl, fieldIssues, isStale, workspaceApi } from './client';
-import { parseRevisionRef, revisionLabel } from './maps';
+import { revisionLabel, revisionRefSchema } from './maps';
 import { capturePaths, mapPaths } from './paths';
 
 /** A stand-in for window.fetch that records each request and answers with the given response. */
@@ -180,7 +180,8 @@ describe('revision references and page paths', () => {
 		['1e3', null],
 		[null, null]
 	])('reads %s as %s', (text, ref) => {
-		expect(parseRevisionRef(text)).toBe(ref);
+		const parsed = revisionRefSchema.safeParse(text);
+		expect(parsed.success ? parsed.data : null).toBe(ref);
 	});
 
 	it('builds the export, sheet and diff URLs the server routes answer', () => {

@@ -43,7 +43,7 @@ const commonFallbacks: FallbackMessages = {
 };
 
 /** Sends JSON (when `body` is given) and returns the parsed answer; 204 resolves to undefined. */
-export async function requestJson<T>(
+async function requestJson<T>(
 	fetcher: typeof fetch,
 	method: string,
 	url: string,

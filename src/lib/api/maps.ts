@@ -83,12 +83,6 @@ export const revisionRefSchema = z
 	.regex(/^(draft|r?[1-9]\d{0,8})$/, 'must be a revision number like 3 (or r3) or "draft"')
 	.transform((s): RevisionRef => (s === 'draft' ? 'draft' : Number(s.replace(/^r/, ''))));
 
-/** `3`, `r3` or `draft` read from a query parameter; null when it is neither. */
-export function parseRevisionRef(text: string | null): RevisionRef | null {
-	const parsed = revisionRefSchema.safeParse(text);
-	return parsed.success ? parsed.data : null;
-}
-
 /** `r3` or `draft`. */
 export const revisionLabel = (ref: RevisionRef) => (ref === 'draft' ? 'draft' : `r${ref}`);
 

@@ -150,7 +150,7 @@ export async function captureStatus(
 	return { status: row.status, progress: row.progress, error: row.error };
 }
 
-export async function findCaptureSummary(
+async function findCaptureSummary(
 	db: DB,
 	workspaceId: string,
 	captureId: string
@@ -174,7 +174,7 @@ export async function requireCaptureSummary(
 }
 
 /** Newest first. */
-export async function listDecodes(db: DB, captureId: string): Promise<DecodeRecord[]> {
+async function listDecodes(db: DB, captureId: string): Promise<DecodeRecord[]> {
 	const rows = await decodeQuery(db)
 		.where('capture_decodes.capture_id', '=', captureId)
 		.orderBy('capture_decodes.decoded_at', 'desc')

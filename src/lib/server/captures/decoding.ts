@@ -37,7 +37,7 @@ interface CacheEntry {
 }
 
 /** Decodes kept per process: each holds its channels' samples, so only a few (a 1M-frame capture's are tens of MB). */
-export const DECODE_CACHE_SIZE = 4;
+const DECODE_CACHE_SIZE = 4;
 
 // Per database, so test databases (and their random ids) never share entries. Promises are cached
 // so two requests for the same decode wait for one computation instead of running two.
@@ -50,7 +50,7 @@ function cacheOf(services: Pick<Services, 'db'>): Map<string, Promise<CacheEntry
 }
 
 /** capture + map + `r<n>` or `d<draft version>`: the same key means the same map text, so the same result. */
-export function decodeCacheKey(
+function decodeCacheKey(
 	captureId: string,
 	mapId: string,
 	revision: number | null,

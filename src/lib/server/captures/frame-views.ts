@@ -20,7 +20,7 @@ import { loadFrameStore } from './store';
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
 
-export function frameRow(store: FrameStore, i: number): FrameRow {
+function frameRow(store: FrameStore, i: number): FrameRow {
 	const payload = store.payload(i);
 	let dataHex = '';
 	for (let k = 0; k < payload.length; k++) dataHex += (k ? ' ' : '') + HEX[payload[k]];
@@ -35,7 +35,7 @@ export function frameRow(store: FrameStore, i: number): FrameRow {
 }
 
 /** One page of frames in capture order; `total` counts every frame the filter lets through. */
-export function listFrames(
+function listFrames(
 	store: FrameStore,
 	query: Pick<FramesQuery, 'offset' | 'limit' | 'id' | 'extended'>
 ): FramesResponse {
@@ -59,7 +59,7 @@ export function listFrames(
 	return { total, frames };
 }
 
-export function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
+function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
 	if (index >= store.count) {
 		throw new Problem(
 			404,

@@ -37,7 +37,7 @@ class NotACaptureError extends Error {}
  * Binary if it holds a NUL byte or more than 1 in 20 control bytes other than tab, CR, LF
  * (common practice for telling text files from binary ones, as text tools do).
  */
-export function looksBinary(bytes: Uint8Array): boolean {
+function looksBinary(bytes: Uint8Array): boolean {
 	let control = 0;
 	for (const b of bytes) {
 		if (b === 0) return true;

@@ -8,7 +8,7 @@ import type { DB } from '../db/connection';
 import { loadSnapshot } from './revisions';
 
 /** `club-racer-engine-controller-r2.map.json`: the name and revision travel with the file. */
-export function exportFileName(mapName: string, label: string, format: ExportFormat): string {
+function exportFileName(mapName: string, label: string, format: ExportFormat): string {
 	const base = `${slugPart(mapName, 'map')}-${label}`;
 	return format === 'json' ? `${base}.map.json` : `${base}.signals.csv`;
 }

@@ -20,7 +20,7 @@ function refused(kind: string, issues: Issue[]): Problem {
 }
 
 /** The map a create request describes, or a 400 listing every problem of its file. */
-export function mapFromInput(input: CreateMapInput): { map: CanMap; source: MapSource } {
+function mapFromInput(input: CreateMapInput): { map: CanMap; source: MapSource } {
 	if (input.mapJson !== undefined) {
 		const parsed = parseMap(input.mapJson);
 		if (!parsed.ok)

@@ -1,6 +1,5 @@
 // The map JSON API run as the server runs it: real route handlers, a freshly migrated in-memory
 // database, hand-built request events. Maps come from the demo fixtures (invented data).
-import { readFileSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import type { CanMap, CanMapInput } from '$lib/can/map';
@@ -21,8 +20,9 @@ import type { SessionUser } from '../guard';
 import type { Role } from '../../roles';
 import {
 	countRows,
+	createTeam,
 	createTestServices,
-	createUser,
+	fixtureText,
 	makeEvent,
 	type TestServices
 } from '../test-support';
@@ -30,10 +30,7 @@ import {
 type Handler = (event: RequestEvent) => Promise<Response>;
 type Actor = Role | 'outsider' | 'signed-out';
 
-const clubRacerJson = readFileSync(
-	new URL('../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
-	'utf8'
-);
+const clubRacerJson = fixtureText('club-racer-ecu.map.json');
 
 interface World {
 	services: TestServices;
@@ -45,20 +42,10 @@ interface World {
 async function buildWorld(): Promise<World> {
 	const services = await createTestServices();
 	const { db } = services;
-	const users = {
-		owner: await createUser(db, 'owner@example.test', 'Owner'),
-		editor: await createUser(db, 'editor@example.test', 'Editor'),
-		viewer: await createUser(db, 'viewer@example.test'),
-		outsider: await createUser(db, 'outsider@example.test')
-	};
-	const ws = await createWorkspace(db, { name: 'Map test team', ownerId: users.owner.id });
-	const now = new Date().toISOString();
-	for (const role of ['editor', 'viewer'] as const) {
-		await db
-			.insertInto('memberships')
-			.values({ workspace_id: ws.id, user_id: users[role].id, role, joined_at: now })
-			.execute();
-	}
+	const { workspace: ws, users } = await createTeam(db, 'Map test team', {
+		owner: 'Owner',
+		editor: 'Editor'
+	});
 	const w = { services, slug: ws.slug, users, mapId: '' };
 	const created = await call(w, mapsRoute.POST, '/api/workspaces/[ws]/maps', 'editor', {
 		method: 'POST',

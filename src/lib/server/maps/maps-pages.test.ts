@@ -1,8 +1,6 @@
 // Share links, the public /s/[token] pages and the map page loads, against a fresh database.
-import { readFileSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
-import { parseMap } from '$lib/can/map-json';
 import * as shareLinksRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
 import * as shareLinkRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
 import * as mapRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/+server';
@@ -20,13 +18,17 @@ import { publishRevision } from './revisions';
 import { findSharedRevision } from './share-links';
 import { createWorkspace } from '../workspaces/workspaces';
 import { SHARE_LINK_GONE } from './views';
-import { countRows, createTestServices, createUser, makeEvent, outcome } from '../test-support';
+import {
+	addMember,
+	countRows,
+	createTestServices,
+	createUser,
+	fixtureMap,
+	makeEvent,
+	outcome
+} from '../test-support';
 
-const parsed = parseMap(
-	readFileSync(new URL('../../../../fixtures/genset-j1939.map.json', import.meta.url), 'utf8')
-);
-if (!parsed.ok) throw new Error('fixture map does not parse');
-const genset = parsed.map;
+const genset = fixtureMap('genset-j1939.map.json');
 
 async function buildWorld() {
 	const services = await createTestServices();
@@ -34,15 +36,7 @@ async function buildWorld() {
 	const editor = await createUser(db, 'editor@example.test', 'Editor');
 	const viewer = await createUser(db, 'viewer@example.test');
 	const ws = await createWorkspace(db, { name: 'Share test team', ownerId: editor.id });
-	await db
-		.insertInto('memberships')
-		.values({
-			workspace_id: ws.id,
-			user_id: viewer.id,
-			role: 'viewer',
-			joined_at: new Date().toISOString()
-		})
-		.execute();
+	await addMember(db, ws.id, viewer.id, 'viewer');
 	const { id: mapId } = await createMap(db, {
 		workspaceId: ws.id,
 		map: genset,

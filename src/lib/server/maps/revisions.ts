@@ -54,7 +54,7 @@ export async function listMapRevisions(
 	return listRevisions(db, map.id);
 }
 
-export async function findRevision(
+async function findRevision(
 	db: DB,
 	mapId: string,
 	number: number

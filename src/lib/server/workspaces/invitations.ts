@@ -14,7 +14,7 @@ import { Problem } from '../problem';
 import type { Services } from '../services';
 import { appendAudit } from './audit';
 
-export function hashInvitationToken(token: string): string {
+function hashInvitationToken(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 

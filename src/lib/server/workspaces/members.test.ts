@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import * as memberRoute from '../../../routes/api/workspaces/[ws]/members/[userId]/+server';
-import { countRows, createTestServices, createUser, makeEvent } from '../test-support';
+import { addMember, countRows, createTestServices, createUser, makeEvent } from '../test-support';
 import { changeMemberRole, findMembership, listMembers } from './members';
 import { createWorkspace } from './workspaces';
 
@@ -9,15 +9,7 @@ async function setup() {
 	const owner = await createUser(services.db, 'owner@example.test');
 	const other = await createUser(services.db, 'other@example.test');
 	const workspace = await createWorkspace(services.db, { name: 'Owners team', ownerId: owner.id });
-	await services.db
-		.insertInto('memberships')
-		.values({
-			workspace_id: workspace.id,
-			user_id: other.id,
-			role: 'editor',
-			joined_at: new Date().toISOString()
-		})
-		.execute();
+	await addMember(services.db, workspace.id, other.id, 'editor');
 	const route = '/api/workspaces/[ws]/members/[userId]';
 	const call = (
 		handler: typeof memberRoute.PATCH,
