@@ -194,3 +194,28 @@ export async function loadSnapshot(
 	const { id: _id, map, ...revision } = await requireRevision(db, mapId, ref);
 	return { map, label: `r${ref}`, revision, lint: lintMap(map) };
 }
+
+/** Every map of the workspace (by name) with its published revision numbers (newest first), for pickers. */
+export async function mapsWithRevisions(
+	db: DB,
+	workspaceId: string
+): Promise<{ id: string; name: string; revisions: number[] }[]> {
+	const maps = await db
+		.selectFrom('maps')
+		.select(['id', 'name'])
+		.where('workspace_id', '=', workspaceId)
+		.orderBy('name')
+		.execute();
+	const revisions = await db
+		.selectFrom('map_revisions')
+		.innerJoin('maps', 'maps.id', 'map_revisions.map_id')
+		.select(['map_revisions.map_id as mapId', 'map_revisions.number as number'])
+		.where('maps.workspace_id', '=', workspaceId)
+		.orderBy('map_revisions.number', 'desc')
+		.execute();
+	return maps.map((m) => ({
+		id: m.id,
+		name: m.name,
+		revisions: revisions.filter((r) => r.mapId === m.id).map((r) => r.number)
+	}));
+}

@@ -207,6 +207,33 @@ export function invitationProblem(
 	return null;
 }
 
+/** What the invitation page shows: the invitation, or why its link no longer works. */
+export async function invitationPageView(
+	db: DB,
+	token: string
+): Promise<
+	| {
+			invitation: { workspaceName: string; email: string; role: Role; expiresAt: string };
+			error: null;
+	  }
+	| { invitation: null; error: string }
+> {
+	const found = await findInvitationByToken(db, token);
+	const problem = invitationProblem(found?.invitation);
+	if (problem || !found)
+		return { invitation: null, error: problem?.message ?? 'This invitation link is not valid.' };
+	const { invitation, workspace } = found;
+	return {
+		invitation: {
+			workspaceName: workspace.name,
+			email: invitation.email,
+			role: invitation.role,
+			expiresAt: invitation.expires_at
+		},
+		error: null
+	};
+}
+
 /** Accepts an invitation for the signed-in user; returns the workspace slug to go to. */
 export async function acceptInvitation(
 	db: DB,

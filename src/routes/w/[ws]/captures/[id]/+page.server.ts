@@ -1,5 +1,6 @@
 import { orPageError } from '$lib/server/api';
-import { captureDetail, mapsWithRevisions } from '$lib/server/captures/captures-db';
+import { captureDetail } from '$lib/server/captures/captures-db';
+import { mapsWithRevisions } from '$lib/server/maps/revisions';
 import { requireRole } from '$lib/server/guard';
 import type { PageServerLoad } from './$types';
 
