@@ -32,9 +32,9 @@ import type { RequestEvent } from '@sveltejs/kit';
 import { canMapSchema, type SignalInput } from '../src/lib/can/map';
 import { seededRandom } from '../src/lib/can/testing/seeded-random';
 import { forgetCaptureDecodes } from '../src/lib/server/captures/decoding';
-import { createMap } from '../src/lib/server/db/maps';
-import { publishRevision } from '../src/lib/server/db/revisions';
-import { createWorkspace } from '../src/lib/server/db/workspaces';
+import { createMap } from '../src/lib/server/maps/maps';
+import { publishRevision } from '../src/lib/server/maps/revisions';
+import { createWorkspace } from '../src/lib/server/workspaces/workspaces';
 import { createLocalStorage } from '../src/lib/server/storage';
 import {
 	createTestServices,

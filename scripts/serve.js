@@ -40,6 +40,15 @@ if (!existsSync(entry)) {
 	);
 	process.exit(1);
 }
+// Migrates the database and seeds an empty demo database before the server opens it
+// (db/demo-start.ts, bundled by `npm run build` through scripts/build-demo-start.ts).
+const demoStartFile = join(buildDir, 'demo-start.mjs');
+if (!existsSync(demoStartFile)) {
+	console.error(`The build at ${buildDir} has no demo-start.mjs. Run \`npm run build\` again.`);
+	process.exit(1);
+}
+const { demoStart } = await import(pathToFileURL(demoStartFile).href);
+await demoStart();
 console.log(
 	`Framewright on ${env.ORIGIN} (database ${env.DATABASE_PATH}${env.FRAMEWRIGHT_DEMO === '1' ? ', demo mode' : ''})`
 );

@@ -2,10 +2,11 @@ import { building } from '$app/environment';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth';
-import { getServices } from '$lib/server/services';
+import { getServices } from '$lib/server/startup';
 
-// Opens and migrates the database, starts the demo mail server and seeds demo data before the
-// first request, so a misconfiguration fails at start-up rather than on someone's click.
+// Opens and migrates the database and starts the demo mail server before the first request, so a
+// misconfiguration fails at start-up rather than on someone's click. (Demo data is seeded before the
+// server starts, by db/demo-start.ts.)
 export const init: ServerInit = async () => {
 	if (!building) await getServices();
 };

@@ -1,4 +1,4 @@
-import { listWorkspacesForUser } from '$lib/server/db/workspaces';
+import { listWorkspacesForUser } from '$lib/server/workspaces/workspaces';
 import type { LayoutServerLoad } from './$types';
 
 export const load = (async ({ locals }) => {

@@ -1,8 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
 import { requireUser } from '$lib/server/guard';
 import { fieldErrorsOf } from '$lib/server/problem';
-import { workspaceInputSchema } from '$lib/server/schemas';
+import { workspaceInputSchema } from '$lib/api/workspaces';
 import type { Actions } from './$types';
 
 export const actions = {

@@ -1,10 +1,24 @@
 /**
- * The browser's side of the JSON API contract (`{ error, issues? }` on failure): one fetch wrapper that
- * every route's small client builds on, so each failure becomes an ApiError a person can read.
+ * The browser's side of the API contract: one typed call for every endpoint in `endpoints.ts`.
+ * Parameters, query, body and answer are typed from the endpoint's schemas; every failure becomes an
+ * ApiError a person can read (the server's own message, else the contract's words for the status).
  */
-import type { Issue as ApiIssue } from '$lib/server/problem';
+import {
+	endpoints,
+	endpointUrl,
+	type CallInput,
+	type EndpointName,
+	type ParamsOf,
+	type QueryOf,
+	type ResponseOf
+} from './endpoints';
+import type { Issue } from './problem';
 
-export type { ApiIssue };
+export { endpointUrl, type CallInput, type ResponseOf };
+
+type Args<I> = object extends I ? [input?: I] : [input: I];
+
+export type ApiIssue = Issue;
 
 export class ApiError extends Error {
 	constructor(
@@ -29,7 +43,7 @@ const commonFallbacks: FallbackMessages = {
 };
 
 /** Sends JSON (when `body` is given) and returns the parsed answer; 204 resolves to undefined. */
-export async function requestJson<T>(
+async function requestJson<T>(
 	fetcher: typeof fetch,
 	method: string,
 	url: string,
@@ -66,6 +80,51 @@ export async function requestJson<T>(
 	return payload as T;
 }
 
+// ---- typed calls ----
+
+/** Words for each failure status of this endpoint, from the contract. */
+function fallbacksOf(name: EndpointName): FallbackMessages {
+	const out: FallbackMessages = {};
+	for (const [status, spec] of Object.entries(endpoints[name].errors))
+		if (spec) out[Number(status)] = spec.description;
+	return out;
+}
+
+/** Calls one endpoint of the contract. */
+export function callApi<K extends EndpointName>(
+	name: K,
+	input: CallInput<K>,
+	fetcher: typeof fetch = fetch
+): Promise<ResponseOf<K>> {
+	const { signal, body } = input as { signal?: AbortSignal; body?: unknown };
+	const send: typeof fetch = signal ? (url, init) => fetcher(url, { ...init, signal }) : fetcher;
+	return requestJson<ResponseOf<K>>(
+		send,
+		endpoints[name].method,
+		endpointUrl(name, input as { params?: ParamsOf<K>; query?: QueryOf<K> }),
+		body,
+		fallbacksOf(name)
+	);
+}
+
+/**
+ * `callApi` for one workspace: the `{ws}` parameter is filled in, e.g.
+ * `api('maps.saveDraft', { params: { mapId }, body: { version, draft } })`.
+ */
+export function workspaceApi(slug: string, fetcher: typeof fetch = fetch) {
+	return <K extends EndpointName>(
+		name: K,
+		...[input]: Args<CallInput<K, Omit<ParamsOf<K>, 'ws'>>>
+	): Promise<ResponseOf<K>> =>
+		callApi(
+			name,
+			{ ...input, params: { ...input?.params, ws: slug } } as unknown as CallInput<K>,
+			fetcher
+		);
+}
+
+export type WorkspaceApi = ReturnType<typeof workspaceApi>;
+
 /** Field messages of a 400 answer, keyed by the field path (`issues[].path`). */
 export function fieldIssues(error: unknown): Record<string, string[]> {
 	const out: Record<string, string[]> = {};
@@ -75,4 +134,9 @@ export function fieldIssues(error: unknown): Record<string, string[]> {
 
 export function messageOf(error: unknown): string {
 	return error instanceof Error ? error.message : 'Something went wrong. Please try again.';
+}
+
+/** True for the 409 a stale draft save or publish gets; the page offers a reload instead of retrying. */
+export function isStale(error: unknown): boolean {
+	return error instanceof ApiError && error.status === 409;
 }

@@ -4,7 +4,7 @@ import Nodemailer from '@auth/sveltekit/providers/nodemailer';
 import type { Kysely } from 'kysely';
 import type { AppConfig } from './config';
 import type { DB } from './db';
-import { claimSigninLink } from './db/signin-requests';
+import { claimSigninLink } from './signin-requests';
 import { signInMail } from './mail/templates';
 import type { SendMail } from './mail/send';
 

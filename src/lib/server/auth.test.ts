@@ -3,7 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import * as signinPage from '../../routes/signin/+page.server';
 import { requestSignInLink, safeCallbackUrl } from './auth';
 import { createAuthConfig } from './auth-config';
-import { claimSigninLink } from './db/signin-requests';
+import { claimSigninLink } from './signin-requests';
 import { extractLinks } from './mail/mailbox';
 import {
 	countRows,

@@ -5,7 +5,7 @@ import * as workspacesRoute from '../../routes/api/workspaces/+server';
 import * as workspaceRoute from '../../routes/api/workspaces/[ws]/+server';
 import * as invitationsRoute from '../../routes/api/workspaces/[ws]/invitations/+server';
 import * as memberRoute from '../../routes/api/workspaces/[ws]/members/[userId]/+server';
-import { createWorkspace } from './db/workspaces';
+import { createWorkspace } from './workspaces/workspaces';
 import { countRows, createTestServices, createUser, makeEvent } from './test-support';
 
 type Handler = (event: RequestEvent) => Promise<Response>;

@@ -6,11 +6,12 @@ import * as invitationsRoute from '../../routes/api/workspaces/[ws]/invitations/
 import * as memberRoute from '../../routes/api/workspaces/[ws]/members/[userId]/+server';
 import * as membersRoute from '../../routes/api/workspaces/[ws]/members/+server';
 import * as workspaceLayout from '../../routes/w/[ws]/+layout.server';
-import { createInvitation } from './db/invitations';
-import { createWorkspace } from './db/workspaces';
+import { createInvitation } from './workspaces/invitations';
+import { createWorkspace } from './workspaces/workspaces';
 import type { SessionUser } from './guard';
-import type { Role } from './roles';
+import type { Role } from '../roles';
 import {
+	addMember,
 	countRows,
 	createTestServices,
 	createUser,
@@ -40,16 +41,12 @@ async function buildWorld(): Promise<World> {
 		outsider: await createUser(db, 'outsider@example.test')
 	};
 	const ws = await createWorkspace(db, { name: 'Guard test team', ownerId: users.owner.id });
-	const now = new Date().toISOString();
 	for (const [key, role] of [
 		['editor', 'editor'],
 		['viewer', 'viewer'],
 		['target', 'viewer']
 	] as const) {
-		await db
-			.insertInto('memberships')
-			.values({ workspace_id: ws.id, user_id: users[key].id, role, joined_at: now })
-			.execute();
+		await addMember(db, ws.id, users[key].id, role);
 	}
 	const { invitation } = await createInvitation(db, {
 		workspaceId: ws.id,

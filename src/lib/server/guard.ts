@@ -1,20 +1,11 @@
 import { error, redirect, type RequestEvent } from '@sveltejs/kit';
-import { findWorkspaceBySlug } from './db/workspaces';
-import { findMembership } from './db/members';
+import type { SessionUser, WorkspaceAccess } from './access';
+import { findWorkspaceBySlug } from './workspaces/workspaces';
+import { findMembership } from './workspaces/members';
 import { Problem } from './problem';
-import { roleAtLeast, type Role } from './roles';
+import { roleAtLeast, type Role } from '../roles';
 
-export interface SessionUser {
-	id: string;
-	email: string;
-	name: string | null;
-}
-
-export interface WorkspaceAccess {
-	user: SessionUser;
-	workspace: { id: string; slug: string; name: string };
-	role: Role;
-}
+export type { SessionUser, WorkspaceAccess };
 
 export type GuardEvent = Pick<RequestEvent, 'locals' | 'params' | 'url' | 'route'>;
 

@@ -1,17 +1,10 @@
-import { z } from 'zod';
-
-export interface Issue {
-	path: string;
-	message: string;
-	/** Where in an imported text file the problem is (CSV line, JSON line/column). */
-	line?: number;
-	column?: number | string;
-}
+import type { z } from 'zod';
+import type { ErrorStatus, Issue, ProblemBody } from '../api/problem';
 
 /** An expected failure with an HTTP status, reported to API clients as `{ error, issues? }`. */
 export class Problem extends Error {
 	constructor(
-		readonly status: 400 | 401 | 403 | 404 | 409 | 410 | 413 | 415 | 422,
+		readonly status: ErrorStatus,
 		message: string,
 		readonly issues?: Issue[],
 		/** More fields for the JSON body, e.g. `currentVersion` on a stale save. */
@@ -19,6 +12,15 @@ export class Problem extends Error {
 	) {
 		super(message);
 		this.name = 'Problem';
+	}
+
+	/** The JSON body of the contract's failure answer. */
+	body(): ProblemBody {
+		return {
+			error: this.message,
+			...(this.issues ? { issues: this.issues } : {}),
+			...this.extra
+		};
 	}
 }
 
@@ -39,9 +41,13 @@ export function fieldErrorsOf(error: z.ZodError): Record<string, string[]> {
 	return errors;
 }
 
-export function parseOrProblem<S extends z.ZodType>(schema: S, input: unknown): z.infer<S> {
+/** The input parsed by the schema, or a 400 listing every field that was refused. */
+export function parseOrProblem<S extends z.ZodType>(
+	schema: S,
+	input: unknown,
+	message = 'The request has invalid fields.'
+): z.output<S> {
 	const result = schema.safeParse(input);
-	if (!result.success)
-		throw new Problem(400, 'The request has invalid fields.', issuesOf(result.error));
+	if (!result.success) throw new Problem(400, message, issuesOf(result.error));
 	return result.data;
 }

@@ -1,15 +1,22 @@
 // Helpers for server tests: a real, freshly migrated in-memory SQLite database and hand-built
 // SvelteKit request events, so route handlers run exactly as in the server (no mocks of Kysely).
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
+import type { CanMap } from '../can/map';
+import { parseMap } from '../can/map-json';
+import type { Role } from '../roles';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase, migrateToLatest, type DB } from './db';
 import type { SessionUser } from './guard';
 import type { OutgoingMail } from './mail/send';
 import type { Services } from './services';
 import { createLocalStorage } from './storage';
+import { saveDraft } from './maps/drafts';
+import { createMap } from './maps/maps';
+import { publishRevision } from './maps/revisions';
+import { createWorkspace } from './workspaces/workspaces';
 
 export async function createTestDatabase(): Promise<DB> {
 	const db = createDatabase(':memory:');
@@ -54,6 +61,86 @@ export async function createUser(
 		.values({ ...user, emailVerified: null, image: null })
 		.execute();
 	return user;
+}
+
+/** Makes a user a member with this role, as an accepted invitation would (setup only: no audit row). */
+export async function addMember(
+	db: DB,
+	workspaceId: string,
+	userId: string,
+	role: Role
+): Promise<void> {
+	await db
+		.insertInto('memberships')
+		.values({
+			workspace_id: workspaceId,
+			user_id: userId,
+			role,
+			joined_at: new Date().toISOString()
+		})
+		.execute();
+}
+
+export type TeamMember = 'owner' | 'editor' | 'viewer' | 'outsider';
+
+export interface Team {
+	workspace: { id: string; slug: string; name: string };
+	/** owner created the workspace; editor and viewer are members; outsider is signed in but not a member. */
+	users: Record<TeamMember, SessionUser>;
+}
+
+/** A workspace with one user per role and an outsider (`<role>@example.test`, optional display names). */
+export async function createTeam(
+	db: DB,
+	name: string,
+	displayNames: Partial<Record<TeamMember, string>> = {}
+): Promise<Team> {
+	const user = (who: TeamMember) =>
+		createUser(db, `${who}@example.test`, displayNames[who] ?? null);
+	const users = {
+		owner: await user('owner'),
+		editor: await user('editor'),
+		viewer: await user('viewer'),
+		outsider: await user('outsider')
+	};
+	const workspace = await createWorkspace(db, { name, ownerId: users.owner.id });
+	await addMember(db, workspace.id, users.editor.id, 'editor');
+	await addMember(db, workspace.id, users.viewer.id, 'viewer');
+	return { workspace, users };
+}
+
+/** The text of a file in fixtures/ (the invented demo scenario). */
+export function fixtureText(fileName: string): string {
+	return readFileSync(new URL(`../../../fixtures/${fileName}`, import.meta.url), 'utf8');
+}
+
+/** A demo map from fixtures/, parsed as an import would. */
+export function fixtureMap(fileName: string): CanMap {
+	const parsed = parseMap(fixtureText(fileName));
+	if (!parsed.ok) throw new Error(`fixtures/${fileName} does not parse`);
+	return parsed.map;
+}
+
+/**
+ * A map published as r1, r2, … (one per entry of `revisions`), optionally with an unpublished
+ * `draft` saved on top. Returns the map's id.
+ */
+export async function createPublishedMap(
+	db: DB,
+	input: { workspaceId: string; actorId: string; revisions: CanMap[]; draft?: CanMap }
+): Promise<string> {
+	const { workspaceId, actorId } = input;
+	const [first, ...later] = input.revisions;
+	const { id: mapId } = await createMap(db, { workspaceId, map: first, actorId, source: 'json' });
+	let version = 1;
+	await publishRevision(db, { workspaceId, mapId, version, actorId, note: 'r1' });
+	for (const [k, map] of later.entries()) {
+		({ version } = await saveDraft(db, { workspaceId, mapId, version, draft: map, actorId }));
+		await publishRevision(db, { workspaceId, mapId, version, actorId, note: `r${k + 2}` });
+	}
+	if (input.draft)
+		await saveDraft(db, { workspaceId, mapId, version, draft: input.draft, actorId });
+	return mapId;
 }
 
 export async function countRows(

@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requestSignInLink, safeCallbackUrl } from '$lib/server/auth';
 import { fieldErrorsOf } from '$lib/server/problem';
-import { emailSchema } from '$lib/server/schemas';
+import { emailSchema } from '$lib/api/workspaces';
 import { z } from 'zod';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -14,26 +14,26 @@ import * as processRoute from '../../../routes/api/workspaces/[ws]/captures/[id]
 import * as statusRoute from '../../../routes/api/workspaces/[ws]/captures/[id]/status/+server';
 import { load as listLoad } from '../../../routes/w/[ws]/captures/+page.server';
 import { load as captureLoad } from '../../../routes/w/[ws]/captures/[id]/+page.server';
-import { createMap } from '../db/maps';
-import { publishRevision } from '../db/revisions';
-import { createWorkspace } from '../db/workspaces';
+import { createMap } from '../maps/maps';
+import { publishRevision } from '../maps/revisions';
 import type { SessionUser } from '../guard';
-import type { Role } from '../roles';
+import type { Role } from '../../roles';
 import {
+	createTeam,
 	createTestServices,
-	createUser,
 	makeEvent,
 	outcome,
 	type TestServices
 } from '../test-support';
-import { findCaptureRow, type CaptureDetail, type CaptureSummary } from './captures-db';
+import type { CaptureDetail, CaptureSummary } from '$lib/api/captures';
+import { findCaptureRow } from './captures-db';
 import {
 	failInterruptedProcessing,
 	INTERRUPTED_MESSAGE,
 	parseInWorker,
 	processingDone
 } from './processing';
-import type { DetectedLayout } from './schemas';
+import type { DetectedLayout } from '../../api/captures';
 import { loadFrameStore } from './store';
 
 type Handler = (event: RequestEvent) => Promise<Response>;
@@ -49,20 +49,11 @@ interface World {
 async function buildWorld(env: Record<string, string> = {}): Promise<World> {
 	const services = await createTestServices(env);
 	const { db } = services;
-	const users = {
-		owner: await createUser(db, 'owner@example.test', 'Owner'),
-		editor: await createUser(db, 'editor@example.test', 'Editor'),
-		viewer: await createUser(db, 'viewer@example.test', 'Viewer'),
-		outsider: await createUser(db, 'outsider@example.test')
-	};
-	const ws = await createWorkspace(db, { name: 'Capture test team', ownerId: users.owner.id });
-	const now = new Date().toISOString();
-	for (const role of ['editor', 'viewer'] as const) {
-		await db
-			.insertInto('memberships')
-			.values({ workspace_id: ws.id, user_id: users[role].id, role, joined_at: now })
-			.execute();
-	}
+	const { workspace: ws, users } = await createTeam(db, 'Capture test team', {
+		owner: 'Owner',
+		editor: 'Editor',
+		viewer: 'Viewer'
+	});
 	return { services, slug: ws.slug, workspaceId: ws.id, users };
 }
 

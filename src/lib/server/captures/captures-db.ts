@@ -3,54 +3,20 @@
  * a capture of another workspace is as unknown as a missing one.
  */
 import type { z } from 'zod';
-import type { CaptureLayout } from '../../can/capture/layout';
-import { captureLayoutSchema } from '../../can/capture/layout';
-import type { DB } from '../db/connection';
-import { personRef, type PersonRef } from '../db/maps';
-import type { CaptureRow, CaptureStatus, CaptureUpdate, NewCaptureRow } from '../db/schema';
-import { Problem } from '../problem';
 import {
 	captureReportSchema,
 	detectedLayoutSchema,
-	type CaptureReport,
+	type CaptureDetail,
+	type CaptureStatusResponse,
+	type CaptureSummary,
+	type DecodeRecord,
 	type DetectedLayout
-} from './schemas';
-
-export interface DecodeRecord {
-	id: string;
-	/** null once the map was deleted. */
-	mapId: string | null;
-	mapName: string;
-	/** Revision number, or null for the draft. */
-	revision: number | null;
-	draftVersion: number | null;
-	decodedAt: string;
-	decodedBy: PersonRef | null;
-}
-
-export interface CaptureSummary {
-	id: string;
-	name: string;
-	fileName: string;
-	sizeBytes: number;
-	uploadedAt: string;
-	uploadedBy: PersonRef | null;
-	status: CaptureStatus;
-	progress: number;
-	frameCount: number | null;
-	durationS: number | null;
-	error: string | null;
-	lastDecode: Pick<DecodeRecord, 'id' | 'mapId' | 'mapName' | 'revision' | 'decodedAt'> | null;
-}
-
-/** The GET capture shape (API and page load). */
-export interface CaptureDetail {
-	capture: CaptureSummary;
-	detected: DetectedLayout | null;
-	layout: CaptureLayout | null;
-	report: CaptureReport | null;
-	decodes: DecodeRecord[];
-}
+} from '../../api/captures';
+import { captureLayoutSchema, type CaptureLayout } from '../../can/capture/layout';
+import type { DB } from '../db/connection';
+import type { CaptureRow, CaptureUpdate } from '../db/schema';
+import { personRef } from '../people';
+import { Problem } from '../problem';
 
 function summaryQuery(db: DB) {
 	return db
@@ -175,7 +141,17 @@ export async function requireCaptureRow(
 	return row;
 }
 
-export async function findCaptureSummary(
+/** Processing status and progress, for polling. */
+export async function captureStatus(
+	db: DB,
+	workspaceId: string,
+	captureId: string
+): Promise<CaptureStatusResponse> {
+	const row = await requireCaptureRow(db, workspaceId, captureId);
+	return { status: row.status, progress: row.progress, error: row.error };
+}
+
+async function findCaptureSummary(
 	db: DB,
 	workspaceId: string,
 	captureId: string
@@ -199,7 +175,7 @@ export async function requireCaptureSummary(
 }
 
 /** Newest first. */
-export async function listDecodes(db: DB, captureId: string): Promise<DecodeRecord[]> {
+async function listDecodes(db: DB, captureId: string): Promise<DecodeRecord[]> {
 	const rows = await decodeQuery(db)
 		.where('capture_decodes.capture_id', '=', captureId)
 		.orderBy('capture_decodes.decoded_at', 'desc')
@@ -262,8 +238,45 @@ export async function captureDetail(
 	};
 }
 
-export async function insertCapture(db: DB, row: NewCaptureRow): Promise<void> {
-	await db.insertInto('captures').values(row).execute();
+/**
+ * A new capture row for a file just stored at `rawKey`: 'uploaded' while its layout awaits
+ * confirmation, or 'processing' when it is parsed at once with `layout`.
+ */
+export async function insertCapture(
+	db: DB,
+	input: {
+		id: string;
+		workspaceId: string;
+		fileName: string;
+		sizeBytes: number;
+		actorId: string | null;
+		rawKey: string;
+		detected: DetectedLayout;
+		layout: CaptureLayout | null;
+	}
+): Promise<void> {
+	await db
+		.insertInto('captures')
+		.values({
+			id: input.id,
+			workspace_id: input.workspaceId,
+			name: input.fileName,
+			file_name: input.fileName,
+			size_bytes: input.sizeBytes,
+			uploaded_by: input.actorId,
+			uploaded_at: new Date().toISOString(),
+			status: input.layout ? 'processing' : 'uploaded',
+			detected_json: JSON.stringify(input.detected),
+			layout_json: input.layout ? JSON.stringify(input.layout) : null,
+			report_json: null,
+			frame_count: null,
+			duration_s: null,
+			raw_key: input.rawKey,
+			store_key: null,
+			error: null,
+			processed_at: null
+		})
+		.execute();
 }
 
 export async function updateCapture(
@@ -276,29 +289,4 @@ export async function updateCapture(
 
 export async function deleteCaptureRow(db: DB, captureId: string): Promise<void> {
 	await db.deleteFrom('captures').where('id', '=', captureId).execute();
-}
-
-/** Every map of the workspace with its published revision numbers (newest first), for the decode panel. */
-export async function mapsWithRevisions(
-	db: DB,
-	workspaceId: string
-): Promise<{ id: string; name: string; revisions: number[] }[]> {
-	const maps = await db
-		.selectFrom('maps')
-		.select(['id', 'name'])
-		.where('workspace_id', '=', workspaceId)
-		.orderBy('name')
-		.execute();
-	const revisions = await db
-		.selectFrom('map_revisions')
-		.innerJoin('maps', 'maps.id', 'map_revisions.map_id')
-		.select(['map_revisions.map_id as mapId', 'map_revisions.number as number'])
-		.where('maps.workspace_id', '=', workspaceId)
-		.orderBy('map_revisions.number', 'desc')
-		.execute();
-	return maps.map((m) => ({
-		id: m.id,
-		name: m.name,
-		revisions: revisions.filter((r) => r.mapId === m.id).map((r) => r.number)
-	}));
 }

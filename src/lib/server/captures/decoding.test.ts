@@ -2,23 +2,22 @@
 // in-memory database, temporary blob storage, the demo fixtures (invented data) and hand-built
 // request events. Reference values come from the fixture CSV text itself, read with DataView
 // (ECMAScript DataView, big-/little-endian reads), never from the code under test.
-import { readFileSync, rmSync } from 'node:fs';
+import { rmSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ingestCapture } from '$lib/can/capture/ingest';
 import { LONG_FORM_HEADER } from '$lib/can/capture/export';
 import { decodeFrame } from '$lib/can/codec';
-import { parseMap } from '$lib/can/map-json';
 import type { CanMap } from '$lib/can/map';
-import { insertCapture } from '$lib/server/captures/captures-db';
-import { captureKeys } from '$lib/server/captures/store';
-import { createMap, findMapForWorkspace, saveDraft } from '$lib/server/db/maps';
-import { publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { importCaptureInProcess } from '$lib/server/captures/processing';
+import { saveDraft } from '$lib/server/maps/drafts';
+import { findMapForWorkspace } from '$lib/server/maps/maps';
 import type { SessionUser } from '$lib/server/guard';
 import {
+	createPublishedMap,
+	createTeam,
 	createTestServices,
-	createUser,
+	fixtureMap,
+	fixtureText,
 	makeEvent,
 	outcome,
 	type TestServices
@@ -28,21 +27,13 @@ import { GET as decodesRoute } from '../../../routes/api/workspaces/[ws]/capture
 import { POST as defineFrameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/define-frame/+server';
 import { GET as framesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/+server';
 import { GET as frameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/[index]/+server';
-import {
-	GET as seriesRoute,
-	type SeriesResponse
-} from '../../../routes/api/workspaces/[ws]/captures/[id]/series/+server';
+import { GET as seriesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/series/+server';
 import { GET as exportRoute } from '../../../routes/w/[ws]/captures/[id]/export/+server';
-import type { DecodeResponse } from './decoding';
+import type { DecodeResponse, FrameDetail, FrameRow, SeriesResponse } from '$lib/api/capture-views';
 import { forgetCaptureDecodes, getDecoded } from './decoding';
-import type { FrameDetail, FrameRow } from './frame-views';
 
-const fixture = (name: string) =>
-	readFileSync(new URL(`../../../../fixtures/${name}`, import.meta.url), 'utf8');
-const parsed = parseMap(fixture('club-racer-ecu.map.json'));
-if (!parsed.ok) throw new Error('the club racer fixture map must parse');
-const clubRacer: CanMap = parsed.map;
-const sessionCsv = fixture('club-racer-session.csv');
+const clubRacer = fixtureMap('club-racer-ecu.map.json');
+const sessionCsv = fixtureText('club-racer-session.csv');
 
 /** The fixture's frames as written: line number, time, id, payload bytes. */
 const csvFrames = sessionCsv
@@ -88,82 +79,28 @@ async function buildWorld(): Promise<World> {
 	const services = await createTestServices();
 	worlds.push(services);
 	const { db } = services;
-	const owner = await createUser(db, 'owner@example.test');
-	const editor = await createUser(db, 'editor@example.test');
-	const viewer = await createUser(db, 'viewer@example.test');
-	const outsider = await createUser(db, 'outsider@example.test');
-	const ws = await createWorkspace(db, { name: 'Decode team', ownerId: owner.id });
-	const joined_at = new Date().toISOString();
-	await db
-		.insertInto('memberships')
-		.values([
-			{ workspace_id: ws.id, user_id: editor.id, role: 'editor', joined_at },
-			{ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at }
-		])
-		.execute();
-	const map = await createMap(db, {
+	const {
+		workspace: ws,
+		users: { owner, editor, viewer, outsider }
+	} = await createTeam(db, 'Decode team');
+	const mapId = await createPublishedMap(db, {
 		workspaceId: ws.id,
-		map: clubRacer,
 		actorId: owner.id,
-		source: 'json'
-	});
-	await publishRevision(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 1,
-		actorId: owner.id,
-		note: 'r1'
-	});
-	await saveDraft(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 1,
-		draft: revisionTwo(clubRacer),
-		actorId: owner.id
-	});
-	await publishRevision(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 2,
-		actorId: owner.id,
-		note: 'r2'
+		revisions: [clubRacer, revisionTwo(clubRacer)]
 	});
 
-	// A processed capture as processing leaves it: raw CSV and compact frames in storage, status ready.
-	const { store, ...report } = await ingestCapture(sessionCsv);
-	const captureId = crypto.randomUUID();
-	const keys = captureKeys(ws.id, captureId);
-	const once = (bytes: Uint8Array) =>
-		(async function* () {
-			yield bytes;
-		})();
-	await services.storage.put(keys.raw, once(new TextEncoder().encode(sessionCsv)));
-	await services.storage.put(keys.store, once(store.toBytes()));
-	await insertCapture(db, {
-		id: captureId,
-		workspace_id: ws.id,
-		name: 'club-racer-session.csv',
-		file_name: 'club-racer-session.csv',
-		size_bytes: sessionCsv.length,
-		uploaded_by: viewer.id,
-		uploaded_at: joined_at,
-		status: 'ready',
-		detected_json: null,
-		layout_json: JSON.stringify(report.layout),
-		report_json: null,
-		frame_count: store.count,
-		duration_s: store.time[store.count - 1],
-		raw_key: keys.raw,
-		store_key: keys.store,
-		progress: 1,
-		error: null,
-		processed_at: joined_at
+	// Uploaded by the viewer and processed as the demo seed does it (in this thread, detected layout).
+	const captureId = await importCaptureInProcess(services, {
+		workspaceId: ws.id,
+		actorId: viewer.id,
+		fileName: 'club-racer-session.csv',
+		text: sessionCsv
 	});
 	return {
 		services,
 		slug: ws.slug,
 		workspaceId: ws.id,
-		mapId: map.id,
+		mapId,
 		captureId,
 		owner,
 		editor,

@@ -8,22 +8,17 @@ import type { FrameStore } from '../../can/capture/frame-store';
 import { decodeCapture, type CaptureDecoding } from '../../can/capture/decode-capture';
 import { compileMap, type CompiledMap } from '../../can/decoder';
 import type { CanMap } from '../../can/map';
-import { appendAudit } from '../db/audit';
-import { requireMap } from '../db/maps';
-import { requireRevision } from '../db/revisions';
+import { appendAudit } from '../workspaces/audit';
+import { requireMap } from '../maps/maps';
+import { requireRevision } from '../maps/revisions';
 import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { findDecode, insertDecode, requireCaptureRow, type DecodeRecord } from './captures-db';
-import { summarizeDecoding, type DecodeSummary } from './decode-summary';
+import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
+import { summarizeDecoding } from './decode-summary';
 import { loadFrameStore } from './store';
-import type { DecodeInput } from './view-schemas';
-
-/** The body of the decode routes (POST …/decode and GET …/decodes/[decodeId]). */
-export interface DecodeResponse {
-	decode: DecodeRecord;
-	summary: DecodeSummary;
-}
+import type { DecodeInput, DecodeResponse, DecodeSummary } from '../../api/capture-views';
+import type { DecodeRecord } from '../../api/captures';
 
 export interface Decoded {
 	decode: DecodeRecord;
@@ -42,7 +37,7 @@ interface CacheEntry {
 }
 
 /** Decodes kept per process: each holds its channels' samples, so only a few (a 1M-frame capture's are tens of MB). */
-export const DECODE_CACHE_SIZE = 4;
+const DECODE_CACHE_SIZE = 4;
 
 // Per database, so test databases (and their random ids) never share entries. Promises are cached
 // so two requests for the same decode wait for one computation instead of running two.
@@ -55,7 +50,7 @@ function cacheOf(services: Pick<Services, 'db'>): Map<string, Promise<CacheEntry
 }
 
 /** capture + map + `r<n>` or `d<draft version>`: the same key means the same map text, so the same result. */
-export function decodeCacheKey(
+function decodeCacheKey(
 	captureId: string,
 	mapId: string,
 	revision: number | null,
@@ -194,7 +189,7 @@ export async function getDecodeSummary(
 	workspaceId: string,
 	captureId: string,
 	decodeId: string
-): Promise<{ decode: DecodeRecord; summary: DecodeSummary }> {
+): Promise<DecodeResponse> {
 	const { decode, entry } = await decodedEntry(services, workspaceId, captureId, decodeId);
 	return { decode, summary: summaryOf(entry) };
 }

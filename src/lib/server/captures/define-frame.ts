@@ -3,26 +3,15 @@
  * (no signals yet), a normal draft change — versioned, audited, refused when the draft already
  * defines the ID (also through a J1939 frame that matches it by PGN).
  */
+import type { DefinedFrameResponse, DefineFrameInput } from '../../api/capture-views';
 import { compileMap } from '../../can/decoder';
-import { replaceDraft, requireMap } from '../db/maps';
+import { replaceDraft } from '../maps/drafts';
+import { requireMap } from '../maps/maps';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { requireCaptureRow } from './captures-db';
 import { getDecoded } from './decoding';
 import { undocumentedFrame, undocumentedFrameName } from './undocumented-frame';
-
-export interface DefineFrameInput {
-	decode: string;
-	id: number;
-	extended: boolean;
-}
-
-export interface DefinedFrame {
-	mapId: string;
-	/** The draft's version after the change. */
-	version: number;
-	frameIndex: number;
-}
 
 export async function defineFrameFromCapture(
 	services: Services,
@@ -30,7 +19,7 @@ export async function defineFrameFromCapture(
 	captureId: string,
 	input: DefineFrameInput,
 	actorId: string
-): Promise<DefinedFrame> {
+): Promise<DefinedFrameResponse> {
 	const { db } = services;
 	const { decode, result } = await getDecoded(services, workspaceId, captureId, input.decode);
 	const label = undocumentedFrameName(input.id, input.extended);

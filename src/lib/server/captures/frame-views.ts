@@ -6,40 +6,21 @@
 import { FLAG_EXTENDED, type FrameStore } from '../../can/capture/frame-store';
 import { decodeFrame } from '../../can/codec';
 import type { CompiledMap } from '../../can/decoder';
+import type {
+	FrameDetail,
+	FrameRow,
+	FrameSignalRow,
+	FramesQuery,
+	FramesResponse
+} from '../../api/capture-views';
 import { Problem } from '../problem';
-import type { FramesQuery } from './view-schemas';
-
-export interface FrameRow {
-	index: number;
-	/** Seconds from the capture's first frame. */
-	time: number;
-	id: number;
-	extended: boolean;
-	length: number;
-	/** Payload as spaced upper-case hex bytes. */
-	dataHex: string;
-}
-
-export interface FrameSignalRow {
-	name: string;
-	/** Integer raw value (as a decimal string when beyond 2^53), the IEEE 754 value of a float; null when absent. */
-	raw: number | string | null;
-	value: number | null;
-	unit: string;
-	label: string | null;
-	/** false when the signal is not in this frame (another mux page, or past the received payload). */
-	present: boolean;
-	inRange: boolean | null;
-}
-
-export interface FrameDetail {
-	frame: FrameRow & { frameName: string | null };
-	signals: FrameSignalRow[];
-}
+import type { Services } from '../services';
+import { getDecoded, requireReadyCapture } from './decoding';
+import { loadFrameStore } from './store';
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
 
-export function frameRow(store: FrameStore, i: number): FrameRow {
+function frameRow(store: FrameStore, i: number): FrameRow {
 	const payload = store.payload(i);
 	let dataHex = '';
 	for (let k = 0; k < payload.length; k++) dataHex += (k ? ' ' : '') + HEX[payload[k]];
@@ -54,10 +35,10 @@ export function frameRow(store: FrameStore, i: number): FrameRow {
 }
 
 /** One page of frames in capture order; `total` counts every frame the filter lets through. */
-export function listFrames(
+function listFrames(
 	store: FrameStore,
 	query: Pick<FramesQuery, 'offset' | 'limit' | 'id' | 'extended'>
-): { total: number; frames: FrameRow[] } {
+): FramesResponse {
 	const { offset, limit, id, extended } = query;
 	const frames: FrameRow[] = [];
 	if (id === undefined) {
@@ -78,7 +59,7 @@ export function listFrames(
 	return { total, frames };
 }
 
-export function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
+function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
 	if (index >= store.count) {
 		throw new Problem(
 			404,
@@ -112,4 +93,26 @@ export function frameDetail(store: FrameStore, compiled: CompiledMap, index: num
 		};
 	});
 	return { frame: { ...row, frameName: definition.frame.name }, signals };
+}
+
+/** A page of a processed capture's frames. */
+export async function captureFrames(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	query: FramesQuery
+): Promise<FramesResponse> {
+	const capture = await requireReadyCapture(services, workspaceId, captureId);
+	return listFrames(await loadFrameStore(services, capture), query);
+}
+
+/** Frame `index` of a capture with its signals as the map of decode `decode` reads them. */
+export async function decodedFrame(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	query: { index: number; decode: string }
+): Promise<FrameDetail> {
+	const { store, compiled } = await getDecoded(services, workspaceId, captureId, query.decode);
+	return frameDetail(store, compiled, query.index);
 }

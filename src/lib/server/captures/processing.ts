@@ -8,7 +8,7 @@
 import { Worker } from 'node:worker_threads';
 import { ingestCapture } from '../../can/capture/ingest';
 import type { CaptureLayout } from '../../can/capture/layout';
-import { appendAudit } from '../db/audit';
+import { appendAudit } from '../workspaces/audit';
 import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
@@ -17,10 +17,9 @@ import {
 	insertCapture,
 	requireCaptureRow,
 	requireCaptureSummary,
-	updateCapture,
-	type CaptureSummary
+	updateCapture
 } from './captures-db';
-import type { CaptureReport } from './schemas';
+import type { CaptureReport, CaptureSummary } from '../../api/captures';
 import { captureKeys, forgetFrameStore } from './store';
 import { DETECTION_BYTES, detectFromHead } from './upload';
 import { captureWorkerPath } from './worker-bundle';
@@ -225,22 +224,13 @@ export async function importCaptureInProcess(
 	await services.storage.put(keys.raw, single(bytes));
 	await insertCapture(services.db, {
 		id,
-		workspace_id: input.workspaceId,
-		name: input.fileName,
-		file_name: input.fileName,
-		size_bytes: bytes.byteLength,
-		uploaded_by: input.actorId,
-		uploaded_at: new Date().toISOString(),
-		status: 'processing',
-		detected_json: JSON.stringify(detected),
-		layout_json: JSON.stringify(detected.layout),
-		report_json: null,
-		frame_count: null,
-		duration_s: null,
-		raw_key: keys.raw,
-		store_key: null,
-		error: null,
-		processed_at: null
+		workspaceId: input.workspaceId,
+		fileName: input.fileName,
+		sizeBytes: bytes.byteLength,
+		actorId: input.actorId,
+		rawKey: keys.raw,
+		detected,
+		layout: detected.layout
 	});
 	const { store, ...report } = await ingestCapture(input.text, { layout: detected.layout });
 	let durationS = 0;

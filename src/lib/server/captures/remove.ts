@@ -1,7 +1,7 @@
 /** Deleting a capture: owners delete any, others only their own uploads; its blobs go with it. */
-import { appendAudit } from '../db/audit';
+import { appendAudit } from '../workspaces/audit';
 import { Problem } from '../problem';
-import type { Role } from '../roles';
+import type { Role } from '../../roles';
 import type { Services } from '../services';
 import { deleteCaptureRow, requireCaptureRow } from './captures-db';
 import { forgetCaptureDecodes } from './decoding';

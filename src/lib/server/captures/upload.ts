@@ -6,13 +6,13 @@
  * capture columns, 400 for an empty body.
  */
 import Papa from 'papaparse';
+import type { DetectedLayout, UploadResponse } from '../../api/captures';
 import { CaptureFormatError, detectCaptureLayout } from '../../can/capture/detect-layout';
-import { appendAudit } from '../db/audit';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { formatBytes, StorageLimitError } from '../storage/storage';
-import { insertCapture, requireCaptureSummary, type CaptureSummary } from './captures-db';
-import type { DetectedLayout } from './schemas';
+import { byteChunks, formatBytes, StorageLimitError } from '../storage/storage';
+import { appendAudit } from '../workspaces/audit';
+import { insertCapture, requireCaptureSummary } from './captures-db';
 import { captureKeys } from './store';
 
 /** Bytes kept aside for the layout guess. */
@@ -37,7 +37,7 @@ class NotACaptureError extends Error {}
  * Binary if it holds a NUL byte or more than 1 in 20 control bytes other than tab, CR, LF
  * (common practice for telling text files from binary ones, as text tools do).
  */
-export function looksBinary(bytes: Uint8Array): boolean {
+function looksBinary(bytes: Uint8Array): boolean {
 	let control = 0;
 	for (const b of bytes) {
 		if (b === 0) return true;
@@ -52,31 +52,19 @@ async function* tapped(
 	head: { bytes: Uint8Array; length: number }
 ): AsyncGenerator<Uint8Array> {
 	let sniffed = false;
-	const reader = body.getReader();
-	let finished = false;
-	try {
-		for (;;) {
-			const { done, value } = await reader.read();
-			if (done) {
-				finished = true;
-				break;
-			}
-			if (head.length < DETECTION_BYTES) {
-				const n = Math.min(DETECTION_BYTES - head.length, value.byteLength);
-				head.bytes.set(value.subarray(0, n), head.length);
-				head.length += n;
-			}
-			if (!sniffed && head.length >= SNIFF_BYTES) {
-				sniffed = true;
-				if (looksBinary(head.bytes.subarray(0, SNIFF_BYTES))) throw new NotACaptureError();
-			}
-			yield value;
+	for await (const value of byteChunks(body)) {
+		if (head.length < DETECTION_BYTES) {
+			const n = Math.min(DETECTION_BYTES - head.length, value.byteLength);
+			head.bytes.set(value.subarray(0, n), head.length);
+			head.length += n;
 		}
-		if (!sniffed && looksBinary(head.bytes.subarray(0, head.length))) throw new NotACaptureError();
-	} finally {
-		if (!finished) await reader.cancel().catch(() => {});
-		reader.releaseLock();
+		if (!sniffed && head.length >= SNIFF_BYTES) {
+			sniffed = true;
+			if (looksBinary(head.bytes.subarray(0, SNIFF_BYTES))) throw new NotACaptureError();
+		}
+		yield value;
 	}
+	if (!sniffed && looksBinary(head.bytes.subarray(0, head.length))) throw new NotACaptureError();
 }
 
 /** The layout guess and a preview from the first bytes (cut at the last whole line unless that is all). */
@@ -95,6 +83,16 @@ export function detectFromHead(head: Uint8Array, complete: boolean): DetectedLay
 	return { layout: guess.layout, notes: guess.notes, sampleRows: preview.data };
 }
 
+/** The request's Content-Length as a byte count, null when it sent none. */
+export function readContentLength(headers: Headers): number | null {
+	const header = headers.get('content-length');
+	if (header === null) return null;
+	const bytes = Number(header);
+	if (!(Number.isInteger(bytes) && bytes >= 0))
+		throw new Problem(400, 'The Content-Length header is not a byte count.');
+	return bytes;
+}
+
 const refuseNotCapture = (detail: string) =>
 	new Problem(
 		415,
@@ -104,7 +102,7 @@ const refuseNotCapture = (detail: string) =>
 export async function receiveCaptureUpload(
 	services: Pick<Services, 'db' | 'storage' | 'config'>,
 	input: UploadInput
-): Promise<{ capture: CaptureSummary; detected: DetectedLayout }> {
+): Promise<UploadResponse> {
 	const limit = services.config.captureMaxBytes;
 	const tooLarge = () =>
 		new Problem(
@@ -151,22 +149,13 @@ export async function receiveCaptureUpload(
 		await services.db.transaction().execute(async (trx) => {
 			await insertCapture(trx, {
 				id,
-				workspace_id: input.workspaceId,
-				name: input.fileName,
-				file_name: input.fileName,
-				size_bytes: size,
-				uploaded_by: input.actorId,
-				uploaded_at: new Date().toISOString(),
-				status: 'uploaded',
-				detected_json: JSON.stringify(detected),
-				layout_json: null,
-				report_json: null,
-				frame_count: null,
-				duration_s: null,
-				raw_key: keys.raw,
-				store_key: null,
-				error: null,
-				processed_at: null
+				workspaceId: input.workspaceId,
+				fileName: input.fileName,
+				sizeBytes: size,
+				actorId: input.actorId,
+				rawKey: keys.raw,
+				detected,
+				layout: null
 			});
 			await appendAudit(trx, {
 				workspaceId: input.workspaceId,

@@ -1,5 +1,6 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
-import type { Role } from '../roles';
+import type { CaptureStatus } from '../../api/captures';
+import type { Role } from '../../roles';
 
 // Types mirror what better-sqlite3 returns: timestamps as ISO text (or epoch ms where noted),
 // booleans would be 0/1. Columns the database fills are Generated<>.
@@ -134,8 +135,6 @@ export interface ShareLinkTable {
 	expires_at: string | null;
 	revoked_at: string | null;
 }
-
-export type CaptureStatus = 'uploaded' | 'processing' | 'ready' | 'failed';
 
 export interface CaptureTable {
 	id: string;

@@ -1,5 +1,5 @@
 import { lintMap } from '$lib/can/lint';
-import { requireSharedRevision } from '$lib/server/map-views';
+import { requireSharedRevision } from '$lib/server/maps/views';
 import type { PageServerLoad } from './$types';
 
 // Public: anyone holding the link may read this one revision, signed in or not.

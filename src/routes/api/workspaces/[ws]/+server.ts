@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
+import { workspaceInputSchema, type RenamedWorkspaceResponse } from '$lib/api/workspaces';
 import { apiRoute, noContent, readJsonBody } from '$lib/server/api';
-import { deleteWorkspace, renameWorkspace } from '$lib/server/db/workspaces';
 import { requireRole } from '$lib/server/guard';
-import { workspaceInputSchema } from '$lib/server/schemas';
+import { deleteWorkspace, renameWorkspace } from '$lib/server/workspaces/workspaces';
 import type { RequestHandler } from './$types';
 
 export const PATCH: RequestHandler = apiRoute(async (event) => {
@@ -13,7 +13,7 @@ export const PATCH: RequestHandler = apiRoute(async (event) => {
 		name,
 		actorId: user.id
 	});
-	return json({ workspace: { id: renamed.id, slug: renamed.slug, name: renamed.name } });
+	return json({ workspace: renamed } satisfies RenamedWorkspaceResponse);
 });
 
 export const DELETE: RequestHandler = apiRoute(async (event) => {

@@ -1,4 +1,4 @@
-import { requireSharedRevision } from '$lib/server/map-views';
+import { requireSharedRevision } from '$lib/server/maps/views';
 import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -3,13 +3,9 @@
  * runs in a worker on the server, so the page only asks now and then; a transient network error
  * does not end the watch, but repeated ones do, with the last error.
  */
-import type { CaptureStatus } from './capture-api';
+import type { CaptureStatus, CaptureStatusResponse as StatusAnswer } from '$lib/api/captures';
 
-export interface StatusAnswer {
-	status: CaptureStatus;
-	progress: number;
-	error: string | null;
-}
+export type { StatusAnswer };
 
 export interface PollOptions {
 	onupdate?: (answer: StatusAnswer) => void;

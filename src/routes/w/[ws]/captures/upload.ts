@@ -4,12 +4,9 @@
  * sentences that say what to do next.
  */
 import { ApiError } from '$lib/api/client';
-import type { CaptureSummary, DetectedLayout } from './capture-api';
+import type { UploadResponse as UploadAnswer } from '$lib/api/captures';
 
-export interface UploadAnswer {
-	capture: CaptureSummary;
-	detected: DetectedLayout;
-}
+export type { UploadAnswer };
 
 /** The part of XMLHttpRequest this module uses, so tests can hand in a stand-in. */
 export interface UploadRequest {

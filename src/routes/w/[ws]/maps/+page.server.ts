@@ -1,4 +1,4 @@
-import { listMaps } from '$lib/server/db/maps';
+import { listMaps } from '$lib/server/maps/maps';
 import { requireRole } from '$lib/server/guard';
 import type { PageServerLoad } from './$types';
 

@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import type { BusLoadExclusion } from '$lib/can/busload';
 import { formatCanId } from '$lib/can/map-json';
-import type { BusLoadResponse } from '../../../api/workspaces/[ws]/tools/bus-load/bus-load-response';
+import type { BusLoadResponse } from '$lib/api/tools';
 
 export interface CountedFrameRow {
 	frameIndex: number;

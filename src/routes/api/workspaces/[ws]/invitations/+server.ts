@@ -1,31 +1,17 @@
 import { json } from '@sveltejs/kit';
+import { invitationInputSchema, type InvitationResponse } from '$lib/api/workspaces';
 import { apiRoute, readJsonBody } from '$lib/server/api';
-import { createInvitation } from '$lib/server/db/invitations';
 import { requireRole } from '$lib/server/guard';
-import { invitationMail } from '$lib/server/mail/templates';
-import { invitationInputSchema } from '$lib/server/schemas';
+import { inviteByEmail } from '$lib/server/workspaces/invitations';
 import type { RequestHandler } from './$types';
 
 export const POST: RequestHandler = apiRoute(async (event) => {
-	const { user, workspace } = await requireRole(event, 'owner');
+	const access = await requireRole(event, 'owner');
 	const { email, role } = await readJsonBody(event.request, invitationInputSchema);
-	const { db, config, sendMail } = event.locals.services;
-	const { invitation, token } = await createInvitation(db, {
-		workspaceId: workspace.id,
+	const answer = await inviteByEmail(event.locals.services, access, {
 		email,
 		role,
-		invitedBy: user.id,
-		maxAgeMs: config.invitationMaxAgeMs
+		origin: event.url.origin
 	});
-	await sendMail(
-		invitationMail({
-			to: email,
-			url: new URL(`/invite/${token}`, event.url.origin).toString(),
-			workspaceName: workspace.name,
-			role,
-			invitedBy: user.name ?? user.email,
-			expires: new Date(invitation.expiresAt)
-		})
-	);
-	return json({ invitation }, { status: 201 });
+	return json(answer satisfies InvitationResponse, { status: 201 });
 });

@@ -1,18 +1,16 @@
 import { json } from '@sveltejs/kit';
+import type { MembersOverview } from '$lib/api/workspaces';
 import { apiRoute } from '$lib/server/api';
-import { listPendingInvitations } from '$lib/server/db/invitations';
-import { listMembers } from '$lib/server/db/members';
 import { requireRole } from '$lib/server/guard';
+import { membersOverview } from '$lib/server/workspaces/members';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace, role } = await requireRole(event, 'viewer');
-	const { db } = event.locals.services;
-	return json({
-		members: await listMembers(db, workspace.id),
-		// Who was invited is the owners' business only.
-		invitations: role === 'owner' ? await listPendingInvitations(db, workspace.id) : [],
-		myRole: role,
-		myUserId: user.id
+	const overview = await membersOverview(event.locals.services.db, {
+		workspaceId: workspace.id,
+		userId: user.id,
+		role
 	});
+	return json(overview satisfies MembersOverview);
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { ChannelStats } from '../capture-api';
+import type { ChannelSummary as ChannelStats } from '$lib/api/capture-views';
 import { compareChannels, defaultDecodeChoice, groupByFrame } from './decode-model';
 
 const channel = (

@@ -3,7 +3,8 @@
  * channels grouped by frame, and two decodes' channel statistics side by side (switch revision and
  * compare), matched by frame and signal name because indices shift when a revision adds a signal.
  */
-import type { ChannelStats, DecodeRecord, DecodeRevision } from '../capture-api';
+import type { ChannelSummary as ChannelStats, DecodeRevision } from '$lib/api/capture-views';
+import type { DecodeRecord } from '$lib/api/captures';
 
 export interface MapChoice {
 	id: string;

@@ -1,5 +1,6 @@
 import { requireRole } from '$lib/server/guard';
-import { mapView, orPageError } from '$lib/server/map-views';
+import { orPageError } from '$lib/server/api';
+import { mapView } from '$lib/server/maps/views';
 import type { PageServerLoad } from './$types';
 
 // The same shape as GET /api/workspaces/[ws]/maps/[mapId], for the first paint.

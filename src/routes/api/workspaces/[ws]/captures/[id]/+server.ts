@@ -1,4 +1,5 @@
 import { json } from '@sveltejs/kit';
+import type { CaptureDetail } from '$lib/api/captures';
 import { apiRoute, noContent } from '$lib/server/api';
 import { captureDetail } from '$lib/server/captures/captures-db';
 import { deleteCapture } from '$lib/server/captures/remove';
@@ -7,7 +8,8 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
-	return json(await captureDetail(event.locals.services.db, workspace.id, event.params.id));
+	const detail = await captureDetail(event.locals.services.db, workspace.id, event.params.id);
+	return json(detail satisfies CaptureDetail);
 });
 
 /** Owners delete any capture; viewers and editors their own uploads (checked in deleteCapture). */

@@ -1,5 +1,5 @@
 import { apiRoute, noContent } from '$lib/server/api';
-import { revokeInvitation } from '$lib/server/db/invitations';
+import { revokeInvitation } from '$lib/server/workspaces/invitations';
 import { requireRole } from '$lib/server/guard';
 import type { RequestHandler } from './$types';
 

@@ -1,14 +1,16 @@
 import { json } from '@sveltejs/kit';
+import { renameInputSchema, type MapView, type RenamedMapResponse } from '$lib/api/maps';
 import { apiRoute, noContent, readJsonBody } from '$lib/server/api';
-import { deleteMap, renameMap } from '$lib/server/db/maps';
 import { requireRole } from '$lib/server/guard';
-import { renameInputSchema } from '$lib/server/map-schemas';
-import { mapView } from '$lib/server/map-views';
+import { renameMap } from '$lib/server/maps/drafts';
+import { deleteMap } from '$lib/server/maps/maps';
+import { mapView } from '$lib/server/maps/views';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { workspace, role } = await requireRole(event, 'viewer');
-	return json(await mapView(event.locals.services.db, workspace.id, event.params.mapId, role));
+	const view = await mapView(event.locals.services.db, workspace.id, event.params.mapId, role);
+	return json(view satisfies MapView);
 });
 
 export const PATCH: RequestHandler = apiRoute(async (event) => {
@@ -21,7 +23,7 @@ export const PATCH: RequestHandler = apiRoute(async (event) => {
 		version,
 		actorId: user.id
 	});
-	return json({ map: { id: event.params.mapId, name: renamed.name }, version: renamed.version });
+	return json(renamed satisfies RenamedMapResponse);
 });
 
 export const DELETE: RequestHandler = apiRoute(async (event) => {

@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
+import { roleChangeSchema, type MemberResponse } from '$lib/api/workspaces';
 import { apiRoute, noContent, readJsonBody } from '$lib/server/api';
-import { changeMemberRole, removeMember } from '$lib/server/db/members';
 import { requireRole } from '$lib/server/guard';
-import { roleChangeSchema } from '$lib/server/schemas';
+import { changeMemberRole, removeMember } from '$lib/server/workspaces/members';
 import type { RequestHandler } from './$types';
 
 export const PATCH: RequestHandler = apiRoute(async (event) => {
@@ -14,7 +14,7 @@ export const PATCH: RequestHandler = apiRoute(async (event) => {
 		role,
 		actorId: user.id
 	});
-	return json({ member });
+	return json({ member } satisfies MemberResponse);
 });
 
 // Owners remove anyone; every member may remove themself (leave).

@@ -1,32 +1,23 @@
 // The bus-load route run as the server runs it: a freshly migrated in-memory database, the demo
 // fixture map (invented data) published as r1, hand-built request events.
-import { readFileSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import { mapBusLoad } from '$lib/can/busload';
-import { parseMap } from '$lib/can/map-json';
-import { createMap, saveDraft } from '$lib/server/db/maps';
-import { loadSnapshot, publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { loadSnapshot } from '$lib/server/maps/revisions';
 import type { SessionUser } from '$lib/server/guard';
 import {
+	createPublishedMap,
+	createTeam,
 	createTestServices,
-	createUser,
+	fixtureMap,
 	makeEvent,
 	type TestServices
 } from '$lib/server/test-support';
-import type { BusLoadResponse } from './bus-load-response';
+import type { BusLoadResponse } from '$lib/api/tools';
 import { GET } from './+server';
 
 const ROUTE = '/api/workspaces/[ws]/tools/bus-load';
-const fixture = parseMap(
-	readFileSync(
-		new URL('../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
-		'utf8'
-	)
-);
-if (!fixture.ok) throw new Error('the club racer fixture must parse');
-const clubRacer = fixture.map;
+const clubRacer = fixtureMap('club-racer-ecu.map.json');
 
 interface World {
 	services: TestServices;
@@ -40,36 +31,18 @@ interface World {
 async function buildWorld(): Promise<World> {
 	const services = await createTestServices();
 	const { db } = services;
-	const owner = await createUser(db, 'owner@example.test');
-	const viewer = await createUser(db, 'viewer@example.test');
-	const outsider = await createUser(db, 'outsider@example.test');
-	const ws = await createWorkspace(db, { name: 'Bus load team', ownerId: owner.id });
-	await db
-		.insertInto('memberships')
-		.values({
-			workspace_id: ws.id,
-			user_id: viewer.id,
-			role: 'viewer',
-			joined_at: new Date().toISOString()
-		})
-		.execute();
-	const map = await createMap(db, {
-		workspaceId: ws.id,
-		map: clubRacer,
-		actorId: owner.id,
-		source: 'json'
-	});
-	await publishRevision(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 1,
-		actorId: owner.id,
-		note: 'r1'
-	});
+	const {
+		workspace: ws,
+		users: { owner, viewer, outsider }
+	} = await createTeam(db, 'Bus load team');
 	// The draft drops the fastest frame, so r1 and the draft have different loads.
-	const draft = { ...structuredClone(clubRacer), frames: clubRacer.frames.slice(1) };
-	await saveDraft(db, { workspaceId: ws.id, mapId: map.id, version: 1, draft, actorId: owner.id });
-	return { services, slug: ws.slug, workspaceId: ws.id, mapId: map.id, viewer, outsider };
+	const mapId = await createPublishedMap(db, {
+		workspaceId: ws.id,
+		actorId: owner.id,
+		revisions: [clubRacer],
+		draft: { ...structuredClone(clubRacer), frames: clubRacer.frames.slice(1) }
+	});
+	return { services, slug: ws.slug, workspaceId: ws.id, mapId, viewer, outsider };
 }
 
 async function get(w: World, user: SessionUser | null, query: string): Promise<Response> {

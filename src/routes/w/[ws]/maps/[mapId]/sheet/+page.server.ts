@@ -1,17 +1,18 @@
-import { loadSnapshot } from '$lib/server/db/revisions';
+import { sheetQuerySchema } from '$lib/api/maps';
+import { orPageError, readQuery } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { orPageError, readRevisionRef } from '$lib/server/map-views';
+import { loadSnapshot } from '$lib/server/maps/revisions';
 import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
 	return orPageError(async () => {
-		const ref = readRevisionRef(event.url, 'rev', 'draft');
+		const { rev } = readQuery(event.url, sheetQuerySchema);
 		const snapshot = await loadSnapshot(
 			event.locals.services.db,
 			workspace.id,
 			event.params.mapId,
-			ref
+			rev
 		);
 		return {
 			map: snapshot.map,
@@ -19,7 +20,7 @@ export const load = (async (event) => {
 			publishedAt: snapshot.revision?.publishedAt ?? null,
 			note: snapshot.revision?.note ?? null,
 			mapId: event.params.mapId,
-			rev: ref
+			rev
 		};
 	});
 }) satisfies PageServerLoad;

@@ -2,33 +2,25 @@
 // the test services' temporary blob storage, the demo fixtures (invented data) and hand-built request events. The
 // expected events come from the fixture CSV read with ECMAScript DataView (little-endian u16 × 0.1
 // for oil pressure) and the ISA-18.2 / IEC 62682 latching rule (from memory), not from the code under test.
-import { readFileSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import type { AlertReplay } from '$lib/can/alerts/replay';
-import { ingestCapture } from '$lib/can/capture/ingest';
-import { parseMap } from '$lib/can/map-json';
-import type { CanMap } from '$lib/can/map';
-import { insertCapture } from '$lib/server/captures/captures-db';
-import { createMap, saveDraft } from '$lib/server/db/maps';
-import { publishRevision } from '$lib/server/db/revisions';
-import { createWorkspace } from '$lib/server/db/workspaces';
+import { importCaptureInProcess } from '$lib/server/captures/processing';
 import type { SessionUser } from '$lib/server/guard';
 import {
+	createPublishedMap,
+	createTeam,
 	createTestServices,
-	createUser,
+	fixtureMap,
+	fixtureText,
 	makeEvent,
 	type TestServices
 } from '$lib/server/test-support';
 import { POST as decodeRoute } from '../decode/+server';
 import { POST as alertsRoute } from './+server';
 
-const fixture = (name: string) =>
-	readFileSync(new URL(`../../../../../../../../fixtures/${name}`, import.meta.url), 'utf8');
-const parsed = parseMap(fixture('club-racer-ecu.map.json'));
-if (!parsed.ok) throw new Error('the club racer fixture map must parse');
-const clubRacer: CanMap = parsed.map;
-const sessionCsv = fixture('club-racer-session.csv');
+const clubRacer = fixtureMap('club-racer-ecu.map.json');
+const sessionCsv = fixtureText('club-racer-session.csv');
 
 // Reference: oil pressure straight from the CSV bytes, times from the first frame.
 const rows = sessionCsv
@@ -59,74 +51,25 @@ interface World {
 /** r1 = the fixture map with its two demo rules; r2 = the same map without rules. */
 async function buildWorld(): Promise<World> {
 	const services = await createTestServices(); // with a temporary blob store
-	const { db, storage } = services;
-	const owner = await createUser(db, 'owner@example.test');
-	const viewer = await createUser(db, 'viewer@example.test');
-	const outsider = await createUser(db, 'outsider@example.test');
-	const ws = await createWorkspace(db, { name: 'Alert team', ownerId: owner.id });
-	const joined_at = new Date().toISOString();
-	await db
-		.insertInto('memberships')
-		.values({ workspace_id: ws.id, user_id: viewer.id, role: 'viewer', joined_at })
-		.execute();
-	const map = await createMap(db, {
+	const { db } = services;
+	const {
+		workspace: ws,
+		users: { owner, viewer, outsider }
+	} = await createTeam(db, 'Alert team');
+	const mapId = await createPublishedMap(db, {
 		workspaceId: ws.id,
-		map: clubRacer,
 		actorId: owner.id,
-		source: 'json'
-	});
-	await publishRevision(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 1,
-		actorId: owner.id,
-		note: 'r1'
-	});
-	await saveDraft(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 1,
-		draft: { ...clubRacer, alertRules: [] },
-		actorId: owner.id
-	});
-	await publishRevision(db, {
-		workspaceId: ws.id,
-		mapId: map.id,
-		version: 2,
-		actorId: owner.id,
-		note: 'r2'
+		revisions: [clubRacer, { ...clubRacer, alertRules: [] }]
 	});
 
-	// A processed capture as processing leaves it: raw CSV and compact frames in storage, status ready.
-	const { store, ...report } = await ingestCapture(sessionCsv);
-	const captureId = crypto.randomUUID();
-	const once = (bytes: Uint8Array) =>
-		(async function* () {
-			yield bytes;
-		})();
-	await storage.put(`captures/${captureId}/raw.csv`, once(new TextEncoder().encode(sessionCsv)));
-	await storage.put(`captures/${captureId}/frames.bin`, once(store.toBytes()));
-	await insertCapture(db, {
-		id: captureId,
-		workspace_id: ws.id,
-		name: 'session',
-		file_name: 'club-racer-session.csv',
-		size_bytes: sessionCsv.length,
-		uploaded_by: viewer.id,
-		uploaded_at: joined_at,
-		status: 'ready',
-		detected_json: null,
-		layout_json: JSON.stringify(report.layout),
-		report_json: null,
-		frame_count: store.count,
-		duration_s: store.time[store.count - 1],
-		raw_key: `captures/${captureId}/raw.csv`,
-		store_key: `captures/${captureId}/frames.bin`,
-		progress: 1,
-		error: null,
-		processed_at: joined_at
+	// Uploaded by the viewer and processed as the demo seed does it (in this thread, detected layout).
+	const captureId = await importCaptureInProcess(services, {
+		workspaceId: ws.id,
+		actorId: viewer.id,
+		fileName: 'club-racer-session.csv',
+		text: sessionCsv
 	});
-	return { services, slug: ws.slug, mapId: map.id, captureId, viewer, outsider };
+	return { services, slug: ws.slug, mapId, captureId, viewer, outsider };
 }
 
 function event(w: World, user: SessionUser | null, route: 'decode' | 'alerts', body: unknown) {

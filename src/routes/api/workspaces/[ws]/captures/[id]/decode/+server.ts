@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
+import { decodeInputSchema, type DecodeResponse } from '$lib/api/capture-views';
 import { apiRoute, readJsonBody } from '$lib/server/api';
-import { decodeWith, type DecodeResponse } from '$lib/server/captures/decoding';
-import { decodeInputSchema } from '$lib/server/captures/view-schemas';
+import { decodeWith } from '$lib/server/captures/decoding';
 import { requireRole } from '$lib/server/guard';
 import type { RequestHandler } from './$types';
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
+import { defineFrameInputSchema, type DefinedFrameResponse } from '$lib/api/capture-views';
 import { apiRoute, readJsonBody } from '$lib/server/api';
 import { defineFrameFromCapture } from '$lib/server/captures/define-frame';
-import { defineFrameInputSchema } from '$lib/server/captures/view-schemas';
 import { requireRole } from '$lib/server/guard';
 import type { RequestHandler } from './$types';
 
@@ -9,13 +9,12 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = apiRoute(async (event) => {
 	const { workspace, user } = await requireRole(event, 'editor');
 	const input = await readJsonBody(event.request, defineFrameInputSchema);
-	return json(
-		await defineFrameFromCapture(
-			event.locals.services,
-			workspace.id,
-			event.params.id,
-			input,
-			user.id
-		)
+	const defined = await defineFrameFromCapture(
+		event.locals.services,
+		workspace.id,
+		event.params.id,
+		input,
+		user.id
 	);
+	return json(defined satisfies DefinedFrameResponse);
 });

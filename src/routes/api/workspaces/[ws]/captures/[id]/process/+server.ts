@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
+import { processCaptureInputSchema, type ProcessResponse } from '$lib/api/captures';
 import { apiRoute, readJsonBody } from '$lib/server/api';
 import { startProcessing } from '$lib/server/captures/processing';
-import { processCaptureInputSchema } from '$lib/server/captures/schemas';
 import { requireRole } from '$lib/server/guard';
 import type { RequestHandler } from './$types';
 
@@ -15,5 +15,5 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 		layout,
 		actorId: user.id
 	});
-	return json({ capture }, { status: 202 });
+	return json({ capture } satisfies ProcessResponse, { status: 202 });
 });

@@ -1,17 +1,13 @@
 import { json } from '@sveltejs/kit';
-import { diffMaps } from '$lib/can/map-diff';
-import { apiRoute } from '$lib/server/api';
-import { loadSnapshot } from '$lib/server/db/revisions';
+import { diffQuerySchema, type DiffResponse } from '$lib/api/maps';
+import { apiRoute, readQuery } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { readRevisionRef } from '$lib/server/map-views';
+import { mapDiff } from '$lib/server/maps/views';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiRoute(async (event) => {
 	const { workspace } = await requireRole(event, 'viewer');
-	const from = readRevisionRef(event.url, 'from');
-	const to = readRevisionRef(event.url, 'to');
-	const { db } = event.locals.services;
-	const a = await loadSnapshot(db, workspace.id, event.params.mapId, from);
-	const b = await loadSnapshot(db, workspace.id, event.params.mapId, to);
-	return json({ diff: diffMaps(a.map, b.map), from: a.label, to: b.label });
+	const { from, to } = readQuery(event.url, diffQuerySchema);
+	const diff = await mapDiff(event.locals.services.db, workspace.id, event.params.mapId, from, to);
+	return json(diff satisfies DiffResponse);
 });

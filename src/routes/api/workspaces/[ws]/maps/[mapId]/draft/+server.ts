@@ -1,12 +1,10 @@
 import { json } from '@sveltejs/kit';
-import { lintMap } from '$lib/can/lint';
+import { draftInputSchema, type DraftSavedResponse } from '$lib/api/maps';
 import { apiRoute, readJsonBody } from '$lib/server/api';
-import { saveDraft } from '$lib/server/db/maps';
 import { requireRole } from '$lib/server/guard';
-import { draftInputSchema } from '$lib/server/map-schemas';
+import { saveDraft } from '$lib/server/maps/drafts';
 import type { RequestHandler } from './$types';
 
-// A draft may hold lint errors (work in progress); only publishing refuses them.
 export const PUT: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'editor');
 	const { version, draft } = await readJsonBody(event.request, draftInputSchema);
@@ -17,5 +15,5 @@ export const PUT: RequestHandler = apiRoute(async (event) => {
 		draft,
 		actorId: user.id
 	});
-	return json({ version: saved.version, lint: lintMap(draft) });
+	return json(saved satisfies DraftSavedResponse);
 });

@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
+import { restoreInputSchema, type VersionResponse } from '$lib/api/maps';
 import { apiRoute, readJsonBody } from '$lib/server/api';
-import { restoreRevision } from '$lib/server/db/revisions';
 import { requireRole } from '$lib/server/guard';
-import { restoreInputSchema } from '$lib/server/map-schemas';
+import { restoreRevision } from '$lib/server/maps/revisions';
 import type { RequestHandler } from './$types';
 
 export const POST: RequestHandler = apiRoute(async (event) => {
@@ -15,5 +15,5 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 		version,
 		actorId: user.id
 	});
-	return json({ version: restored.version });
+	return json(restored satisfies VersionResponse);
 });

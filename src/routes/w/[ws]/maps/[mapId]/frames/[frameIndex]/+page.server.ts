@@ -1,6 +1,7 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/guard';
-import { mapView, orPageError } from '$lib/server/map-views';
+import { orPageError } from '$lib/server/api';
+import { mapView } from '$lib/server/maps/views';
 import type { PageServerLoad } from './$types';
 
 // The map page's shape (GET /api/workspaces/[ws]/maps/[mapId]) plus which frame of the draft to show.

@@ -1,20 +1,18 @@
 // The frame detail load against a fresh database: same view as the map page, plus the frame index.
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { parseMap } from '$lib/can/map-json';
-import { createMap } from '$lib/server/db/maps';
-import { createWorkspace } from '$lib/server/db/workspaces';
-import { createTestServices, createUser, makeEvent, outcome } from '$lib/server/test-support';
+import { createMap } from '$lib/server/maps/maps';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
+import {
+	addMember,
+	createTestServices,
+	createUser,
+	fixtureMap,
+	makeEvent,
+	outcome
+} from '$lib/server/test-support';
 import { load } from './+page.server';
 
-const parsed = parseMap(
-	readFileSync(
-		new URL('../../../../../../../../fixtures/club-racer-ecu.map.json', import.meta.url),
-		'utf8'
-	)
-);
-if (!parsed.ok) throw new Error('fixture map does not parse');
-const clubRacer = parsed.map;
+const clubRacer = fixtureMap('club-racer-ecu.map.json');
 
 async function world() {
 	const services = await createTestServices();
@@ -23,15 +21,7 @@ async function world() {
 	const viewer = await createUser(db, 'viewer@example.test');
 	const stranger = await createUser(db, 'stranger@example.test');
 	const ws = await createWorkspace(db, { name: 'Frame detail team', ownerId: editor.id });
-	await db
-		.insertInto('memberships')
-		.values({
-			workspace_id: ws.id,
-			user_id: viewer.id,
-			role: 'viewer',
-			joined_at: new Date().toISOString()
-		})
-		.execute();
+	await addMember(db, ws.id, viewer.id, 'viewer');
 	const { id: mapId } = await createMap(db, {
 		workspaceId: ws.id,
 		map: clubRacer,

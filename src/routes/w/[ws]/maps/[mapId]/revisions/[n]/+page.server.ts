@@ -1,7 +1,7 @@
-import { requireMap } from '$lib/server/db/maps';
+import { orPageError } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { orPageError, revisionRefSchema, revisionView } from '$lib/server/map-views';
-import { Problem } from '$lib/server/problem';
+import { requireMap } from '$lib/server/maps/maps';
+import { revisionNumberParam, revisionView } from '$lib/server/maps/views';
 import type { PageServerLoad } from './$types';
 
 // The GET revision shape, plus the map's id and current name for the page's breadcrumbs.
@@ -10,10 +10,7 @@ export const load = (async (event) => {
 	const { db } = event.locals.services;
 	return orPageError(async () => {
 		const map = await requireMap(db, workspace.id, event.params.mapId);
-		const ref = revisionRefSchema.safeParse(event.params.n);
-		if (!ref.success || ref.data === 'draft')
-			throw new Problem(404, `"${event.params.n}" is not a revision number.`);
-		const view = await revisionView(db, workspace.id, map.id, ref.data);
+		const view = await revisionView(db, workspace.id, map.id, revisionNumberParam(event.params.n));
 		return { ...view, map: { id: map.id, name: map.name }, role };
 	});
 }) satisfies PageServerLoad;

@@ -1,5 +1,5 @@
 import { apiRoute, noContent } from '$lib/server/api';
-import { revokeShareLink } from '$lib/server/db/share-links';
+import { revokeShareLink } from '$lib/server/maps/share-links';
 import { requireRole } from '$lib/server/guard';
 import type { RequestHandler } from './$types';
 

@@ -1,0 +1,631 @@
+/**
+ * Every JSON route (and the file downloads beside them) of Framewright, in one list: the contract
+ * the `+server.ts` handlers answer to, the typed client calls and the route tests check. Built only
+ * from the schemas in this folder, so OpenAPI (or any other description) can be generated from it.
+ */
+import type { z } from 'zod';
+import { alertReplayInputSchema } from '../can/alerts/replay';
+import {
+	alertReplaySchema,
+	decodeInputSchema,
+	decodeResponseSchema,
+	defineFrameInputSchema,
+	definedFrameResponseSchema,
+	exportQuerySchema,
+	frameDetailQuerySchema,
+	frameDetailSchema,
+	frameExistsProblemSchema,
+	framesQuerySchema,
+	framesResponseSchema,
+	seriesQuerySchema,
+	seriesResponseSchema
+} from './capture-views';
+import {
+	captureDetailSchema,
+	captureListResponseSchema,
+	captureStatusResponseSchema,
+	processCaptureInputSchema,
+	processResponseSchema,
+	tooLargeProblemSchema,
+	uploadQuerySchema,
+	uploadResponseSchema
+} from './captures';
+import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
+import {
+	createdMapResponseSchema,
+	createdShareLinkResponseSchema,
+	createMapInputSchema,
+	diffQuerySchema,
+	diffResponseSchema,
+	draftInputSchema,
+	draftSavedResponseSchema,
+	mapExportQuerySchema,
+	mapListResponseSchema,
+	mapViewSchema,
+	publishedResponseSchema,
+	publishInputSchema,
+	renamedMapResponseSchema,
+	renameInputSchema,
+	restoreInputSchema,
+	revisionListResponseSchema,
+	revisionViewSchema,
+	shareLinkInputSchema,
+	shareLinkListResponseSchema,
+	staleDraftProblemSchema,
+	versionResponseSchema
+} from './maps';
+import { busLoadQuerySchema, busLoadResponseSchema } from './tools';
+import {
+	createdWorkspaceResponseSchema,
+	invitationInputSchema,
+	invitationResponseSchema,
+	memberResponseSchema,
+	membersOverviewSchema,
+	renamedWorkspaceResponseSchema,
+	roleChangeSchema,
+	workspaceInputSchema,
+	workspaceListResponseSchema
+} from './workspaces';
+
+const INVALID = 'Some of the values were not accepted.';
+const WS = '/api/workspaces/{ws}';
+const MAP = `${WS}/maps/{mapId}`;
+const CAPTURE = `${WS}/captures/{id}`;
+
+const noMap =
+	'That map, revision or workspace no longer exists (or you are not a member of the workspace).';
+const stale = [
+	'This map was changed by someone else since you loaded it. Reload to see their changes; your edit was not saved.',
+	staleDraftProblemSchema
+] as [string, typeof staleDraftProblemSchema];
+const noCapture =
+	'That capture, decode or map no longer exists (or you are not a member of the workspace).';
+const notReady = 'The capture is not processed yet, or could not be processed.';
+const mapGone =
+	'The map this decode used was deleted, or its draft has changed since; decode again.';
+const lastOwner = 'That would leave the workspace without an owner. Make someone else owner first.';
+const csv = 'text/csv; charset=utf-8';
+
+export const endpoints = {
+	// ---- workspaces, members, invitations ----
+	'workspaces.list': endpoint({
+		method: 'GET',
+		path: '/api/workspaces',
+		summary: "The signed-in person's workspaces and their role in each.",
+		access: 'signed-in',
+		status: 200,
+		response: workspaceListResponseSchema
+	}),
+	'workspaces.create': endpoint(
+		{
+			method: 'POST',
+			path: '/api/workspaces',
+			summary: 'Creates a workspace; the caller becomes its owner.',
+			access: 'signed-in',
+			body: workspaceInputSchema,
+			status: 201,
+			response: createdWorkspaceResponseSchema
+		},
+		{ 400: INVALID }
+	),
+	'workspaces.rename': endpoint(
+		{
+			method: 'PATCH',
+			path: WS,
+			summary: 'Renames the workspace (its slug, and so its links, stay).',
+			access: 'owner',
+			body: workspaceInputSchema,
+			status: 200,
+			response: renamedWorkspaceResponseSchema
+		},
+		{ 400: INVALID }
+	),
+	'workspaces.delete': endpoint({
+		method: 'DELETE',
+		path: WS,
+		summary: 'Deletes the workspace with its members and invitations (the audit trail stays).',
+		access: 'owner',
+		status: 204
+	}),
+	'members.list': endpoint({
+		method: 'GET',
+		path: `${WS}/members`,
+		summary: 'Members, pending invitations (owners only) and the caller’s own role and id.',
+		access: 'viewer',
+		status: 200,
+		response: membersOverviewSchema
+	}),
+	'members.changeRole': endpoint(
+		{
+			method: 'PATCH',
+			path: `${WS}/members/{userId}`,
+			summary: "Changes a member's role.",
+			access: 'owner',
+			body: roleChangeSchema,
+			status: 200,
+			response: memberResponseSchema
+		},
+		{
+			400: INVALID,
+			404: 'That member, invitation or workspace no longer exists.',
+			409: lastOwner
+		}
+	),
+	'members.remove': endpoint(
+		{
+			method: 'DELETE',
+			path: `${WS}/members/{userId}`,
+			summary: 'Removes a member (owners), or leaves the workspace (anyone, with their own id).',
+			access: 'viewer',
+			status: 204
+		},
+		{
+			403: 'Only an owner can remove someone else.',
+			404: 'That member, invitation or workspace no longer exists.',
+			409: lastOwner
+		}
+	),
+	'invitations.create': endpoint(
+		{
+			method: 'POST',
+			path: `${WS}/invitations`,
+			summary: 'Invites an e-mail address with a role; the link goes out by e-mail.',
+			access: 'owner',
+			body: invitationInputSchema,
+			status: 201,
+			response: invitationResponseSchema
+		},
+		{ 400: INVALID, 409: 'That address is already a member of this workspace.' }
+	),
+	'invitations.revoke': endpoint(
+		{
+			method: 'DELETE',
+			path: `${WS}/invitations/{id}`,
+			summary: 'Withdraws a pending invitation.',
+			access: 'owner',
+			status: 204
+		},
+		{ 404: 'That member, invitation or workspace no longer exists.' }
+	),
+
+	// ---- maps ----
+	'maps.list': endpoint({
+		method: 'GET',
+		path: `${WS}/maps`,
+		summary: 'The workspace’s maps, most recently changed first.',
+		access: 'viewer',
+		status: 200,
+		response: mapListResponseSchema
+	}),
+	'maps.create': endpoint(
+		{
+			method: 'POST',
+			path: `${WS}/maps`,
+			summary:
+				'Creates a map: blank, from map JSON or from the CSV signal table (a bad file is refused whole, with every problem).',
+			access: 'editor',
+			body: createMapInputSchema,
+			status: 201,
+			response: createdMapResponseSchema
+		},
+		{ 400: 'The file has problems; nothing was imported.' }
+	),
+	'maps.get': endpoint(
+		{
+			method: 'GET',
+			path: MAP,
+			summary: 'The map with its draft, lint problems, revisions and the caller’s role.',
+			access: 'viewer',
+			status: 200,
+			response: mapViewSchema
+		},
+		{ 404: noMap }
+	),
+	'maps.rename': endpoint(
+		{
+			method: 'PATCH',
+			path: MAP,
+			summary: 'Renames the map (a draft change: versioned).',
+			access: 'editor',
+			body: renameInputSchema,
+			status: 200,
+			response: renamedMapResponseSchema
+		},
+		{ 400: INVALID, 404: noMap, 409: stale }
+	),
+	'maps.delete': endpoint(
+		{
+			method: 'DELETE',
+			path: MAP,
+			summary: 'Deletes the map with its revisions and share links.',
+			access: 'owner',
+			status: 204
+		},
+		{ 404: noMap }
+	),
+	'maps.saveDraft': endpoint(
+		{
+			method: 'PUT',
+			path: `${MAP}/draft`,
+			summary:
+				'Replaces the draft if nobody changed it since `version` (a draft may hold lint errors).',
+			access: 'editor',
+			body: draftInputSchema,
+			status: 200,
+			response: draftSavedResponseSchema
+		},
+		{ 400: INVALID, 404: noMap, 409: stale }
+	),
+	'maps.revisions': endpoint(
+		{
+			method: 'GET',
+			path: `${MAP}/revisions`,
+			summary: 'Published revisions, newest first.',
+			access: 'viewer',
+			status: 200,
+			response: revisionListResponseSchema
+		},
+		{ 404: noMap }
+	),
+	'maps.publish': endpoint(
+		{
+			method: 'POST',
+			path: `${MAP}/revisions`,
+			summary:
+				'Publishes the reviewed draft version as the next revision and tells the other members by e-mail.',
+			access: 'editor',
+			body: publishInputSchema,
+			status: 201,
+			response: publishedResponseSchema
+		},
+		{
+			400: INVALID,
+			404: noMap,
+			409: stale,
+			422: 'The draft has lint errors, so it cannot be published yet.'
+		}
+	),
+	'maps.revision': endpoint(
+		{
+			method: 'GET',
+			path: `${MAP}/revisions/{n}`,
+			summary: 'One published revision with its lint problems.',
+			access: 'viewer',
+			status: 200,
+			response: revisionViewSchema
+		},
+		{ 404: noMap }
+	),
+	'maps.diff': endpoint(
+		{
+			method: 'GET',
+			path: `${MAP}/diff`,
+			summary: 'Field-by-field differences between two revisions (or a revision and the draft).',
+			access: 'viewer',
+			query: diffQuerySchema,
+			status: 200,
+			response: diffResponseSchema
+		},
+		{ 400: INVALID, 404: noMap }
+	),
+	'maps.restore': endpoint(
+		{
+			method: 'POST',
+			path: `${MAP}/restore`,
+			summary: 'Copies a revision into the draft (a draft change: versioned).',
+			access: 'editor',
+			body: restoreInputSchema,
+			status: 200,
+			response: versionResponseSchema
+		},
+		{ 400: INVALID, 404: noMap, 409: stale }
+	),
+	'maps.shareLinks': endpoint(
+		{
+			method: 'GET',
+			path: `${MAP}/share-links`,
+			summary: 'The map’s share links with their status.',
+			access: 'viewer',
+			status: 200,
+			response: shareLinkListResponseSchema
+		},
+		{ 404: noMap }
+	),
+	'maps.createShareLink': endpoint(
+		{
+			method: 'POST',
+			path: `${MAP}/share-links`,
+			summary: 'A read-only link to one revision; its URL is in this answer only.',
+			access: 'editor',
+			body: shareLinkInputSchema,
+			status: 201,
+			response: createdShareLinkResponseSchema
+		},
+		{ 400: INVALID, 404: noMap }
+	),
+	'maps.revokeShareLink': endpoint(
+		{
+			method: 'DELETE',
+			path: `${MAP}/share-links/{id}`,
+			summary: 'Revokes a share link (revoking twice changes nothing).',
+			access: 'editor',
+			status: 204
+		},
+		{ 404: noMap }
+	),
+	'maps.export': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/maps/{mapId}/export',
+			summary: 'The map as of a revision (or the draft) as map JSON or the CSV signal table.',
+			access: 'viewer',
+			query: mapExportQuerySchema,
+			status: 200,
+			download: 'application/json or text/csv'
+		},
+		{ 400: INVALID, 404: noMap }
+	),
+	'maps.template': endpoint({
+		method: 'GET',
+		path: '/w/{ws}/maps/template.csv',
+		summary: 'An empty CSV signal table with its header and an example row.',
+		access: 'viewer',
+		status: 200,
+		download: csv
+	}),
+	'share.export': endpoint(
+		{
+			method: 'GET',
+			path: '/s/{token}/export',
+			summary: 'The shared revision as map JSON or the CSV signal table (anyone with the link).',
+			access: 'public',
+			query: mapExportQuerySchema.pick({ format: true }),
+			status: 200,
+			download: 'application/json or text/csv'
+		},
+		{ 400: INVALID, 404: 'This link was revoked or has expired' }
+	),
+
+	// ---- captures ----
+	'captures.list': endpoint({
+		method: 'GET',
+		path: `${WS}/captures`,
+		summary: 'The workspace’s captures, newest upload first.',
+		access: 'viewer',
+		status: 200,
+		response: captureListResponseSchema
+	}),
+	'captures.upload': endpoint(
+		{
+			method: 'POST',
+			path: `${WS}/captures`,
+			summary:
+				'Stores an uploaded capture file (the raw bytes as the body) and guesses its column layout.',
+			access: 'viewer',
+			query: uploadQuerySchema,
+			body: 'binary',
+			status: 201,
+			response: uploadResponseSchema
+		},
+		{
+			400: 'The file is empty, or its name is missing.',
+			413: ['The file is larger than the upload limit; nothing was stored.', tooLargeProblemSchema],
+			415: 'This file is not a capture Framewright can read; nothing was stored.'
+		}
+	),
+	'captures.get': endpoint(
+		{
+			method: 'GET',
+			path: CAPTURE,
+			summary: 'The capture with its detected and confirmed layout, import report and decodes.',
+			access: 'viewer',
+			status: 200,
+			response: captureDetailSchema
+		},
+		{ 404: noCapture }
+	),
+	'captures.delete': endpoint(
+		{
+			method: 'DELETE',
+			path: CAPTURE,
+			summary: 'Deletes a capture (owners: any; others: their own uploads) with its files.',
+			access: 'viewer',
+			status: 204
+		},
+		{
+			403: 'Only a workspace owner or the person who uploaded this capture can delete it.',
+			404: noCapture,
+			409: 'This capture is being processed; delete it when processing has ended.'
+		}
+	),
+	'captures.status': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/status`,
+			summary: 'Processing status and progress, for polling.',
+			access: 'viewer',
+			status: 200,
+			response: captureStatusResponseSchema
+		},
+		{ 404: noCapture }
+	),
+	'captures.process': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/process`,
+			summary: 'Starts parsing with the confirmed layout; poll the status for progress.',
+			access: 'viewer',
+			body: processCaptureInputSchema,
+			status: 202,
+			response: processResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: 'This capture is processed, or being processed, already.' }
+	),
+	'captures.decode': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/decode`,
+			summary: 'Decodes the processed capture with a map revision (or the draft) and records it.',
+			access: 'viewer',
+			body: decodeInputSchema,
+			status: 200,
+			response: decodeResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady }
+	),
+	'captures.getDecode': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/decodes/{decodeId}`,
+			summary: 'A recorded decode’s summary (decoded again from the stored frames if needed).',
+			access: 'viewer',
+			status: 200,
+			response: decodeResponseSchema
+		},
+		{ 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.alerts': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/alerts`,
+			summary:
+				'The alert rules of the decode’s map replayed over its channels (nothing is stored).',
+			access: 'viewer',
+			body: alertReplayInputSchema,
+			status: 200,
+			response: alertReplaySchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.frames': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/frames`,
+			summary: 'A page of received frames in capture order, optionally of one ID.',
+			access: 'viewer',
+			query: framesQuerySchema,
+			status: 200,
+			response: framesResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady }
+	),
+	'captures.frame': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/frames/{index}`,
+			summary: 'One received frame and its signals as the decode’s map reads them.',
+			access: 'viewer',
+			query: frameDetailQuerySchema.pick({ decode: true }),
+			status: 200,
+			response: frameDetailSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.series': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/series`,
+			summary: 'One channel over a time range, min/max-decimated to the points asked for.',
+			access: 'viewer',
+			query: seriesQuerySchema,
+			status: 200,
+			response: seriesResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.defineFrame': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/define-frame`,
+			summary: 'Adds a frame (no signals yet) for an ID the decode’s map does not define.',
+			access: 'editor',
+			body: defineFrameInputSchema,
+			status: 200,
+			response: definedFrameResponseSchema
+		},
+		{
+			400: INVALID,
+			404: noCapture,
+			409: ['The map already defines this ID.', frameExistsProblemSchema],
+			410: mapGone
+		}
+	),
+	'captures.export': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/captures/{id}/export',
+			summary:
+				'A streamed CSV: the decoded channels (long or wide form) or the raw frames in the canonical layout.',
+			access: 'viewer',
+			query: exportQuerySchema,
+			status: 200,
+			download: csv
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+
+	// ---- tools ----
+	'tools.busLoad': endpoint(
+		{
+			method: 'GET',
+			path: `${WS}/tools/bus-load`,
+			summary: 'Planned bus load of a map revision (or its draft) from its frames’ cycle times.',
+			access: 'viewer',
+			query: busLoadQuerySchema,
+			status: 200,
+			response: busLoadResponseSchema
+		},
+		{ 400: INVALID, 404: noMap }
+	)
+};
+
+export type Endpoints = typeof endpoints;
+export type EndpointName = keyof Endpoints;
+
+// ---- types of a call, read from the schemas ----
+
+type Def<K extends EndpointName> = Endpoints[K];
+export type ParamsOf<K extends EndpointName> = {
+	[P in PathParams<Def<K>['path']>]: string | number;
+};
+/** Query values arrive as text on the server; the caller may give numbers and booleans. */
+export type QueryOf<K extends EndpointName> =
+	Def<K> extends { query: infer Q extends z.ZodType }
+		? { [P in keyof z.input<Q>]: z.input<Q>[P] | number | boolean }
+		: never;
+type BodyOf<K extends EndpointName> =
+	Def<K> extends { body: infer B extends z.ZodType } ? z.input<B> : never;
+
+/** What a successful call resolves to (undefined for 204). */
+export type ResponseOf<K extends EndpointName> =
+	Def<K> extends {
+		response: infer R extends z.ZodType;
+	}
+		? z.output<R>
+		: void;
+
+type ParamsPart<P> = keyof P extends never ? { params?: P } : { params: P };
+type QueryPart<K extends EndpointName> = [QueryOf<K>] extends [never]
+	? { query?: never }
+	: object extends QueryOf<K>
+		? { query?: QueryOf<K> }
+		: { query: QueryOf<K> };
+type BodyPart<K extends EndpointName> = [BodyOf<K>] extends [never]
+	? { body?: never }
+	: { body: BodyOf<K> };
+
+export type CallInput<K extends EndpointName, P = ParamsOf<K>> = ParamsPart<P> &
+	QueryPart<K> &
+	BodyPart<K> & { signal?: AbortSignal };
+
+/** The URL of an endpoint (for links and downloads too): path parameters filled, query appended. */
+export function endpointUrl<K extends EndpointName>(
+	name: K,
+	input: { params?: ParamsOf<K>; query?: QueryOf<K> }
+): string {
+	const def = endpoints[name];
+	return (
+		fillPath(def.path, (input.params ?? {}) as Record<string, string | number>) +
+		queryString(input.query as Record<string, unknown> | undefined)
+	);
+}

@@ -1,0 +1,83 @@
+/**
+ * The workspace API's contract (`/api/workspaces/…`: workspaces, members, invitations). The same
+ * schemas check the plain forms (form actions) that send these fields.
+ */
+import { z } from 'zod';
+import { roleSchema } from '../roles';
+import { timestampSchema } from './shapes';
+
+// ---- requests ----
+
+export const workspaceNameSchema = z
+	.string({ error: 'Give the workspace a name.' })
+	.trim()
+	.min(2, 'Use at least 2 characters.')
+	.max(80, 'Use at most 80 characters.');
+
+export const emailSchema = z
+	.string({ error: 'Enter an e-mail address.' })
+	.trim()
+	.toLowerCase()
+	.pipe(z.email('Enter a valid e-mail address.').max(254, 'That address is too long.'));
+
+export const workspaceInputSchema = z.strictObject({ name: workspaceNameSchema });
+export const invitationInputSchema = z.strictObject({ email: emailSchema, role: roleSchema });
+export const roleChangeSchema = z.strictObject({ role: roleSchema });
+
+// ---- answers ----
+
+/** A workspace and the caller's role in it. */
+export const workspaceSummarySchema = z.object({
+	id: z.string(),
+	slug: z.string(),
+	name: z.string(),
+	role: roleSchema
+});
+export type WorkspaceSummary = z.infer<typeof workspaceSummarySchema>;
+
+export const workspaceListResponseSchema = z.object({
+	workspaces: z.array(workspaceSummarySchema)
+});
+export type WorkspaceListResponse = z.infer<typeof workspaceListResponseSchema>;
+
+export const createdWorkspaceResponseSchema = z.object({ workspace: workspaceSummarySchema });
+export type CreatedWorkspaceResponse = z.infer<typeof createdWorkspaceResponseSchema>;
+
+export const renamedWorkspaceResponseSchema = z.object({
+	workspace: workspaceSummarySchema.omit({ role: true })
+});
+export type RenamedWorkspaceResponse = z.infer<typeof renamedWorkspaceResponseSchema>;
+
+export const memberViewSchema = z.object({
+	userId: z.string(),
+	email: z.string(),
+	name: z.string().nullable(),
+	role: roleSchema,
+	joinedAt: timestampSchema
+});
+export type MemberView = z.infer<typeof memberViewSchema>;
+
+export const invitationViewSchema = z.object({
+	id: z.string(),
+	email: z.string(),
+	role: roleSchema,
+	expiresAt: timestampSchema,
+	/** The inviter's e-mail address (null once that account is gone). */
+	invitedBy: z.string().nullable()
+});
+export type InvitationView = z.infer<typeof invitationViewSchema>;
+
+/** The members page: everyone, pending invitations (owners only; empty for others) and who is asking. */
+export const membersOverviewSchema = z.object({
+	members: z.array(memberViewSchema),
+	invitations: z.array(invitationViewSchema),
+	myRole: roleSchema,
+	myUserId: z.string()
+});
+export type MembersOverview = z.infer<typeof membersOverviewSchema>;
+
+export const memberResponseSchema = z.object({ member: memberViewSchema });
+export type MemberResponse = z.infer<typeof memberResponseSchema>;
+
+export const invitationResponseSchema = z.object({ invitation: invitationViewSchema });
+export type InvitationResponse = z.infer<typeof invitationResponseSchema>;

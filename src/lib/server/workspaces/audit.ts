@@ -1,0 +1,25 @@
+import type { DB } from '../db/connection';
+
+export interface AuditEntry {
+	workspaceId: string | null;
+	actorId: string | null;
+	/** Dotted verb, e.g. `workspace.create`, `member.role_change`. */
+	action: string;
+	target?: string | null;
+	details?: Record<string, unknown>;
+}
+
+/** Every mutation appends one row, inside the same transaction as the change it records. */
+export async function appendAudit(db: DB, entry: AuditEntry): Promise<void> {
+	await db
+		.insertInto('audit_log')
+		.values({
+			workspace_id: entry.workspaceId,
+			actor_id: entry.actorId,
+			action: entry.action,
+			target: entry.target ?? null,
+			details: JSON.stringify(entry.details ?? {}),
+			created_at: new Date().toISOString()
+		})
+		.execute();
+}
