@@ -1,7 +1,7 @@
 /**
  * The one way Framewright builds a TanStack table (v9, Svelte 5 runes): sorting by column and a
  * search box over every column, with the rows passed through a getter so rune changes flow in.
- * Rendering stays with each table component (cells are often editors, not plain text).
+ * The header row is `DataTableHeader.svelte`; the body stays with each table (cells are often editors).
  */
 import {
 	columnFilteringFeature,
@@ -71,7 +71,9 @@ export function createDataTable<T extends RowData>(options: DataTableOptions<T>)
 
 export type DataTable<T extends RowData> = ReturnType<typeof createDataTable<T>>;
 
+export type SortDirection = false | 'asc' | 'desc';
+
 /** The `aria-sort` value of a column header, so screen readers hear the order too. */
-export function ariaSort(direction: false | 'asc' | 'desc'): 'ascending' | 'descending' | 'none' {
+export function ariaSort(direction: SortDirection): 'ascending' | 'descending' | 'none' {
 	return direction === 'asc' ? 'ascending' : direction === 'desc' ? 'descending' : 'none';
 }

@@ -1,0 +1,2 @@
+export { default as Dialog } from './Dialog.svelte';
+export { default as ConfirmDialog } from './ConfirmDialog.svelte';
