@@ -20,4 +20,5 @@ export {
 	type SortDirection
 } from './data-table.svelte';
 export { gridKeyAction, type GridPosition } from './grid-keys';
-export type { ColumnHeading, TableDensity } from './table-context';
+export type { ColumnHeading, RowOptions, TableDensity } from './table-context';
+export { alike, type Column } from './column';

@@ -41,3 +41,9 @@ export const ALIGN: Record<CellAlign, string> = {
 /** A column heading given as data: a label, or a label with its alignment. */
 export type ColumnHeading =
 	string | { label: string; align?: CellAlign; srOnly?: boolean; class?: string };
+
+/** Options of a row drawn from data: its tone and any attributes (`data-*`, ARIA). */
+export type RowOptions = { tone?: 'accent' | 'caution' | 'danger' | null } & Record<
+	string,
+	unknown
+>;
