@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { controlAttributes, errorList } from './field-attrs';
+import { controlAttributes, errorList, splitFieldProps } from './field-attrs';
 
 describe('errorList', () => {
 	it('takes a form action’s list, a single message, or nothing', () => {
@@ -34,5 +34,24 @@ describe('controlAttributes', () => {
 		expect(
 			controlAttributes('f3', { hint: false, errors: [] })['aria-describedby']
 		).toBeUndefined();
+	});
+});
+
+describe('splitFieldProps', () => {
+	it('gives the label, hint and errors to the field and every other attribute to the control', () => {
+		const { field, control } = splitFieldProps({
+			label: 'Map name',
+			errors: ['Required'],
+			fieldClass: 'flex-1',
+			name: 'name',
+			maxlength: 200,
+			placeholder: 'e.g. Engine controller broadcast'
+		});
+		expect(field).toEqual({ label: 'Map name', errors: ['Required'], fieldClass: 'flex-1' });
+		expect(control).toEqual({
+			name: 'name',
+			maxlength: 200,
+			placeholder: 'e.g. Engine controller broadcast'
+		});
 	});
 });

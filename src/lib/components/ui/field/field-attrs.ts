@@ -1,3 +1,5 @@
+import type { Snippet } from 'svelte';
+
 /**
  * What ties a form control to its label, hint and errors, so screen readers read them with it:
  * `aria-describedby` lists the hint and error ids, `aria-invalid` marks a refused value.
@@ -36,4 +38,44 @@ export interface SelectOption {
 	value: string | number;
 	label: string;
 	disabled?: boolean;
+}
+
+/** What a labelled control (Input, Select, Textarea, Checkbox) passes on to its Field. */
+export interface FieldOptions {
+	label: string;
+	hint?: string | Snippet;
+	errors?: FieldErrors;
+	hideLabel?: boolean;
+	describedBy?: string;
+	/** Classes of the field's box (label, control, hint, errors); `class` styles the control. */
+	fieldClass?: string;
+	layout?: 'stack' | 'check' | 'inline';
+	after?: Snippet;
+	id?: string | null;
+}
+
+const FIELD_KEYS = [
+	'label',
+	'hint',
+	'errors',
+	'hideLabel',
+	'describedBy',
+	'fieldClass',
+	'layout',
+	'after',
+	'id'
+] as const satisfies readonly (keyof FieldOptions)[];
+
+/** Splits a control's props into the Field's and the control element's own attributes. */
+export function splitFieldProps<P extends FieldOptions>(
+	props: P
+): { field: FieldOptions; control: Omit<P, keyof FieldOptions> } {
+	const field: Record<string, unknown> = {};
+	const control: Record<string, unknown> = {};
+	for (const [key, value] of Object.entries(props))
+		((FIELD_KEYS as readonly string[]).includes(key) ? field : control)[key] = value;
+	return {
+		field: field as unknown as FieldOptions,
+		control: control as Omit<P, keyof FieldOptions>
+	};
 }

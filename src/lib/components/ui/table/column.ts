@@ -16,8 +16,10 @@ export interface Column<T> {
 	/** The row's heading cell (`<th scope="row">`). */
 	rowHeader?: boolean;
 	class?: string;
+	/** Names the column for a `cell` snippet that serves several (which field it edits). */
+	id?: string;
 	value?: (row: T, index: number) => string | number | null | undefined;
-	cell?: Snippet<[T, number]>;
+	cell?: Snippet<[T, number, Column<T>]>;
 }
 
 /** Columns that share a look, e.g. `alike({ mono: true, align: 'right' }, { header: 'Min', … })`. */
