@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { controlAttributes, errorList, splitFieldProps } from './field-attrs';
+import { controlAttributes, errorList, optionsFrom, splitFieldProps } from './field-attrs';
 
 describe('errorList', () => {
 	it('takes a form action’s list, a single message, or nothing', () => {
@@ -53,5 +53,14 @@ describe('splitFieldProps', () => {
 			maxlength: 200,
 			placeholder: 'e.g. Engine controller broadcast'
 		});
+	});
+});
+
+describe('optionsFrom', () => {
+	it('keeps the order the labels are written in', () => {
+		expect(optionsFrom({ s: 'seconds', ms: 'milliseconds' })).toEqual([
+			{ value: 's', label: 'seconds' },
+			{ value: 'ms', label: 'milliseconds' }
+		]);
 	});
 });

@@ -40,6 +40,11 @@ export interface SelectOption {
 	disabled?: boolean;
 }
 
+/** Choices from a record of value → label, in the record's order. */
+export function optionsFrom(labels: Record<string, string>): { value: string; label: string }[] {
+	return Object.entries(labels).map(([value, label]) => ({ value, label }));
+}
+
 /** What a labelled control (Input, Select, Textarea, Checkbox) passes on to its Field. */
 export interface FieldOptions {
 	label: string;

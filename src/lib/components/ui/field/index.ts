@@ -8,4 +8,4 @@ export { default as Input } from './Input.svelte';
 export { default as Select } from './Select.svelte';
 export { default as Textarea } from './Textarea.svelte';
 export { default as Checkbox } from './Checkbox.svelte';
-export { errorList, type FieldErrors, type SelectOption } from './field-attrs';
+export { errorList, optionsFrom, type FieldErrors, type SelectOption } from './field-attrs';

@@ -120,3 +120,9 @@ export function newSignal(
 	while (length < 8 && start + length < bits && !used.has(start + length)) length++;
 	return signalSchema.parse({ ...base, startBit: start, length });
 }
+
+/** The byte orders as the editors offer them. */
+export const BYTE_ORDER_OPTIONS = [
+	{ value: 'little', label: 'little-endian' },
+	{ value: 'big', label: 'big-endian' }
+];
