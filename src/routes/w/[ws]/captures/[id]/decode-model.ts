@@ -85,6 +85,3 @@ export function compareChannels(
 	}
 	return rows;
 }
-
-/** A channel whose range check found samples outside the map's min/max. */
-export const isOutOfRange = (c: Pick<ChannelStats, 'outOfRange'>) => c.outOfRange > 0;
