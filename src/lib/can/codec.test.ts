@@ -86,6 +86,19 @@ describe('encodeSignal', () => {
 		expect(encodeSignal(s, 60, data)).toEqual({ raw: 60n, clamped: false, outOfRange: true });
 	});
 
+	it('reports a clamp when value / scale overflows to infinity (largest double over a tiny scale)', () => {
+		// Number.MAX_VALUE / 1e-10 is +Infinity in IEEE 754 double arithmetic; the field's top is 255.
+		const s = signal({ length: 8, scale: 1e-10 });
+		const data = new Uint8Array(1);
+		expect(Number.MAX_VALUE / 1e-10).toBe(Infinity);
+		expect(encodeSignal(s, Number.MAX_VALUE, data)).toEqual({
+			raw: 255n,
+			clamped: true,
+			outOfRange: false
+		});
+		expect(encodeSignal(s, -Number.MAX_VALUE, data)).toMatchObject({ raw: 0n, clamped: true });
+	});
+
 	it('writes float64 as IEEE 754 bits (DataView getFloat64 as reference)', () => {
 		const data = new Uint8Array(8);
 		encodeSignal(signal({ length: 64, valueType: 'float64' }), Math.PI, data);

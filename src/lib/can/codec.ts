@@ -123,7 +123,8 @@ export function encodeSignal(signal: Signal, physical: number, data: Uint8Array)
 		// Math.round: nearest raw, halves towards +∞. Beyond ±2^53 the quotient is already integral.
 		const rounded = Number.isFinite(exact) ? BigInt(Math.round(exact)) : exact > 0 ? hi : lo;
 		raw = rounded < lo ? lo : rounded > hi ? hi : rounded;
-		clamped = raw !== rounded;
+		// An infinite quotient (a huge value over a tiny scale) lands on an end of the field: clamped too.
+		clamped = raw !== rounded || !Number.isFinite(exact);
 	}
 	insertRaw(data, signal.startBit, signal.length, signal.byteOrder, raw);
 	return { raw, clamped, outOfRange };

@@ -71,7 +71,10 @@ function describeBits(set: bigint): string {
 	return `${ranges.length === 1 && !ranges[0].includes('–') ? 'bit' : 'bits'} ${ranges.join(', ')}`;
 }
 
-/** Multiplexers are always present; other signals only on their mux page (null = every page). */
+/**
+ * For bit clashes: a multiplexer's bits are in every payload; other signals only on their mux page
+ * (null = every page).
+ */
 function pageOf(signal: Signal): number | null {
 	return signal.multiplexer ? null : signal.muxValue;
 }
@@ -225,7 +228,7 @@ function lintFrameSignals(frame: Frame, f: number, problems: LintProblem[]): voi
 					{
 						severity: 'warning',
 						code: 'nested-multiplexer',
-						message: `"${signal.name}" is a multiplexer with a mux value; it is treated as always present`
+						message: `"${signal.name}" is a multiplexer with a mux value: its bits are in every payload, but it is decoded only when the multiplexer carries ${signal.muxValue}`
 					},
 					'muxValue'
 				);

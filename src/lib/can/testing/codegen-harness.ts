@@ -396,10 +396,7 @@ export function referenceEncode(
 	if (written.some(({ value }) => !Number.isFinite(value))) return refused;
 	let clamped = 0;
 	for (const { signal, value } of written) {
-		// encodeSignal's flag misses one case: (value − offset) / scale overflowing to ±∞ is clamped to
-		// the field's end but not flagged. The generated code counts it, as a clamp it is.
-		const overflow = !Number.isFinite((value - signal.offset) / signal.scale);
-		if (encodeSignal(signal, value, data).clamped || overflow) clamped++;
+		if (encodeSignal(signal, value, data).clamped) clamped++;
 	}
 	return { result: clamped, written: written.map((w) => w.k) };
 }

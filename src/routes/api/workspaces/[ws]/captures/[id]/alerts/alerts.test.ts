@@ -170,7 +170,8 @@ describe('POST /api/workspaces/[ws]/captures/[id]/alerts', () => {
 		const outsider = await outcomeStatus(() =>
 			alertsRoute(event(w, w.outsider, 'alerts', { decode: id }))
 		);
-		expect([403, 404]).toContain(outsider);
+		// A non-member learns nothing, not even that the workspace exists: 404, never 403.
+		expect(outsider).toBe(404);
 		expect(await outcomeStatus(() => alertsRoute(event(w, null, 'alerts', { decode: id })))).toBe(
 			401
 		);
