@@ -24,7 +24,7 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 		load: () => import('./commands/bit-timing')
 	},
 	'bus-load': {
-		summary: 'bus-load --map MAP.json [--bitrate BPS]   planned bus load',
+		summary: 'bus-load --map MAP.json [--bitrate BPS] [--data-bitrate BPS]   planned bus load',
 		load: () => import('./commands/bus-load')
 	},
 	lint: {
