@@ -22,7 +22,12 @@ export const actions = {
 		);
 		const parsed = signInFormSchema.safeParse(values);
 		if (!parsed.success) {
-			return fail(400, { errors: fieldErrorsOf(parsed.error) as { email?: string[] }, values });
+			// The typed value comes back for the form, clipped to an address's longest length (RFC 5321
+			// via the schema's 254), so a huge post is never echoed whole.
+			return fail(400, {
+				errors: fieldErrorsOf(parsed.error) as { email?: string[] },
+				values: { email: values.email.slice(0, 254) }
+			});
 		}
 		const next = await requestSignInLink(
 			event.locals.services,
