@@ -2,6 +2,7 @@ import { building } from '$app/environment';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth';
+import { limitRequestBodies } from '$lib/server/http/body-limits';
 import { getServices } from '$lib/server/startup';
 
 // Opens and migrates the database and starts the demo mail server before the first request, so a
@@ -26,4 +27,9 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(provideServices, authHandle, resolveUser);
+export const handle: Handle = sequence(
+	provideServices,
+	limitRequestBodies,
+	authHandle,
+	resolveUser
+);
