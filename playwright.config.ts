@@ -62,7 +62,12 @@ export default defineConfig({
 			AUTH_SECRET: 'e2e-only-secret-not-for-production-0123456789abcdef',
 			// The journeys sign the same demo accounts in many times within the hour; the per-address
 			// limit itself is proven by the unit tests (src/lib/server/auth.test.ts).
-			SIGNIN_LINKS_PER_HOUR: '1000'
+			SIGNIN_LINKS_PER_HOUR: '1000',
+			// Likewise every journey signs in and invites from 127.0.0.1; the per-client and per-account
+			// limits are proven by src/lib/server/mail/mail-abuse.test.ts.
+			SIGNIN_REQUESTS_PER_CLIENT_PER_HOUR: '1000',
+			INVITATIONS_PER_ACCOUNT_PER_HOUR: '1000',
+			INVITATIONS_PER_CLIENT_PER_HOUR: '1000'
 		}
 	}
 });

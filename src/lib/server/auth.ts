@@ -1,12 +1,23 @@
 import { Auth, raw, skipCSRFCheck } from '@auth/core';
 import { SvelteKitAuth } from '@auth/sveltekit';
-import type { RequestEvent } from '@sveltejs/kit';
+import type { Handle, RequestEvent } from '@sveltejs/kit';
 import { authPages, createAuthConfig } from './auth-config';
 import type { Services } from './services';
 
-export const { handle: authHandle } = SvelteKitAuth(async (event) =>
+const { handle: authJsHandle } = SvelteKitAuth(async (event) =>
 	createAuthConfig(event.locals.services)
 );
+
+/**
+ * Auth.js under /auth, except its sign-in posts: sign-in links are asked for only through our
+ * /signin form, which checks the address and the per-client limit (mail/limits.ts) first.
+ */
+export const authHandle: Handle = async (input) => {
+	const { request, url } = input.event;
+	if (request.method === 'POST' && url.pathname.startsWith('/auth/signin'))
+		return new Response('Not found', { status: 404 });
+	return authJsHandle(input);
+};
 
 /** Any origin will do: only whether a path stays on it matters. */
 const PROBE_ORIGIN = 'http://framewright.invalid';

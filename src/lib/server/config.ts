@@ -28,6 +28,9 @@ const envSchema = z.object({
 		.pipe(z.number().int().min(0).max(65535)),
 	SESSION_MAX_AGE_DAYS: positiveInt(30),
 	SIGNIN_LINKS_PER_HOUR: positiveInt(5),
+	SIGNIN_REQUESTS_PER_CLIENT_PER_HOUR: positiveInt(30),
+	INVITATIONS_PER_ACCOUNT_PER_HOUR: positiveInt(30),
+	INVITATIONS_PER_CLIENT_PER_HOUR: positiveInt(60),
 	SIGNIN_LINK_MAX_AGE_MINUTES: positiveInt(60),
 	INVITATION_MAX_AGE_DAYS: positiveInt(7),
 	CAPTURE_MAX_BYTES: positiveInt(1024 ** 3)
@@ -41,6 +44,11 @@ export interface AppConfig {
 	mailFrom: string;
 	sessionMaxAgeSeconds: number;
 	signinLinksPerHour: number;
+	/** Sign-in requests one client address may make per hour (any addresses). */
+	signinRequestsPerClientPerHour: number;
+	/** Invitations one account, and one client address, may send per hour. */
+	invitationsPerAccountPerHour: number;
+	invitationsPerClientPerHour: number;
 	signinLinkMaxAgeSeconds: number;
 	invitationMaxAgeMs: number;
 	/** Largest capture upload in bytes (default 1 GiB). */
@@ -65,6 +73,9 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
 		mailFrom: e.MAIL_FROM || 'Framewright <no-reply@framewright.test>',
 		sessionMaxAgeSeconds: e.SESSION_MAX_AGE_DAYS * 24 * 60 * 60,
 		signinLinksPerHour: e.SIGNIN_LINKS_PER_HOUR,
+		signinRequestsPerClientPerHour: e.SIGNIN_REQUESTS_PER_CLIENT_PER_HOUR,
+		invitationsPerAccountPerHour: e.INVITATIONS_PER_ACCOUNT_PER_HOUR,
+		invitationsPerClientPerHour: e.INVITATIONS_PER_CLIENT_PER_HOUR,
 		signinLinkMaxAgeSeconds: e.SIGNIN_LINK_MAX_AGE_MINUTES * 60,
 		invitationMaxAgeMs: e.INVITATION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000,
 		captureMaxBytes: e.CAPTURE_MAX_BYTES

@@ -2,6 +2,7 @@ import { randomBytes } from 'node:crypto';
 import { failInterruptedProcessing } from './captures/processing';
 import { loadConfig } from './config';
 import { getDatabase, type DB } from './db';
+import { createMailLimits } from './mail/limits';
 import { createSendMail, type SendMail } from './mail/send';
 import { startStandInSmtp, type StandInSmtp } from './mail/standin-smtp';
 import type { Services } from './services';
@@ -43,7 +44,7 @@ async function createServices(): Promise<Services> {
 		// scripts/serve.js persists a secret; this covers `vite dev`, where sessions may end on restart.
 		secret = randomBytes(32).toString('base64url');
 	}
-	return { db, config, sendMail, secret, storage };
+	return { db, config, sendMail, secret, storage, mailLimits: createMailLimits(config) };
 }
 
 // Kept on globalThis so Vite's module reloading in development does not start a second SMTP server.

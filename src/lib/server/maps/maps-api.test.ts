@@ -625,7 +625,7 @@ describe('drafts and revisions', () => {
 			'viewer@example.test'
 		]);
 		for (const mail of w.services.outbox) {
-			expect(mail.subject).toBe('r1 of Club racer engine controller published');
+			expect(mail.subject).toBe('r1 of "Club racer engine controller" published');
 			expect(mail.text).toContain('Oil pressure limits for the new sender');
 			expect(mail.text).toContain(`http://localhost/w/${w.slug}/maps/${w.mapId}/revisions/1`);
 		}
