@@ -3,6 +3,7 @@ import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth';
 import { limitRequestBodies } from '$lib/server/http/body-limits';
+import { addSecurityHeaders } from '$lib/server/http/headers';
 import { getServices } from '$lib/server/startup';
 
 // Opens and migrates the database and starts the demo mail server before the first request, so a
@@ -19,6 +20,8 @@ const provideServices: Handle = async ({ event, resolve }) => {
 };
 
 const resolveUser: Handle = async ({ event, resolve }) => {
+	// The health check answers for the database itself; it must not fail on the session lookup first.
+	if (event.route.id === '/healthz') return resolve(event);
 	const session = await event.locals.auth();
 	const user = session?.user;
 	if (user?.id && user.email) {
@@ -29,6 +32,7 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 
 export const handle: Handle = sequence(
 	provideServices,
+	addSecurityHeaders,
 	limitRequestBodies,
 	authHandle,
 	resolveUser

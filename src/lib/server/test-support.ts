@@ -36,7 +36,8 @@ export async function createTestServices(env: Record<string, string> = {}): Prom
 	const db = await createTestDatabase();
 	const config: AppConfig = loadConfig({ FRAMEWRIGHT_DEMO: '1', ...env });
 	const outbox: OutgoingMail[] = [];
-	// Each test's own store in a fresh temporary folder (the OS cleans the temp folder).
+	// Each test's own store in a fresh temporary folder, removed after the test file
+	// (tests/vitest-setup.ts).
 	const storageRoot = mkdtempSync(join(tmpdir(), 'fw-test-storage-'));
 	return {
 		db,
