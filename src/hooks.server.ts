@@ -3,6 +3,7 @@ import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth';
 import { limitRequestBodies } from '$lib/server/http/body-limits';
+import { pinCookieSecurity } from '$lib/server/http/cookies';
 import { addSecurityHeaders } from '$lib/server/http/headers';
 import { getServices } from '$lib/server/startup';
 
@@ -34,6 +35,7 @@ export const handle: Handle = sequence(
 	provideServices,
 	addSecurityHeaders,
 	limitRequestBodies,
+	pinCookieSecurity,
 	authHandle,
 	resolveUser
 );

@@ -76,16 +76,18 @@ test('settings are read from .env in the working folder (finding 15)', async () 
 		[
 			'# Written by the test: nothing of this is in the environment',
 			`PORT=${port}`,
-			'FRAMEWRIGHT_DEMO=1',
+			`ORIGIN=http://127.0.0.1:${port}`,
+			'SMTP_HOST=127.0.0.1',
+			`SMTP_PORT=${await freePort()}`,
+			'MAIL_FROM="Framewright <no-reply@example.test>"',
 			`DATABASE_PATH=${join(folder, 'from-dotenv.db')}`,
-			`STORAGE_ROOT=${join(folder, 'storage')}`,
-			'STANDIN_SMTP_PORT=0'
+			`STORAGE_ROOT=${join(folder, 'storage')}`
 		].join('\n')
 	);
 	const server = await own({}, { folder, bare: true, port });
 	await waitUntilHealthy(server);
+	expect(server.output()).toContain(`Framewright on http://127.0.0.1:${port} (database`);
 	expect(server.output()).toContain('from-dotenv.db');
-	expect(server.output()).toContain('demo mode');
 	expect(existsSync(join(folder, 'from-dotenv.db'))).toBe(true);
 });
 

@@ -34,8 +34,9 @@ export interface OwnServer {
 }
 
 /**
- * Starts `node scripts/serve.js` with `env` on top of a clean environment (PATH, HOME) in a fresh
- * folder, its working folder, so no .env of the project is read unless a test writes one there.
+ * Starts `node scripts/serve.js` with `env` on top of a clean environment (PATH, HOME) and a fresh
+ * folder for its data. It runs in that folder (so only a .env the test writes there is read), or in
+ * the project for demo mode, whose seed reads fixtures/.
  */
 export async function startOwnServer(
 	env: Record<string, string>,
@@ -60,7 +61,8 @@ export async function startOwnServer(
 				AUTH_SECRET: 'e2e-own-server-secret-0123456789abcdef0123456789'
 			};
 	const child = spawn(process.execPath, [serveScript, ...(options.args ?? [])], {
-		cwd: folder,
+		// The demo seed reads fixtures/ from the working folder, as `npm run demo` runs in the project.
+		cwd: env.FRAMEWRIGHT_DEMO === '1' ? projectRoot : folder,
 		env: {
 			PATH: process.env.PATH ?? '',
 			HOME: process.env.HOME ?? '',

@@ -3,11 +3,13 @@
 // Cookie prefixes: RFC 6265bis §4.1.3 (from memory): a `__Secure-` cookie must be set with Secure
 // from a secure origin, so browsers drop it, as any Secure cookie, over plain http.
 import { Auth, skipCSRFCheck } from '@auth/core';
+import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
 import { requestSignInLink } from './auth';
 import { createAuthConfig } from './auth-config';
 import { extractLinks } from './mail/mailbox';
-import { createTestServices } from './test-support';
+import { pinCookieSecurity } from './http/cookies';
+import { createTestServices, makeEvent } from './test-support';
 
 /** Follows the sign-in link; `scheme` rewrites the URL the request arrives with (a proxy's view). */
 async function signInCookies(
@@ -45,5 +47,33 @@ describe('session cookies follow ORIGIN', () => {
 		});
 		expect(proxied).toMatch(/^authjs\.session-token=/);
 		expect(proxied).not.toMatch(/;\s*Secure/i);
+	});
+});
+
+describe('every cookie the server sets follows ORIGIN (the session refresh re-sets it each request)', () => {
+	it.each([
+		['http://framewright.test:3000', false],
+		['https://framewright.example.test', true]
+	])('ORIGIN %s → Secure %s, whatever the caller asked', async (origin, secure) => {
+		const services = await createTestServices({ ORIGIN: origin });
+		const event = makeEvent<RequestEvent>({ services, user: null, routeId: '/' });
+		const calls: [string, Parameters<RequestEvent['cookies']['set']>[2]][] = [];
+		event.cookies.set = (name, _value, options) => void calls.push([name, options]);
+		event.cookies.delete = (name, options) => void calls.push([name, options]);
+		await pinCookieSecurity({
+			event,
+			resolve: async (e) => {
+				// What @auth/sveltekit does with a Set-Cookie that lacks Secure: no `secure` option at all.
+				e.cookies.set('authjs.session-token', 't', { path: '/', httpOnly: true });
+				e.cookies.set('other', 'x', { path: '/', secure: !secure });
+				e.cookies.delete('gone', { path: '/' });
+				return new Response('ok');
+			}
+		});
+		expect(calls.map(([name, options]) => [name, options.secure])).toEqual([
+			['authjs.session-token', secure],
+			['other', secure],
+			['gone', secure]
+		]);
 	});
 });
