@@ -7,6 +7,7 @@ export default defineConfig({
 	test: {
 		include: ['src/**/*.test.ts', 'tests/unit/**/*.test.ts', 'db/**/*.test.ts'],
 		environment: 'node',
+		setupFiles: ['tests/vitest-setup.ts'],
 		expect: { requireAssertions: true },
 		testTimeout: 30_000
 	}

@@ -4,11 +4,20 @@
 // runs it with tsx before `vite dev`. The server itself only migrates, so nothing in src imports
 // the demo scenario.
 import { pathToFileURL } from 'node:url';
-import { loadConfig } from '../src/lib/server/config';
+import { loadConfig, startupProblem } from '../src/lib/server/config';
 import { createDatabase, databasePathFromEnv } from '../src/lib/server/db/connection';
 import { migrateToLatest } from '../src/lib/server/db/migrate';
 import { storageFromEnv } from '../src/lib/server/storage/config';
 import { countUsers, seedDemo } from './seed';
+
+/** Why these settings cannot start a server (scripts/serve.js prints it and exits), or null. */
+export function settingsProblem(env: NodeJS.ProcessEnv = process.env): string | null {
+	try {
+		return startupProblem(loadConfig(env));
+	} catch (error) {
+		return error instanceof Error ? error.message : String(error);
+	}
+}
 
 /** Returns what was seeded (empty when nothing was). */
 export async function demoStart(env: NodeJS.ProcessEnv = process.env): Promise<string[]> {

@@ -2,6 +2,9 @@ import { building } from '$app/environment';
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth';
+import { limitRequestBodies } from '$lib/server/http/body-limits';
+import { pinCookieSecurity } from '$lib/server/http/cookies';
+import { addSecurityHeaders } from '$lib/server/http/headers';
 import { getServices } from '$lib/server/startup';
 
 // Opens and migrates the database and starts the demo mail server before the first request, so a
@@ -18,6 +21,8 @@ const provideServices: Handle = async ({ event, resolve }) => {
 };
 
 const resolveUser: Handle = async ({ event, resolve }) => {
+	// The health check answers for the database itself; it must not fail on the session lookup first.
+	if (event.route.id === '/healthz') return resolve(event);
 	const session = await event.locals.auth();
 	const user = session?.user;
 	if (user?.id && user.email) {
@@ -26,4 +31,11 @@ const resolveUser: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(provideServices, authHandle, resolveUser);
+export const handle: Handle = sequence(
+	provideServices,
+	addSecurityHeaders,
+	limitRequestBodies,
+	pinCookieSecurity,
+	authHandle,
+	resolveUser
+);

@@ -1,9 +1,4 @@
-/** Text helpers for CSV output. */
-
-/** Quotes a field only when it needs it (RFC 4180: comma, quote or line break). */
-export function csvField(text: string): string {
-	return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
+/** Text helpers for CSV output (cells themselves: src/lib/can/csv-cell.ts). */
 
 /**
  * A physical value as short decimal text: 12 significant digits drop binary noise such as

@@ -6,7 +6,8 @@ import type { FrameSink } from '../../lib/can/capture/frame-store';
 import { ingestCaptureInto } from '../../lib/can/capture/ingest';
 import { mapPath, parseCommand } from '../args';
 import type { Command } from '../command';
-import { csvField, formatValue } from '../csv-text';
+import { csvText } from '../../lib/can/csv-cell';
+import { formatValue } from '../csv-text';
 import { EXIT, InputError } from '../errors';
 import { createOutput, openCapture, readMapFile } from '../io';
 
@@ -48,8 +49,8 @@ reported on stderr by line number and skipped.
 		const out = createOutput();
 
 		const channels = compiled.channels;
-		const middle = channels.map((c) => `,${csvField(c.frameName)},${csvField(c.signalName)},`);
-		const end = channels.map((c) => `,${csvField(c.unit)}\n`);
+		const middle = channels.map((c) => `,${csvText(c.frameName)},${csvText(c.signalName)},`);
+		const end = channels.map((c) => `,${csvText(c.unit)}\n`);
 		const values = new Float64Array(Math.max(1, channels.length));
 		const sink: FrameSink = {
 			add(time, id, extended, data, length) {

@@ -73,7 +73,9 @@ export function endpoint<const D extends Omit<EndpointDef, 'errors'>>(
 	def: D,
 	own: Partial<Record<ErrorStatus, string | [string, z.ZodType]>> = {}
 ): D & { errors: Partial<Record<ErrorStatus, ErrorSpec>> } {
-	return { ...def, errors: errors({ ...guardErrors(def.access), ...own }) };
+	// Every route with a body has a size limit (src/lib/server/http/body-limits.ts).
+	const tooLarge = def.body ? { 413: 'The request is larger than this route accepts.' } : {};
+	return { ...def, errors: errors({ ...guardErrors(def.access), ...tooLarge, ...own }) };
 }
 
 /** Fills a path template: `{name}` → the URL-encoded parameter. */

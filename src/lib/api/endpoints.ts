@@ -175,7 +175,11 @@ export const endpoints = {
 			status: 201,
 			response: invitationResponseSchema
 		},
-		{ 400: INVALID, 409: 'That address is already a member of this workspace.' }
+		{
+			400: INVALID,
+			409: 'That address is already a member of this workspace.',
+			429: 'Too many invitations from this account or network in the last hour; try again later.'
+		}
 	),
 	'invitations.revoke': endpoint(
 		{

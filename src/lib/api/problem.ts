@@ -23,5 +23,5 @@ export const problemBodySchema = z.looseObject({
 export type ProblemBody = z.infer<typeof problemBodySchema>;
 
 /** The statuses an expected failure can have. */
-export const ERROR_STATUSES = [400, 401, 403, 404, 409, 410, 413, 415, 422] as const;
+export const ERROR_STATUSES = [400, 401, 403, 404, 409, 410, 413, 415, 422, 429] as const;
 export type ErrorStatus = (typeof ERROR_STATUSES)[number];

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { csvField, readCsvRecords, writeCsvRecord } from './csv-records';
+import { csvRow, csvText } from './csv-cell';
+import { readCsvRecords } from './csv-records';
 
 describe('readCsvRecords', () => {
 	// RFC 4180 §2 rules 5–7: quoted fields, commas and line breaks inside quotes, "" for a quote.
@@ -36,11 +37,11 @@ describe('readCsvRecords', () => {
 	});
 });
 
-describe('writeCsvRecord', () => {
+describe('csvRow', () => {
 	it('quotes only what needs quoting, and reads back the same fields', () => {
 		const fields = ['plain', 'with,comma', 'say "hi"', 'two\nlines', ' edge', ''];
-		expect(csvField('plain')).toBe('plain');
-		expect(csvField('say "hi"')).toBe('"say ""hi"""');
-		expect(readCsvRecords(writeCsvRecord(fields))[0].fields).toEqual(fields);
+		expect(csvText('plain')).toBe('plain');
+		expect(csvText('say "hi"')).toBe('"say ""hi"""');
+		expect(readCsvRecords(csvRow(fields))[0].fields).toEqual(fields);
 	});
 });

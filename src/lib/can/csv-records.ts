@@ -1,5 +1,5 @@
 /**
- * A small RFC 4180 CSV reader/writer that remembers the line each record starts on, so import
+ * A small RFC 4180 CSV reader that remembers the line each record starts on, so import
  * problems can name the line a person sees in their editor (quoted fields may span lines).
  */
 
@@ -49,13 +49,4 @@ export function readCsvRecords(text: string): CsvRecord[] {
 	}
 	if (field !== '' || fields.length > 0) endRecord();
 	return records;
-}
-
-/** Quotes a field only when it must be (comma, quote, line break, or edge spaces). */
-export function csvField(value: string): string {
-	return /[",\r\n]|^\s|\s$/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
-}
-
-export function writeCsvRecord(fields: readonly string[]): string {
-	return fields.map(csvField).join(',');
 }

@@ -7,7 +7,8 @@
  * any (the import help says so); the JSON format carries them.
  */
 import type { z } from 'zod';
-import { readCsvRecords, writeCsvRecord, type CsvRecord } from './csv-records';
+import { csvRow, readCsvText } from './csv-cell';
+import { readCsvRecords, type CsvRecord } from './csv-records';
 import {
 	canIdSchema,
 	canMapSchema,
@@ -210,8 +211,9 @@ export function labelsText(labels: Record<string, string>): string {
 		.join(';');
 }
 
-function cellText(spec: ColumnSpec, value: unknown, frame: Frame): string {
-	if (value === null || value === undefined) return '';
+/** A cell's value: numbers stay numbers and text stays text, so `csvRow` neutralises only text. */
+function cellValue(spec: ColumnSpec, value: unknown, frame: Frame): string | number | null {
+	if (value === null || value === undefined) return null;
 	switch (spec.kind) {
 		case 'id':
 			return formatCanId(value as number, frame.extended);
@@ -219,21 +221,24 @@ function cellText(spec: ColumnSpec, value: unknown, frame: Frame): string {
 			return value ? '1' : '0';
 		case 'labels':
 			return labelsText(value as Record<string, string>);
+		case 'number':
+		case 'nullableNumber':
+			return value as number; // JavaScript's shortest round-trip form for numbers
 		default:
-			return String(value); // JavaScript's shortest round-trip form for numbers
+			return String(value);
 	}
 }
 
 export function writeSignalTable(map: CanMap): string {
-	const lines = [writeCsvRecord(SIGNAL_TABLE_COLUMNS.map((c) => c.name))];
+	const lines = [csvRow(SIGNAL_TABLE_COLUMNS.map((c) => c.name))];
 	for (const frame of map.frames) {
 		const rows: (Signal | null)[] = frame.signals.length > 0 ? frame.signals : [null];
 		for (const signal of rows) {
 			lines.push(
-				writeCsvRecord(
+				csvRow(
 					SIGNAL_TABLE_COLUMNS.map((spec) => {
-						if (spec.level === 'frame') return cellText(spec, frame[spec.field], frame);
-						return signal ? cellText(spec, signal[spec.field], frame) : '';
+						if (spec.level === 'frame') return cellValue(spec, frame[spec.field], frame);
+						return signal ? cellValue(spec, signal[spec.field], frame) : null;
 					})
 				)
 			);
@@ -323,7 +328,9 @@ export function readLabels(text: string): Cell {
 }
 
 /** Blank cells are left out (so zod applies its default); other text is converted by kind. */
-function readCell(spec: ColumnSpec, raw: string): Cell {
+function readCell(spec: ColumnSpec, field: string): Cell {
+	// Undo the formula guard of our own writer (`'=…` back to `=…`, src/lib/can/csv-cell.ts).
+	const raw = readCsvText(field);
 	const text = raw.trim();
 	if (text === '') return { ok: true, value: spec.kind === 'nullableNumber' ? null : undefined };
 	switch (spec.kind) {

@@ -48,6 +48,9 @@ export function createAuthConfig({ db, config, sendMail, secret }: AuthDeps): Sv
 			})
 		],
 		session: { strategy: 'database', maxAge: config.sessionMaxAgeSeconds },
+		// Pinned to ORIGIN's scheme rather than guessed per request (X-Forwarded-Proto, the request URL):
+		// a plain-http site must never get a Secure cookie, which browsers drop over http.
+		useSecureCookies: config.secureCookies,
 		pages: authPages,
 		basePath: '/auth',
 		trustHost: true,

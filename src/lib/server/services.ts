@@ -1,5 +1,6 @@
 import type { AppConfig } from './config';
 import type { DB } from './db/connection';
+import type { MailLimits } from './mail/limits';
 import type { SendMail } from './mail/send';
 import type { BlobStorage } from './storage/storage';
 
@@ -14,4 +15,6 @@ export interface Services {
 	secret?: string;
 	/** Capture files and their processed frame stores (local folder or S3). */
 	storage: BlobStorage;
+	/** How much mail one account or client address may cause (`mail/limits.ts`). */
+	mailLimits: MailLimits;
 }

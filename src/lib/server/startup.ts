@@ -1,10 +1,12 @@
 import { randomBytes } from 'node:crypto';
-import { failInterruptedProcessing } from './captures/processing';
-import { loadConfig } from './config';
+import { allProcessingDone, failInterruptedProcessing } from './captures/processing';
+import { loadConfig, startupProblem } from './config';
 import { getDatabase, type DB } from './db';
+import { createMailLimits } from './mail/limits';
 import { createSendMail, type SendMail } from './mail/send';
 import { startStandInSmtp, type StandInSmtp } from './mail/standin-smtp';
 import type { Services } from './services';
+import { onShutdown, shutdown } from './shutdown';
 import { storageFromEnv } from './storage';
 
 async function startStandIn(db: DB, port: number): Promise<StandInSmtp> {
@@ -21,7 +23,17 @@ async function startStandIn(db: DB, port: number): Promise<StandInSmtp> {
 // `npm run dev`), so nothing in src imports the demo scenario.
 async function createServices(): Promise<Services> {
 	const config = loadConfig();
+	const problem = startupProblem(config);
+	if (problem) throw new Error(problem);
 	const db = await getDatabase();
+	// Closed last (closers run newest first): after processing and mail are done with it.
+	onShutdown('database', () => db.destroy());
+	onShutdown('capture processing', async () => {
+		// Let running processing finish for a few seconds; what is still running is marked
+		// interrupted (as a restart would), so nobody waits on it and it can be processed again.
+		await Promise.race([allProcessingDone(), new Promise((r) => setTimeout(r, 3000))]);
+		await failInterruptedProcessing(db);
+	});
 	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
 	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
 	await failInterruptedProcessing(db);
@@ -30,6 +42,7 @@ async function createServices(): Promise<Services> {
 		sendMail = createSendMail(config.smtp, config.mailFrom);
 	} else {
 		const standIn = await startStandIn(db, config.standInSmtpPort);
+		onShutdown('stand-in SMTP server', () => standIn.close());
 		console.log(
 			`Framewright demo mode: e-mail goes to the stand-in SMTP server on 127.0.0.1:${standIn.port}; read it at /dev/mailbox`
 		);
@@ -43,15 +56,27 @@ async function createServices(): Promise<Services> {
 		// scripts/serve.js persists a secret; this covers `vite dev`, where sessions may end on restart.
 		secret = randomBytes(32).toString('base64url');
 	}
-	return { db, config, sendMail, secret, storage };
+	return { db, config, sendMail, secret, storage, mailLimits: createMailLimits(config) };
 }
 
 // Kept on globalThis so Vite's module reloading in development does not start a second SMTP server.
 const key = Symbol.for('framewright.services');
 type Holder = { [key]?: Promise<Services> };
 
+/** adapter-node emits this once it has stopped accepting connections (SIGTERM, SIGINT). */
+function closeOnServerShutdown(): void {
+	const flag = Symbol.for('framewright.shutdown-listener');
+	const holder = globalThis as { [flag]?: boolean };
+	if (holder[flag]) return;
+	holder[flag] = true;
+	process.once('sveltekit:shutdown' as 'beforeExit', () => {
+		void shutdown().then(() => console.log('Framewright stopped.'));
+	});
+}
+
 /** Opens and migrates the database and starts mail, once per process. */
 export function getServices(): Promise<Services> {
+	closeOnServerShutdown();
 	const holder = globalThis as Holder;
 	holder[key] ??= createServices().catch((error: unknown) => {
 		delete holder[key];

@@ -10,6 +10,7 @@ import type { Role } from '../roles';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase, migrateToLatest, type DB } from './db';
 import type { SessionUser } from './guard';
+import { createMailLimits } from './mail/limits';
 import type { OutgoingMail } from './mail/send';
 import type { Services } from './services';
 import { createLocalStorage } from './storage';
@@ -35,7 +36,8 @@ export async function createTestServices(env: Record<string, string> = {}): Prom
 	const db = await createTestDatabase();
 	const config: AppConfig = loadConfig({ FRAMEWRIGHT_DEMO: '1', ...env });
 	const outbox: OutgoingMail[] = [];
-	// Each test's own store in a fresh temporary folder (the OS cleans the temp folder).
+	// Each test's own store in a fresh temporary folder, removed after the test file
+	// (tests/vitest-setup.ts).
 	const storageRoot = mkdtempSync(join(tmpdir(), 'fw-test-storage-'));
 	return {
 		db,
@@ -43,6 +45,7 @@ export async function createTestServices(env: Record<string, string> = {}): Prom
 		outbox,
 		storage: createLocalStorage({ root: storageRoot, maxBytes: 4 * config.captureMaxBytes }),
 		storageRoot,
+		mailLimits: createMailLimits(config),
 		secret: 'test-secret-0123456789abcdef0123456789abcdef',
 		sendMail: async (message) => {
 			outbox.push(message);

@@ -216,3 +216,46 @@ describe('captureExportFileName', () => {
 		expect(() => captureExportFileName('Lap 3', 'long')).toThrow(/map and revision/);
 	});
 });
+
+// Issue 10, finding 5: channel names and units come from maps anyone in a workspace can edit. Per
+// OWASP's "CSV Injection" guidance (owasp.org/www-community/attacks/CSV_Injection) a text cell
+// starting with = + - @, tab or carriage return gets a leading single quote; numbers stay numbers.
+// Read back with papaparse, an independent CSV reader, as a spreadsheet would split the file.
+describe('capture exports neutralise formula text', () => {
+	const hostile = [
+		channel(
+			"+cmd|' /C calc'!A0",
+			'=HYPERLINK("http://evil.example","x")',
+			'-2+3',
+			[0, 1],
+			[-40, 2.5]
+		),
+		channel('@SUM(1)', '\t=1', 'kPa', [0.5], [-1])
+	];
+
+	it('long form: frame, signal and unit cells are quoted text; times and values are numbers', async () => {
+		const { default: Papa } = await import('papaparse');
+		const rows = Papa.parse<string[]>(text(longFormCsv(hostile)).trim(), { delimiter: ',' }).data;
+		expect(rows.slice(1)).toEqual([
+			['0', `'+cmd|' /C calc'!A0`, `'=HYPERLINK("http://evil.example","x")`, '-40', `'-2+3`],
+			['0.5', `'@SUM(1)`, `'\t=1`, '-1', 'kPa'],
+			['1', `'+cmd|' /C calc'!A0`, `'=HYPERLINK("http://evil.example","x")`, '2.5', `'-2+3`]
+		]);
+	});
+
+	it('wide form: the column names are quoted text', async () => {
+		const { default: Papa } = await import('papaparse');
+		const rows = Papa.parse<string[]>(
+			text(wideFormCsv(hostile, { interval: 1, mode: 'last' })).trim(),
+			{
+				delimiter: ','
+			}
+		).data;
+		expect(rows[0]).toEqual([
+			'time',
+			`'+cmd|' /C calc'!A0.=HYPERLINK("http://evil.example","x") [-2+3]`,
+			`'@SUM(1).\t=1 [kPa]`
+		]);
+		expect(rows[1]).toEqual(['0', '-40', '']);
+	});
+});

@@ -4,9 +4,10 @@
  * wide form (one column per channel, resampled on a fixed interval), and the raw frames in the
  * canonical capture layout of docs/capture-csv.md, which the importer reads back unchanged.
  * Numbers are written with `String(n)`, the shortest text that reads back to the same double
- * (ECMAScript Number::toString), so nothing is lost; names are quoted per RFC 4180 when needed.
+ * (ECMAScript Number::toString), so nothing is lost; names are written by `csvText` (src/lib/can/csv-cell.ts):
+ * quoted per RFC 4180 when needed, neutralised when a spreadsheet would run them as formulas.
  */
-import { csvField } from '../csv-records';
+import { csvText } from '../csv-cell';
 import { lengthToDlc } from '../dlc';
 import type { Channel } from './channels';
 import { upperBound } from './decimate';
@@ -41,9 +42,9 @@ export const LONG_FORM_HEADER = 'time,frame,signal,value,unit';
  */
 export function* longFormCsv(channels: readonly ExportChannel[]): Generator<string> {
 	const middle = channels.map(
-		(c) => `,${csvField(c.info.frameName)},${csvField(c.info.signalName)},`
+		(c) => `,${csvText(c.info.frameName)},${csvText(c.info.signalName)},`
 	);
-	const tail = channels.map((c) => `,${csvField(c.info.unit)}\n`);
+	const tail = channels.map((c) => `,${csvText(c.info.unit)}\n`);
 	const next = new Uint32Array(channels.length); // each channel's next sample
 	// Heap of channel indices ordered by (next sample's time, channel index).
 	const heap: number[] = [];
@@ -108,7 +109,7 @@ export const MAX_WIDE_ROWS = 10_000_000;
 
 /** The wide-form column name of a channel: `<frame>.<signal> [unit]`, CSV-quoted when needed. */
 export function wideColumnName(info: ExportChannel['info']): string {
-	return csvField(`${info.frameName}.${info.signalName}${info.unit ? ` [${info.unit}]` : ''}`);
+	return csvText(`${info.frameName}.${info.signalName}${info.unit ? ` [${info.unit}]` : ''}`);
 }
 
 /** One column per channel, resampled on a fixed interval (see WideFormOptions for the two modes). */

@@ -130,6 +130,11 @@ export function processingDone(captureId: string): Promise<void> {
 	return running.get(captureId) ?? Promise.resolve();
 }
 
+/** Settles when every processing running now has finished (for shutdown). */
+export async function allProcessingDone(): Promise<void> {
+	await Promise.allSettled([...running.values()]);
+}
+
 export const INTERRUPTED_MESSAGE =
 	'Processing was interrupted when the server stopped; process the capture again.';
 

@@ -123,6 +123,8 @@ export interface MapRevisionTable {
 	map_json: string;
 	published_by: string | null;
 	published_at: string;
+	/** The draft version it was published from (unique per map); null for a few older revisions. */
+	draft_version: number | null;
 }
 
 export interface ShareLinkTable {

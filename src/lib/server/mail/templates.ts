@@ -4,6 +4,35 @@ function escapeHtml(text: string): string {
 	return text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 }
 
+/** Web addresses, www. names, e-mail addresses and bare domain names (what mail programs turn into links). */
+const LINK_LIKE =
+	/\b[a-z][a-z0-9+.-]*:\/\/\S*|\bwww\.\S*|[^\s@"]+@[^\s@"]+\.[^\s@"]+|\b(?:[a-z0-9-]+\.)+[a-z]{2,63}\b(?:[/:?#]\S*)?/gi;
+
+/**
+ * Text a member typed (a workspace, map or person name, a note), made safe to quote in a mail:
+ * one line, links and anything a mail program would make into one replaced by "[link removed]",
+ * double quotes turned single so the quoting stays unambiguous, clipped to `max` characters. Only
+ * the product's own link in a mail is a link, so a workspace named like a phishing notice carries
+ * no address to follow.
+ */
+export function plainQuotedText(text: string, max = 80): string {
+	const plain = text
+		.normalize('NFKC') // full-width letters become the ASCII a mail program would link
+		.replace(/[\u3002\uff0e\uff61]/g, '.') // ideographic full stops separate domain labels (IDNA)
+		// eslint-disable-next-line no-control-regex -- control characters are what this removes
+		.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]+/g, ' ')
+		.replace(LINK_LIKE, '[link removed]')
+		.replace(/"/g, "'")
+		.replace(/\s+/g, ' ')
+		.trim();
+	return plain.length > max ? `${plain.slice(0, max - 1)}…` : plain;
+}
+
+/** Who did it: a person's name as plain quoted text, or their sign-in address (their identity) as it is. */
+function personText(nameOrEmail: string): string {
+	return /^[^\s@"<>]+@[^\s@"<>]+$/.test(nameOrEmail) ? nameOrEmail : plainQuotedText(nameOrEmail);
+}
+
 function minutesUntil(expires: Date, now = Date.now()): number {
 	return Math.max(1, Math.round((expires.getTime() - now) / 60_000));
 }
@@ -40,13 +69,14 @@ export function invitationMail(args: {
 	invitedBy: string;
 	expires: Date;
 }): OutgoingMail {
+	const workspace = plainQuotedText(args.workspaceName);
 	const lines = [
-		`${args.invitedBy} invited you to the Framewright workspace "${args.workspaceName}" as ${args.role}.`,
+		`${personText(args.invitedBy)} invited you to the Framewright workspace "${workspace}" as ${args.role}.`,
 		`Open the link, sign in with this address (${args.to}) and accept. It runs out on ${args.expires.toISOString().slice(0, 10)}.`
 	];
 	return {
 		to: args.to,
-		subject: `Invitation to the workspace "${args.workspaceName}"`,
+		subject: `Invitation to the workspace "${workspace}"`,
 		text: `${lines.join('\n\n')}\n\n${args.url}\n`,
 		html: layout(lines, { url: args.url, label: 'Open the invitation' })
 	};
@@ -61,14 +91,15 @@ export function revisionPublishedMail(args: {
 	publishedBy: string;
 	workspaceName: string;
 }): OutgoingMail {
+	const mapName = plainQuotedText(args.mapName);
 	const lines = [
-		`${args.publishedBy} published r${args.revision} of the map "${args.mapName}" in the workspace "${args.workspaceName}".`,
-		`Note: ${args.note}`,
+		`${personText(args.publishedBy)} published r${args.revision} of the map "${mapName}" in the workspace "${plainQuotedText(args.workspaceName)}".`,
+		`Note: ${plainQuotedText(args.note, 2000)}`,
 		'Decode with this revision only when it matches the firmware of the device you are working on.'
 	];
 	return {
 		to: args.to,
-		subject: `r${args.revision} of ${args.mapName} published`,
+		subject: `r${args.revision} of "${mapName}" published`,
 		text: `${lines.join('\n\n')}\n\n${args.url}\n`,
 		html: layout(lines, { url: args.url, label: `Open r${args.revision}` })
 	};

@@ -599,7 +599,9 @@ describe('drafts and revisions', () => {
 		const r1 = await publish(w, 'First release', 3);
 		expect(r1.status).toBe(201);
 		expect(((await r1.json()) as { revision: { number: number } }).revision.number).toBe(1);
-		const r2 = await publish(w, 'Same map again, second number', 3);
+		// The same draft version again is refused (publish-twice.test.ts); a saved draft is a new version.
+		expect((await saveDraft(w, JSON.parse(clubRacerJson), 3)).status).toBe(200);
+		const r2 = await publish(w, 'Same map again, second number', 4);
 		expect(((await r2.json()) as { revision: { number: number } }).revision.number).toBe(2);
 		expect((await getMap(w)).revisions.map((r) => [r.number, r.note])).toEqual([
 			[2, 'Same map again, second number'],
@@ -623,7 +625,7 @@ describe('drafts and revisions', () => {
 			'viewer@example.test'
 		]);
 		for (const mail of w.services.outbox) {
-			expect(mail.subject).toBe('r1 of Club racer engine controller published');
+			expect(mail.subject).toBe('r1 of "Club racer engine controller" published');
 			expect(mail.text).toContain('Oil pressure limits for the new sender');
 			expect(mail.text).toContain(`http://localhost/w/${w.slug}/maps/${w.mapId}/revisions/1`);
 		}

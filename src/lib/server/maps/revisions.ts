@@ -86,7 +86,8 @@ export async function requireRevision(
 
 /**
  * Publishes the draft as the next revision. The caller names the draft version it reviewed, so a
- * draft changed by someone else in the meantime is never published unseen; lint errors refuse it.
+ * draft changed by someone else in the meantime is never published unseen; lint errors refuse it,
+ * and so does a draft version that is already a revision (409).
  */
 export async function publishRevision(
 	db: DB,
@@ -103,6 +104,22 @@ export async function publishRevision(
 	return db.transaction().execute(async (trx) => {
 		const map = await requireMap(trx, input.workspaceId, input.mapId);
 		if (map.version !== input.version) throw staleDraft(map);
+		const already = await trx
+			.selectFrom('map_revisions')
+			.select('number')
+			.where('map_id', '=', map.id)
+			.where('draft_version', '=', map.version)
+			.executeTakeFirst();
+		// A second publish of the same draft version (a double click, a retried request) would make
+		// an identical revision and mail everyone again.
+		if (already) {
+			throw new Problem(
+				409,
+				`This draft version is already published as r${already.number}; change the draft to publish a new revision.`,
+				undefined,
+				{ currentVersion: map.version, revision: already.number }
+			);
+		}
 		const errors = lintMap(map.draft).filter((p) => p.severity === 'error');
 		if (errors.length > 0) {
 			throw new Problem(
@@ -127,7 +144,8 @@ export async function publishRevision(
 				note: input.note,
 				map_json: serializeMap(map.draft),
 				published_by: input.actorId,
-				published_at: publishedAt
+				published_at: publishedAt,
+				draft_version: map.version
 			})
 			.execute();
 		await appendAudit(trx, {

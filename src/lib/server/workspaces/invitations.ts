@@ -9,6 +9,7 @@ import type { Role } from '../../roles';
 import type { DB } from '../db/connection';
 import type { Invitation } from '../db/schema';
 import type { WorkspaceAccess } from '../access';
+import { takeMailAllowance, tooManyMails } from '../mail/limits';
 import { invitationMail } from '../mail/templates';
 import { Problem } from '../problem';
 import type { Services } from '../services';
@@ -112,13 +113,21 @@ export async function createInvitation(
 	});
 }
 
-/** Invites an address to the caller's workspace and e-mails it the link. */
+/**
+ * Invites an address to the caller's workspace and e-mails it the link. Each account and each
+ * client address may send only so many invitations an hour (429 past that, nothing stored).
+ */
 export async function inviteByEmail(
-	services: Pick<Services, 'db' | 'config' | 'sendMail'>,
+	services: Pick<Services, 'db' | 'config' | 'sendMail' | 'mailLimits'>,
 	access: Pick<WorkspaceAccess, 'user' | 'workspace'>,
-	input: { email: string; role: Role; origin: string }
+	input: { email: string; role: Role; origin: string; clientAddress: string }
 ): Promise<InvitationResponse> {
 	const { user, workspace } = access;
+	const wait = await takeMailAllowance([
+		[services.mailLimits.invitationsByAccount, user.id],
+		[services.mailLimits.invitationsByClient, input.clientAddress]
+	]);
+	if (wait !== null) throw tooManyMails('invitations sent', wait);
 	const { invitation, token } = await createInvitation(services.db, {
 		workspaceId: workspace.id,
 		email: input.email,

@@ -11,7 +11,8 @@ export const POST: RequestHandler = apiRoute(async (event) => {
 	const answer = await inviteByEmail(event.locals.services, access, {
 		email,
 		role,
-		origin: event.url.origin
+		origin: event.url.origin,
+		clientAddress: event.getClientAddress()
 	});
 	return json(answer satisfies InvitationResponse, { status: 201 });
 });
