@@ -11,6 +11,11 @@ import { personRefSchema, timestampSchema } from './shapes';
 export const detectedLayoutSchema = z.object({
 	layout: captureLayoutSchema,
 	notes: z.array(z.string()),
+	/**
+	 * Why the importer could not read the columns itself; the file is kept and the person maps
+	 * them on the confirmation screen. Absent on layouts detected before this existed.
+	 */
+	problem: z.string().nullable().default(null),
 	/** The first rows split by the detected delimiter (header included), for the preview table. */
 	sampleRows: z.array(z.array(z.string()))
 });

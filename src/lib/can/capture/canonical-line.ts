@@ -30,7 +30,12 @@ export function fitsCanonicalLine(layout: CaptureLayout): boolean {
 		layout.idFormat === 'hex' &&
 		layout.extendedColumn === 2 &&
 		layout.dlcColumn === 3 &&
-		layout.dataColumn === 4
+		layout.dataColumn === 4 &&
+		layout.timeFormat === 'number' &&
+		layout.busColumn === null &&
+		layout.directionColumn === null &&
+		layout.kindColumn === null &&
+		layout.tagColumn === null
 	);
 }
 

@@ -10,7 +10,15 @@ import {
 	type CaptureLayout,
 	type TimeUnit
 } from './layout';
-import { createParsedRow, createRowParser, parseTime } from './row-parser';
+import {
+	createParsedRow,
+	createRowParser,
+	idNotationOf,
+	parseDirection,
+	parseKind,
+	parseTime,
+	timeFormatOf
+} from './row-parser';
 
 /** A problem with the capture as a whole (not one row): empty, unreadable columns, … */
 export class CaptureFormatError extends Error {
@@ -21,6 +29,11 @@ export interface LayoutGuess {
 	layout: CaptureLayout;
 	/** One sentence per decision, for the confirmation screen and the CLI's stderr. */
 	notes: string[];
+	/**
+	 * Set when no arrangement read a single sample row: the layout is only a starting point and the
+	 * person maps the columns by hand on the confirmation screen (the upload is kept). One sentence.
+	 */
+	problem: string | null;
 }
 
 /** Rows of the sample the guess looks at. */
@@ -63,8 +76,37 @@ const DATA_NAMES = new Set([
 	'payloadhex'
 ]);
 const BYTE_COLUMN = /^(d|b|byte|data|db|databyte)(\d{1,2})$/;
+const BUS_NAMES = new Set([
+	'bus',
+	'channel',
+	'chan',
+	'ch',
+	'chn',
+	'port',
+	'interface',
+	'iface',
+	'network',
+	'net',
+	'busname',
+	'busid'
+]);
+const DIRECTION_NAMES = new Set(['dir', 'direction', 'rxtx', 'txrx', 'io']);
+const KIND_NAMES = new Set(['type', 'kind', 'frametype', 'msgtype', 'messagetype', 'frame']);
+const TAG_NAMES = new Set([
+	'flag',
+	'flags',
+	'label',
+	'tag',
+	'note',
+	'notes',
+	'comment',
+	'info',
+	'marker',
+	'event'
+]);
 
 function unitFromSuffix(suffix: string): TimeUnit | null {
+	if (/^(ns|nsec|nano)/.test(suffix)) return 'ns';
 	if (/^(us|µs|usec|micro)/.test(suffix)) return 'us';
 	if (/^(ms|msec|milli)/.test(suffix)) return 'ms';
 	if (/^(s|sec|secs|seconds)$/.test(suffix)) return 's';
@@ -80,6 +122,10 @@ interface HeaderMapping {
 	dlc: number | null;
 	data: number | null;
 	bytes: number[];
+	bus: number | null;
+	direction: number | null;
+	kind: number | null;
+	tag: number | null;
 }
 
 function mapHeader(header: string[]): HeaderMapping {
@@ -91,7 +137,11 @@ function mapHeader(header: string[]): HeaderMapping {
 		extended: null,
 		dlc: null,
 		data: null,
-		bytes: []
+		bytes: [],
+		bus: null,
+		direction: null,
+		kind: null,
+		tag: null
 	};
 	const numbered: [number, number][] = [];
 	header.forEach((raw, column) => {
@@ -106,6 +156,10 @@ function mapHeader(header: string[]): HeaderMapping {
 		} else if (m.extended === null && EXTENDED_NAMES.has(name)) m.extended = column;
 		else if (m.dlc === null && DLC_NAMES.has(name)) m.dlc = column;
 		else if (m.data === null && DATA_NAMES.has(name)) m.data = column;
+		else if (m.bus === null && BUS_NAMES.has(name)) m.bus = column;
+		else if (m.direction === null && DIRECTION_NAMES.has(name)) m.direction = column;
+		else if (m.kind === null && KIND_NAMES.has(name)) m.kind = column;
+		else if (m.tag === null && TAG_NAMES.has(name)) m.tag = column;
 		else {
 			const byte = BYTE_COLUMN.exec(name);
 			if (byte) numbered.push([Number(byte[2]), column]);
@@ -117,8 +171,19 @@ function mapHeader(header: string[]): HeaderMapping {
 
 type Columns = Pick<
 	CaptureLayout,
-	'timeColumn' | 'idColumn' | 'extendedColumn' | 'dlcColumn' | 'dataColumn' | 'byteColumns'
+	| 'timeColumn'
+	| 'idColumn'
+	| 'extendedColumn'
+	| 'dlcColumn'
+	| 'dataColumn'
+	| 'byteColumns'
+	| 'busColumn'
+	| 'directionColumn'
+	| 'kindColumn'
+	| 'tagColumn'
 >;
+
+const NO_EXTRAS = { busColumn: null, directionColumn: null, kindColumn: null, tagColumn: null };
 
 /** Column arrangements to try when the header does not say, most usual first. */
 function positionalCandidates(columnCount: number): Columns[] {
@@ -128,7 +193,7 @@ function positionalCandidates(columnCount: number): Columns[] {
 		for (const dlcColumn of [afterFlag, null]) {
 			const dataStart = dlcColumn === null ? afterFlag : afterFlag + 1;
 			if (dataStart >= columnCount) continue;
-			const base = { timeColumn: 0, idColumn: 1, extendedColumn, dlcColumn };
+			const base = { timeColumn: 0, idColumn: 1, extendedColumn, dlcColumn, ...NO_EXTRAS };
 			out.push({ ...base, dataColumn: dataStart, byteColumns: [] });
 			const byteColumns = Array.from(
 				{ length: Math.min(64, columnCount - dataStart) },
@@ -150,7 +215,7 @@ function guessTimeUnit(
 		return { unit: 's', epoch: false, why: 'the canonical layout (no rows to judge by)' };
 	const first = values[0];
 	if (hinted) {
-		const seconds = first * { s: 1, ms: 1e-3, us: 1e-6 }[hinted];
+		const seconds = first * { s: 1, ms: 1e-3, us: 1e-6, ns: 1e-9 }[hinted];
 		// Over about three years since the start can only be a wall-clock time.
 		return { unit: hinted, epoch: seconds > 1e8, why: 'the column name' };
 	}
@@ -161,6 +226,8 @@ function guessTimeUnit(
 		return { unit: 'ms', epoch: true, why: 'the size of the values' };
 	if (first >= 1e15 && first < 1e16)
 		return { unit: 'us', epoch: true, why: 'the size of the values' };
+	if (first >= 1e18 && first < 1e19)
+		return { unit: 'ns', epoch: true, why: 'the size of the values' };
 	if (texts.some((t) => /[.,]\d/.test(t)))
 		return { unit: 's', epoch: false, why: 'the decimal fractions' };
 	// Whole numbers: frames at least ~44 µs apart even at 1 Mbit/s (ISO 11898-1 minimum frame of
@@ -176,6 +243,8 @@ function guessTimeUnit(
 		: { unit: 'ms', epoch: false, why: `whole numbers about ${median} apart` };
 }
 
+const CANONICAL_NAMES = 'time,id,extended,dlc,data';
+
 const DELIMITER_NAMES: Record<string, string> = {
 	',': 'comma',
 	';': 'semicolon',
@@ -185,8 +254,81 @@ const DELIMITER_NAMES: Record<string, string> = {
 const UNIT_NAMES: Record<TimeUnit, string> = {
 	s: 'seconds',
 	ms: 'milliseconds',
-	us: 'microseconds'
+	us: 'microseconds',
+	ns: 'nanoseconds'
 };
+
+/** The notation most of `texts` are written in (numbers win ties: they are the usual case). */
+function timeFormatOfColumn(texts: string[]): CaptureLayout['timeFormat'] {
+	const counts = { number: 0, 'time-of-day': 0, 'date-time': 0 };
+	for (const t of texts) {
+		const f = timeFormatOf(t);
+		if (f) counts[f]++;
+	}
+	if (counts['time-of-day'] > counts.number && counts['time-of-day'] >= counts['date-time'])
+		return 'time-of-day';
+	if (counts['date-time'] > counts.number) return 'date-time';
+	return 'number';
+}
+
+/** The most common ID notation of the sample, in words; null when none reads. */
+function idNotationOfColumn(texts: string[]): string | null {
+	const counts = new Map<string, number>();
+	for (const t of texts) {
+		const n = idNotationOf(t);
+		if (n) counts.set(n, (counts.get(n) ?? 0) + 1);
+	}
+	return [...counts].sort((a, b) => b[1] - a[1])[0]?.[0] ?? null;
+}
+
+/**
+ * Gives roles to columns the chosen layout leaves unread: a column of frame-kind words becomes the
+ * kind column, one of Rx/Tx the direction; with one column per byte and a DLC, text right after
+ * each row's bytes is a tag (rows of varying width), so the byte columns stop at the longest payload.
+ */
+function assignTrailingColumns(layout: CaptureLayout, rows: string[][]): CaptureLayout {
+	if (rows.length === 0) return layout;
+	const out = createParsedRow();
+	const parse = createRowParser(layout);
+	let next = { ...layout };
+	if (layout.dataColumn === null && layout.dlcColumn !== null && layout.tagColumn === null) {
+		let longest = 0;
+		let tagged = 0;
+		for (const row of rows) {
+			if (parse(row, out) !== null) continue;
+			longest = Math.max(longest, out.length);
+			const after = layout.byteColumns[0] + out.length;
+			if ((row[after] ?? '').trim() !== '') tagged++;
+		}
+		if (tagged > 0) {
+			next = {
+				...next,
+				byteColumns: layout.byteColumns.slice(0, longest),
+				tagColumn: 'after-bytes'
+			};
+		}
+		return next;
+	}
+	if (layout.dataColumn === null) return next;
+	const used = Math.max(
+		layout.timeColumn,
+		layout.idColumn,
+		layout.extendedColumn ?? 0,
+		layout.dlcColumn ?? 0,
+		layout.dataColumn
+	);
+	const width = Math.max(...rows.map((r) => r.length));
+	for (let c = used + 1; c < width; c++) {
+		const texts = rows.map((r) => (r[c] ?? '').trim()).filter((t) => t !== '');
+		if (texts.length === 0) continue;
+		if (next.kindColumn === null && texts.every((t) => parseKind(t) !== undefined))
+			next = { ...next, kindColumn: c };
+		else if (next.directionColumn === null && texts.every((t) => parseDirection(t) !== undefined))
+			next = { ...next, directionColumn: c };
+		else if (next.tagColumn === null) next = { ...next, tagColumn: c };
+	}
+	return next;
+}
 
 /** Reads the first rows of `sample` (whole lines) and returns the most likely layout. */
 export function detectCaptureLayout(sample: string): LayoutGuess {
@@ -201,7 +343,7 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 	const delimiter = (CAPTURE_DELIMITERS as readonly string[]).includes(parsed.meta.delimiter)
 		? (parsed.meta.delimiter as CaptureLayout['delimiter'])
 		: ',';
-	const hasHeader = !Number.isFinite(parseTime(rows[0][0] ?? ''));
+	const hasHeader = timeFormatOf(rows[0][0] ?? '') === null;
 	const dataRows = hasHeader ? rows.slice(1) : rows;
 	const notes = [`Delimiter: ${DELIMITER_NAMES[delimiter]}.`];
 
@@ -210,6 +352,7 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 	// A named ID column is hex (the canonical layout) unless its name says decimal; unnamed, try both.
 	let idFormats: CaptureLayout['idFormat'][] = ['hex', 'decimal'];
 	const header = hasHeader ? mapHeader(rows[0]) : null;
+	let problem: string | null = null;
 	if (
 		header &&
 		header.time !== null &&
@@ -223,7 +366,11 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 				extendedColumn: header.extended,
 				dlcColumn: header.dlc,
 				dataColumn: header.data,
-				byteColumns: header.data === null ? header.bytes : []
+				byteColumns: header.data === null ? header.bytes : [],
+				busColumn: header.bus,
+				directionColumn: header.direction,
+				kindColumn: header.kind,
+				tagColumn: header.tag
 			}
 		];
 		hintedUnit = header.timeUnit;
@@ -232,18 +379,25 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 			`Header row: yes; columns found by name (${rows[0].map((h) => h.trim()).join(', ')}).`
 		);
 	} else {
+		const columnCount = Math.max(0, ...dataRows.map((r) => r.length));
 		if (dataRows.length === 0) {
-			throw new CaptureFormatError(
-				`The capture has only a header row and its column names were not recognised; expected ${'time,id,extended,dlc,data'}.`
-			);
+			problem = `the file has only a header row and its column names were not recognised; expected ${CANONICAL_NAMES}`;
+		} else if (columnCount < 3) {
+			problem = `each row needs at least a time, an ID and data, but the rows have ${columnCount} column(s) with a ${DELIMITER_NAMES[delimiter]} delimiter`;
 		}
-		const columnCount = Math.max(...dataRows.map((r) => r.length));
-		if (columnCount < 3) {
-			throw new CaptureFormatError(
-				`Each row needs at least a time, an ID and data, but the rows have ${columnCount} column(s) with a ${DELIMITER_NAMES[delimiter]} delimiter.`
-			);
-		}
-		candidates = positionalCandidates(columnCount);
+		candidates = problem
+			? [
+					{
+						timeColumn: 0,
+						idColumn: Math.min(1, columnCount - 1),
+						extendedColumn: null,
+						dlcColumn: null,
+						dataColumn: Math.max(0, columnCount - 1),
+						byteColumns: [],
+						...NO_EXTRAS
+					}
+				]
+			: positionalCandidates(columnCount);
 		notes.push(
 			hasHeader
 				? 'Header row: yes, but its names were not recognised; columns guessed from their contents.'
@@ -254,7 +408,11 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 	// Score every candidate (and both ID notations) by how many sample rows it reads; first wins ties.
 	const out = createParsedRow();
 	const timeTexts = dataRows.map((r) => r[candidates[0].timeColumn] ?? '');
-	const time = guessTimeUnit(timeTexts, hintedUnit);
+	const timeFormat = timeFormatOfColumn(timeTexts);
+	const time =
+		timeFormat === 'number'
+			? guessTimeUnit(timeTexts, hintedUnit)
+			: { unit: 's' as const, epoch: timeFormat === 'date-time', why: 'how the times are written' };
 	let best: { layout: CaptureLayout; score: number; firstProblem: string | null } | null = null;
 	for (const columns of candidates) {
 		for (const idFormat of idFormats) {
@@ -263,6 +421,7 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 				hasHeader,
 				...columns,
 				timeUnit: time.unit,
+				timeFormat,
 				epochTime: time.epoch,
 				idFormat,
 				dlcMeaning: 'either'
@@ -271,24 +430,36 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 			let score = 0;
 			let firstProblem: string | null = null;
 			dataRows.forEach((row, i) => {
-				const problem = parse(row, out);
-				if (problem === null) score++;
-				else firstProblem ??= `row ${i + 1 + (hasHeader ? 1 : 0)}: ${problem}`;
+				const rowProblem = parse(row, out);
+				if (rowProblem === null) score++;
+				else firstProblem ??= `row ${i + 1 + (hasHeader ? 1 : 0)}: ${rowProblem}`;
 			});
 			if (!best || score > best.score) best = { layout, score, firstProblem };
 		}
 	}
-	if (!best || (dataRows.length > 0 && best.score === 0)) {
-		throw new CaptureFormatError(
-			`Could not recognise the capture's columns (${best?.firstProblem ?? 'no rows'}). Expected ${'time,id,extended,dlc,data'} or a close variant.`
+	const chosen = best!;
+	if (problem === null && dataRows.length > 0 && chosen.score === 0)
+		problem = `Could not recognise the capture's columns (${chosen.firstProblem}). Expected ${CANONICAL_NAMES} or a close variant.`;
+	else if (problem !== null) problem = `Could not recognise the capture's columns: ${problem}.`;
+	const recognised = problem === null;
+	const layout = captureLayoutSchema.parse(
+		recognised ? assignTrailingColumns(chosen.layout, dataRows) : chosen.layout
+	);
+	if (!recognised) {
+		notes.push(
+			`${problem} The file is kept: give each column its role below and the preview reads the rows again.`
 		);
 	}
-	const layout = captureLayoutSchema.parse(best.layout);
+	const idNotation = idNotationOfColumn(dataRows.map((r) => r[layout.idColumn] ?? ''));
 	notes.push(
-		`Time: column ${layout.timeColumn + 1}, ${UNIT_NAMES[layout.timeUnit]}${layout.epochTime ? ' since 1970 (wall-clock), made relative to the first frame' : ''} — judged by ${time.why}.`,
-		`ID: column ${layout.idColumn + 1}, ${layout.idFormat === 'hex' ? 'hexadecimal' : 'decimal'}.`,
+		layout.timeFormat === 'number'
+			? `Time: column ${layout.timeColumn + 1}, ${UNIT_NAMES[layout.timeUnit]}${layout.epochTime ? ' since 1970 (wall-clock), made relative to the first frame' : ''} — judged by ${time.why}.`
+			: layout.timeFormat === 'time-of-day'
+				? `Time: column ${layout.timeColumn + 1}, time of day (hh:mm:ss); a jump back of more than 12 hours is read as passing midnight.`
+				: `Time: column ${layout.timeColumn + 1}, ISO 8601 date and time (UTC unless an offset is written).`,
+		`ID: column ${layout.idColumn + 1}, ${layout.idFormat === 'hex' ? 'hexadecimal' : 'decimal'}${idNotation ? ` (written as ${idNotation})` : ''}.`,
 		layout.extendedColumn === null
-			? 'Extended flag: no column; IDs above 0x7FF are taken as extended (29-bit).'
+			? 'Extended flag: no column; IDs above 0x7FF (or marked with a trailing x) are taken as extended (29-bit).'
 			: `Extended flag: column ${layout.extendedColumn + 1}.`,
 		layout.dlcColumn === null
 			? 'DLC: no column; the data decides the length.'
@@ -297,10 +468,21 @@ export function detectCaptureLayout(sample: string): LayoutGuess {
 			? `Data: column ${layout.dataColumn + 1}, hex bytes.`
 			: `Data: one byte per column, columns ${layout.byteColumns[0] + 1}–${layout.byteColumns[layout.byteColumns.length - 1] + 1}.`
 	);
-	if (dataRows.length > 0 && best.score < dataRows.length) {
+	if (layout.busColumn !== null) notes.push(`Bus: column ${layout.busColumn + 1}.`);
+	if (layout.directionColumn !== null)
+		notes.push(`Direction (Rx/Tx): column ${layout.directionColumn + 1}.`);
+	if (layout.kindColumn !== null)
+		notes.push(`Frame kind (data, remote, error): column ${layout.kindColumn + 1}.`);
+	if (layout.tagColumn === 'after-bytes')
 		notes.push(
-			`${dataRows.length - best.score} of the ${dataRows.length} sample rows do not fit this layout (first: ${best.firstProblem}).`
+			'Tag: the text right after each row’s data bytes (rows of varying width) is kept as the frame’s tag, not read as a byte.'
+		);
+	else if (layout.tagColumn !== null)
+		notes.push(`Tag: column ${layout.tagColumn + 1} is kept as each frame’s tag.`);
+	if (recognised && dataRows.length > 0 && chosen.score < dataRows.length) {
+		notes.push(
+			`${dataRows.length - chosen.score} of the ${dataRows.length} sample rows do not fit this layout (first: ${chosen.firstProblem}).`
 		);
 	}
-	return { layout, notes };
+	return { layout, notes, problem };
 }

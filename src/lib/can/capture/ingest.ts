@@ -11,8 +11,15 @@ import Papa from 'papaparse';
 import { fitsCanonicalLine, readCanonicalLine } from './canonical-line';
 import { CaptureFormatError, detectCaptureLayout, SAMPLE_ROWS } from './detect-layout';
 import { FrameStore, type FrameSink } from './frame-store';
-import { captureLayoutSchema, SECONDS_PER_UNIT, type CaptureLayout } from './layout';
-import { createParsedRow, createRowParser, type ParsedRow } from './row-parser';
+import { captureLayoutSchema, secondsPerTimeUnit, type CaptureLayout } from './layout';
+import {
+	createParsedRow,
+	createRowParser,
+	createRowParserState,
+	ROW_KIND,
+	type ParsedRow,
+	type RowParserState
+} from './row-parser';
 
 export type CaptureChunk = string | Uint8Array;
 export type CaptureSource =
@@ -38,6 +45,17 @@ export interface IngestReport {
 	firstBackwardsLine: number | null;
 	/** Time of the first frame in seconds as written (epoch seconds for wall-clock times); null if none. */
 	timeOrigin: number | null;
+	/** Remote requests and error frames written as rows: counted and listed, never bad rows. */
+	remoteFrameCount: number;
+	errorFrameCount: number;
+	/** The first MAX_REPORTED_BAD_ROWS of them, by line. */
+	specialRows: { line: number; kind: 'remote' | 'error' }[];
+	/** Bus names in order of first appearance (empty without a bus column); frames hold the index. */
+	buses: string[];
+	/** Tag texts in order of first appearance; a frame's tag is index + 1 (0 = none). */
+	tags: string[];
+	/** How often a time-of-day column passed midnight. */
+	midnightCrossings: number;
 	warnings: string[];
 }
 
@@ -121,6 +139,10 @@ export async function ingestCaptureInto(
 	let newline: '\n' | '\r\n' | '\r' = '\n';
 	let parser: Papa.Parser | null = null;
 	let parseRow: ReturnType<typeof createRowParser> = () => null;
+	const parserState: RowParserState = createRowParserState();
+	let remoteFrameCount = 0;
+	let errorFrameCount = 0;
+	const specialRows: IngestReport['specialRows'] = [];
 	let secondsPerUnit = 1;
 	let fastLines = false;
 	let dlcMeaning: CaptureLayout['dlcMeaning'] = 'either';
@@ -142,19 +164,27 @@ export async function ingestCaptureInto(
 		if (!layout) {
 			const complete = final ? sample : sample.slice(0, sample.lastIndexOf(newline));
 			const guess = detectCaptureLayout(complete);
+			if (guess.problem) throw new CaptureFormatError(guess.problem);
 			layout = guess.layout;
 			layoutNotes.push(...guess.notes);
 		}
 		parser = new Papa.Parser({ delimiter: layout.delimiter, newline });
-		parseRow = createRowParser(layout);
+		parseRow = createRowParser(layout, parserState);
 		fastLines = (options.canonicalFastPath ?? true) && fitsCanonicalLine(layout);
 		dlcMeaning = layout.dlcMeaning;
-		secondsPerUnit = SECONDS_PER_UNIT[layout.timeUnit];
+		secondsPerUnit = secondsPerTimeUnit(layout);
 		headerPending = layout.hasHeader;
 	};
 
 	/** A row read into `out`: make its time relative and hand it to the sink. */
 	const acceptRow = (row: ParsedRow) => {
+		if (row.kind !== ROW_KIND.data) {
+			if (row.kind === ROW_KIND.remote) remoteFrameCount++;
+			else errorFrameCount++;
+			if (specialRows.length < MAX_REPORTED_BAD_ROWS)
+				specialRows.push({ line, kind: row.kind === ROW_KIND.remote ? 'remote' : 'error' });
+			return;
+		}
 		firstTime ??= row.time;
 		if (row.time < previousTime) {
 			backwardsTimeCount++;
@@ -259,6 +289,16 @@ export async function ingestCaptureInto(
 			`${badRowCount} row(s) could not be read and were skipped; the first is line ${badRows[0].line}: ${badRows[0].reason}.`
 		);
 	}
+	if (remoteFrameCount + errorFrameCount > 0) {
+		warnings.push(
+			`${remoteFrameCount} remote request(s) and ${errorFrameCount} error frame(s) are listed apart from the data frames (first at line ${specialRows[0].line}).`
+		);
+	}
+	if (parserState.midnightCrossings > 0) {
+		warnings.push(
+			`The time of day passes midnight ${parserState.midnightCrossings} time(s); later times count on from 24:00.`
+		);
+	}
 	if (backwardsTimeCount > 0) {
 		warnings.push(
 			`${backwardsTimeCount} row(s) have a time earlier than the row before (first at line ${firstBackwardsLine}); they are kept in file order.`
@@ -274,6 +314,12 @@ export async function ingestCaptureInto(
 		backwardsTimeCount,
 		firstBackwardsLine,
 		timeOrigin: firstTime === null ? null : firstTime * secondsPerUnit,
+		remoteFrameCount,
+		errorFrameCount,
+		specialRows,
+		buses: parserState.buses,
+		tags: parserState.tags,
+		midnightCrossings: parserState.midnightCrossings,
 		warnings
 	};
 }
@@ -285,6 +331,9 @@ export async function ingestCapture(
 ): Promise<IngestReport & { store: FrameStore }> {
 	const store = new FrameStore();
 	const report = await ingestCaptureInto(source, store, options);
-	store.origin = { timeOrigin: report.timeOrigin ?? 0, epoch: report.layout.epochTime };
+	store.origin = {
+		timeOrigin: report.timeOrigin ?? 0,
+		epoch: report.layout.epochTime || report.layout.timeFormat === 'date-time'
+	};
 	return { ...report, store };
 }

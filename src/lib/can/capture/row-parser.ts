@@ -7,6 +7,10 @@ import { dlcToLength } from '../dlc';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID, PAYLOAD_LENGTHS } from '../map';
 import type { CaptureLayout } from './layout';
 
+/** A data frame, a remote request (no payload) or an error frame (ISO 11898-1). */
+export const ROW_KIND = { data: 0, remote: 1, error: 2 } as const;
+export type RowKind = (typeof ROW_KIND)[keyof typeof ROW_KIND];
+
 export interface ParsedRow {
 	/** In the layout's time unit, as written (not yet made relative). */
 	time: number;
@@ -15,6 +19,13 @@ export interface ParsedRow {
 	length: number;
 	/** 64-byte scratch buffer; bytes [0, length) are this row's payload. */
 	data: Uint8Array;
+	kind: RowKind;
+	/** Index into the parser's bus names (0 when the layout has no bus column). */
+	bus: number;
+	/** 0 received, 1 transmitted by the logger. */
+	direction: 0 | 1;
+	/** Index into the parser's tag names + 1; 0 = no tag. */
+	tag: number;
 }
 
 export const createParsedRow = (): ParsedRow => ({
@@ -22,11 +33,36 @@ export const createParsedRow = (): ParsedRow => ({
 	id: 0,
 	extended: false,
 	length: 0,
-	data: new Uint8Array(64)
+	data: new Uint8Array(64),
+	kind: ROW_KIND.data,
+	bus: 0,
+	direction: 0,
+	tag: 0
 });
 
 /** Returns an error reason, or null when `out` holds the row. */
 export type RowParser = (fields: string[], out: ParsedRow) => string | null;
+
+/** Buses a capture may name: the frame store keeps a frame's bus in one byte. */
+export const MAX_BUSES = 256;
+/** Distinct tags a capture may carry: the frame store keeps a frame's tag in 16 bits. */
+export const MAX_TAGS = 65535;
+
+/**
+ * What a row parser learns across rows: the bus and tag names met so far (a frame holds their
+ * index) and how often a time of day passed midnight. One per file; the ingest reports it.
+ */
+export interface RowParserState {
+	buses: string[];
+	tags: string[];
+	midnightCrossings: number;
+}
+
+export const createRowParserState = (): RowParserState => ({
+	buses: [],
+	tags: [],
+	midnightCrossings: 0
+});
 
 /** 0–15 for each hex digit's char code, -1 for every other code below 128: one load, no branches. */
 const HEX_VALUE = (() => {
@@ -84,28 +120,118 @@ export function parseTime(field: string): number {
 	return s.length === 0 ? NaN : Number(s);
 }
 
-/** Hex ID with or without 0x, or decimal; -1 when malformed. Up to 8 hex / 10 decimal digits. */
-export function parseId(field: string, format: 'hex' | 'decimal'): number {
+const TIME_OF_DAY = /^(\d{1,2}):(\d{2}):(\d{2})(?:[.,](\d{1,9}))?$/;
+
+/** `hh:mm:ss` with an optional fraction of up to 9 digits, in seconds since midnight; NaN otherwise. */
+export function parseTimeOfDay(field: string): number {
+	const m = TIME_OF_DAY.exec(trimField(field));
+	if (!m) return NaN;
+	const [h, min, sec] = [Number(m[1]), Number(m[2]), Number(m[3])];
+	// 24:00:00 ends a day in ISO 8601; a leap second may read :60 (ISO 8601:2004, 4.2.1).
+	if (h > 24 || min > 59 || sec > 60) return NaN;
+	return h * 3600 + min * 60 + sec + (m[4] ? Number(m[4]) / 10 ** m[4].length : 0);
+}
+
+const DATE_TIME =
+	/^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2}):(\d{2})(?:[.,](\d{1,9}))?\s*(Z|[+-]\d{2}(?::?\d{2})?)?$/i;
+
+/**
+ * ISO 8601 calendar date and time (`2026-03-14T09:26:53.589793Z`, a space instead of T allowed),
+ * in seconds since 1970-01-01 UTC; without an offset the text is read as UTC. NaN otherwise.
+ * The fraction is added to whole seconds so microseconds survive (Date keeps milliseconds only).
+ */
+export function parseDateTime(field: string): number {
+	const m = DATE_TIME.exec(trimField(field));
+	if (!m) return NaN;
+	const [y, mo, d, h, mi, se] = m.slice(1, 7).map(Number);
+	if (mo < 1 || mo > 12 || d < 1 || d > 31 || h > 24 || mi > 59 || se > 60) return NaN;
+	const whole = Date.UTC(y, mo - 1, d, h, mi, se) / 1000;
+	// Date.UTC rolls 31 February over into March: refuse dates that do not exist.
+	if (new Date(Date.UTC(y, mo - 1, d)).getUTCDate() !== d) return NaN;
+	let offset = 0;
+	const zone = m[8];
+	if (zone && zone.toUpperCase() !== 'Z') {
+		const digits = zone.slice(1).replace(':', '');
+		offset =
+			(Number(digits.slice(0, 2)) * 3600 + Number(digits.slice(2) || 0) * 60) *
+			(zone[0] === '-' ? -1 : 1);
+	}
+	return whole - offset + (m[7] ? Number(m[7]) / 10 ** m[7].length : 0);
+}
+
+/** The time field in the layout's notation: a number in its unit, or seconds for the text forms. */
+export function parseTimeAs(field: string, format: CaptureLayout['timeFormat']): number {
+	if (format === 'number') return parseTime(field);
+	return format === 'time-of-day' ? parseTimeOfDay(field) : parseDateTime(field);
+}
+
+/** Which notation a time field is written in, or null when it is none of them. */
+export function timeFormatOf(field: string): CaptureLayout['timeFormat'] | null {
+	if (Number.isFinite(parseTime(field))) return 'number';
+	if (Number.isFinite(parseTimeOfDay(field))) return 'time-of-day';
+	if (Number.isFinite(parseDateTime(field))) return 'date-time';
+	return null;
+}
+
+/** An ID field read by parseIdInto: its value and whether it carries the extended marker letter. */
+export interface ParsedId {
+	id: number;
+	marked: boolean;
+}
+
+/**
+ * An ID in any of the notations captures use: hex with a `0x` prefix, an `h`/`H` suffix or neither;
+ * or decimal. Either may end with the letter `x`/`X` marking a 29-bit (extended) ID — never a hex
+ * digit, so it cannot be misread. Up to 8 hex / 10 decimal digits. false when malformed.
+ */
+export function parseIdInto(field: string, format: 'hex' | 'decimal', out: ParsedId): boolean {
 	const s = trimField(field);
+	let end = s.length;
+	// "0x" alone is a bare prefix, not the digit 0 with a marker.
+	out.marked =
+		end > 1 && (s.charCodeAt(end - 1) | 32) === 120 && !(end === 2 && s.charCodeAt(0) === 48);
+	if (out.marked) end--;
 	let value = 0;
 	if (format === 'decimal') {
-		if (s.length === 0 || s.length > 10) return -1;
-		for (let i = 0; i < s.length; i++) {
+		if (end === 0 || end > 10) return false;
+		for (let i = 0; i < end; i++) {
 			const c = s.charCodeAt(i);
-			if (c < 48 || c > 57) return -1;
+			if (c < 48 || c > 57) return false;
 			value = value * 10 + (c - 48);
 		}
-		return value;
+		out.id = value;
+		return true;
 	}
 	let i = 0;
-	if (s.length > 2 && s.charCodeAt(0) === 48 && (s.charCodeAt(1) | 32) === 120) i = 2;
-	if (s.length === i || s.length - i > 8) return -1;
-	for (; i < s.length; i++) {
+	if (end > 2 && s.charCodeAt(0) === 48 && (s.charCodeAt(1) | 32) === 120) i = 2;
+	else if (end > 1 && (s.charCodeAt(end - 1) | 32) === 104) end--; // the h suffix
+	if (end === i || end - i > 8) return false;
+	for (; i < end; i++) {
 		const d = hexDigit(s.charCodeAt(i));
-		if (d < 0) return -1;
+		if (d < 0) return false;
 		value = value * 16 + d;
 	}
-	return value;
+	out.id = value;
+	return true;
+}
+
+const scratchId: ParsedId = { id: 0, marked: false };
+
+/** The ID's value in any notation parseIdInto reads (the extended marker dropped); -1 when malformed. */
+export function parseId(field: string, format: 'hex' | 'decimal'): number {
+	return parseIdInto(field, format, scratchId) ? scratchId.id : -1;
+}
+
+/** How an ID field is written, in words for the confirmation screen; null when it is no ID. */
+export function idNotationOf(field: string): string | null {
+	const s = trimField(field);
+	const marker = /[xX]$/.test(s) && !/^0[xX]$/.test(s) ? ', extended marked by a trailing x' : '';
+	const bare = marker ? s.slice(0, -1) : s;
+	if (/^0[xX][0-9a-fA-F]{1,8}$/.test(bare)) return `hex with a 0x prefix${marker}`;
+	if (/^[0-9a-fA-F]{1,8}[hH]$/.test(bare)) return `hex with an h suffix${marker}`;
+	if (/^\d{1,8}$/.test(bare)) return `digits only (hex or decimal)${marker}`;
+	if (/^[0-9a-fA-F]{1,8}$/.test(bare)) return `hex without prefix or suffix${marker}`;
+	return null;
 }
 
 const TRUE_FLAGS = new Set(['1', 'true', 't', 'yes', 'y', 'x', 'e', 'ext', 'extended', 'eff']);
@@ -124,6 +250,43 @@ export function parseFlag(field: string): boolean | null | undefined {
 	if (TRUE_FLAGS.has(s)) return true;
 	if (FALSE_FLAGS.has(s)) return false;
 	return undefined;
+}
+
+const REMOTE_WORDS = new Set(['r', 'rtr', 'remote', 'rem', 'remoteframe', 'request']);
+const ERROR_WORDS = new Set(['err', 'error', 'errorframe', 'errframe', 'error frame']);
+const DATA_WORDS = new Set(['', 'd', 'data', 'dat', 'dataframe', 'fd', 'brs', 'normal']);
+
+/** A frame-kind marker: data, remote or error; undefined when unreadable. */
+export function parseKind(field: string): RowKind | undefined {
+	const s = trimField(field).toLowerCase();
+	if (DATA_WORDS.has(s)) return ROW_KIND.data;
+	if (REMOTE_WORDS.has(s)) return ROW_KIND.remote;
+	if (ERROR_WORDS.has(s)) return ROW_KIND.error;
+	return undefined;
+}
+
+/** An ID field some loggers fill with a word for an error frame ("ErrorFrame", "error"). */
+const isErrorWord = (field: string) => ERROR_WORDS.has(trimField(field).toLowerCase());
+
+const RX_WORDS = new Set(['', 'rx', 'r', 'receive', 'received', 'in', 'input']);
+const TX_WORDS = new Set(['tx', 't', 'transmit', 'transmitted', 'sent', 'send', 'out', 'output']);
+
+/** 0 received, 1 transmitted; undefined when unreadable. */
+export function parseDirection(field: string): 0 | 1 | undefined {
+	const s = trimField(field).toLowerCase();
+	if (RX_WORDS.has(s)) return 0;
+	if (TX_WORDS.has(s)) return 1;
+	return undefined;
+}
+
+/** Index of `name` in `names`, adding it when new and there is room; -1 when full. */
+function intern(names: string[], index: Map<string, number>, name: string, max: number): number {
+	const known = index.get(name);
+	if (known !== undefined) return known;
+	if (names.length >= max) return -1;
+	index.set(name, names.length);
+	names.push(name);
+	return names.length - 1;
 }
 
 /** Whole number 0–64, -1 when malformed. */
@@ -192,39 +355,107 @@ export function dlcMatches(
 	return asCode || dlc === length;
 }
 
-export function createRowParser(layout: CaptureLayout): RowParser {
+export function createRowParser(
+	layout: CaptureLayout,
+	state: RowParserState = createRowParserState()
+): RowParser {
 	const { timeColumn, idColumn, extendedColumn, dlcColumn, dataColumn, byteColumns } = layout;
+	const { busColumn, directionColumn, kindColumn, tagColumn, timeFormat } = layout;
 	const needed = Math.max(
 		timeColumn,
 		idColumn,
 		extendedColumn ?? 0,
 		dlcColumn ?? 0,
-		dataColumn ?? 0
+		dataColumn ?? 0,
+		busColumn ?? 0,
+		directionColumn ?? 0
 	);
+	const busIndex = new Map(state.buses.map((name, i) => [name, i]));
+	const tagIndex = new Map(state.tags.map((name, i) => [name, i]));
+	const id: ParsedId = { id: 0, marked: false };
+	let previousTimeOfDay = -1;
+	let dayOffset = 0;
+	const HALF_DAY = 43_200;
 
 	return (fields, out) => {
 		if (fields.length <= needed) {
 			return `expected at least ${needed + 1} columns, found ${fields.length}`;
 		}
-		const time = parseTime(fields[timeColumn]);
-		if (!Number.isFinite(time)) return `time "${fields[timeColumn].trim()}" is not a number`;
+		let time = parseTimeAs(fields[timeColumn], timeFormat);
+		if (!Number.isFinite(time)) {
+			const wanted = {
+				number: 'a number',
+				'time-of-day': 'a time of day hh:mm:ss',
+				'date-time': 'an ISO 8601 date-time'
+			};
+			return `time "${fields[timeColumn].trim()}" is not ${wanted[timeFormat]}`;
+		}
+		if (timeFormat === 'time-of-day') {
+			// A jump back of more than half a day is the clock passing midnight, not a reordered row.
+			if (previousTimeOfDay >= 0 && time + HALF_DAY < previousTimeOfDay) {
+				dayOffset += 86_400;
+				state.midnightCrossings++;
+			}
+			previousTimeOfDay = time;
+			time += dayOffset;
+		}
 
-		const id = parseId(fields[idColumn], layout.idFormat);
-		if (id < 0) {
+		let kind: RowKind = ROW_KIND.data;
+		if (kindColumn !== null) {
+			const k = kindColumn < fields.length ? parseKind(fields[kindColumn]) : ROW_KIND.data;
+			if (k === undefined) {
+				return `frame kind "${fields[kindColumn].trim()}" is not data, remote (RTR) or error`;
+			}
+			kind = k;
+		}
+		if (kind === ROW_KIND.data && isErrorWord(fields[idColumn])) kind = ROW_KIND.error;
+
+		let bus = 0;
+		if (busColumn !== null) {
+			const name = trimField(fields[busColumn]);
+			bus = intern(state.buses, busIndex, name, MAX_BUSES);
+			if (bus < 0) {
+				return `bus "${name}" would be bus number ${MAX_BUSES + 1}; a capture holds at most ${MAX_BUSES} buses (is the bus column right?)`;
+			}
+		}
+		let direction: 0 | 1 = 0;
+		if (directionColumn !== null) {
+			const d = parseDirection(fields[directionColumn]);
+			if (d === undefined) {
+				return `direction "${fields[directionColumn].trim()}" is not Rx or Tx`;
+			}
+			direction = d;
+		}
+
+		if (kind === ROW_KIND.error) {
+			// An error frame has no ID or payload worth reading (ISO 11898-1, 10.4.4).
+			out.time = time;
+			out.id = 0;
+			out.extended = false;
+			out.length = 0;
+			out.kind = kind;
+			out.bus = bus;
+			out.direction = direction;
+			out.tag = 0;
+			return null;
+		}
+
+		if (!parseIdInto(fields[idColumn], layout.idFormat, id)) {
 			return `ID "${fields[idColumn].trim()}" is not a ${layout.idFormat === 'hex' ? 'hex' : 'decimal'} number`;
 		}
-		if (id > MAX_EXTENDED_ID) return `ID 0x${id.toString(16).toUpperCase()} is above 0x1FFFFFFF`;
+		if (id.id > MAX_EXTENDED_ID)
+			return `ID 0x${id.id.toString(16).toUpperCase()} is above 0x1FFFFFFF`;
 
-		let extended: boolean | null | undefined = null;
-		if (extendedColumn !== null) {
+		let extended: boolean | null | undefined = id.marked ? true : null;
+		if (extendedColumn !== null && !id.marked) {
 			extended = parseFlag(fields[extendedColumn]);
 			if (extended === undefined) {
 				return `extended flag "${fields[extendedColumn].trim()}" is not 0/1 or true/false`;
 			}
 		}
-		if (extended === null) extended = id > MAX_STANDARD_ID;
-		else if (!extended && id > MAX_STANDARD_ID) {
-			return `ID 0x${id.toString(16).toUpperCase()} does not fit 11 bits but the row marks it standard`;
+		if (extended === null) extended = id.id > MAX_STANDARD_ID;
+		else if (!extended && id.id > MAX_STANDARD_ID) {
+			return `ID 0x${id.id.toString(16).toUpperCase()} does not fit 11 bits but the row marks it standard`;
 		}
 
 		let dlc = -1;
@@ -233,15 +464,17 @@ export function createRowParser(layout: CaptureLayout): RowParser {
 			if (dlc < 0) return `DLC "${fields[dlcColumn].trim()}" is not a whole number from 0 to 64`;
 		}
 
-		let length: number;
-		if (dataColumn !== null) {
+		let length = 0;
+		let afterBytes = byteColumns.length > 0 ? byteColumns[0] : -1;
+		if (kind === ROW_KIND.remote) {
+			// A remote request carries no data; its DLC is the length asked for.
+		} else if (dataColumn !== null) {
 			const parsed = parseHexBytes(fields[dataColumn], out.data);
 			if (typeof parsed === 'string') return parsed;
 			length = parsed;
 		} else {
 			// Separate byte columns: with a DLC it decides how many to read, else read up to the first empty one.
 			const wanted = dlc < 0 ? byteColumns.length : dlc <= 15 && dlc > 8 ? dlcToLength(dlc) : dlc;
-			length = 0;
 			for (let k = 0; k < byteColumns.length && length < wanted; k++) {
 				const field = byteColumns[k] < fields.length ? trimField(fields[byteColumns[k]]) : '';
 				if (field.length === 0) break;
@@ -250,18 +483,38 @@ export function createRowParser(layout: CaptureLayout): RowParser {
 				if (field.length > 2 || a < 0 || b < 0)
 					return `data byte ${k} "${field}" is not a hex byte`;
 				out.data[length++] = field.length === 2 ? a * 16 + b : a;
+				afterBytes = byteColumns[k] + 1;
 			}
 		}
 		if (!isPayloadLength(length)) {
 			return `${length} data bytes is not a CAN payload length (0–8, 12, 16, 20, 24, 32, 48 or 64)`;
 		}
-		if (dlc >= 0 && !dlcMatches(dlc, length, layout.dlcMeaning)) {
+		if (kind === ROW_KIND.data && dlc >= 0 && !dlcMatches(dlc, length, layout.dlcMeaning)) {
 			return `DLC ${dlc} does not match the ${length} data bytes given`;
 		}
+
+		let tag = 0;
+		const tagAt = tagColumn === 'after-bytes' ? afterBytes : tagColumn;
+		if (tagAt !== null && tagAt >= 0 && tagAt < fields.length) {
+			const text = trimField(fields[tagAt]);
+			if (text.length > 0) {
+				const k = parseKind(text);
+				if (k === ROW_KIND.remote && kindColumn === null && length === 0) kind = k;
+				const index = intern(state.tags, tagIndex, text, MAX_TAGS);
+				if (index < 0)
+					return `tag "${text}" is one more than the ${MAX_TAGS} different tags a capture keeps`;
+				tag = index + 1;
+			}
+		}
+
 		out.time = time;
-		out.id = id;
+		out.id = id.id;
 		out.extended = extended;
 		out.length = length;
+		out.kind = kind;
+		out.bus = bus;
+		out.direction = direction;
+		out.tag = tag;
 		return null;
 	};
 }

@@ -382,15 +382,21 @@ describe('capture upload and processing', () => {
 		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
 	});
 
-	it('refuses text without capture columns (415) and an empty file (400), storing nothing', async () => {
+	it('keeps text whose columns it cannot guess for mapping by hand; refuses an empty file (400)', async () => {
 		const w = await buildWorld();
 		const prose = await upload(w, 'viewer', 'notes.txt', 'Dear team,\nthe car ran well today.\n');
-		expect(prose.status).toBe(415);
-		expect((await prose.json()).error).toMatch(/not a capture Framewright can read/);
-		const empty = await upload(w, 'viewer', 'empty.csv', '');
-		expect(empty.status).toBe(400);
-		expect((await empty.json()).error).toBe('The file is empty; there is nothing to upload.');
-		expect(await storedFiles(w)).toEqual([]);
+		expect(prose.status).toBe(201);
+		const kept = await prose.json();
+		expect(kept.capture.status).toBe('uploaded');
+		expect(kept.detected.problem).toMatch(/Could not recognise the capture's columns/);
+		expect(kept.detected.sampleRows[1]).toEqual(['the car ran well today.']);
+		expect(await storedFiles(w)).toHaveLength(1);
+		for (const blank of ['', '\n\n  \n']) {
+			const empty = await upload(w, 'viewer', 'empty.csv', blank);
+			expect(empty.status).toBe(400);
+			expect((await empty.json()).error).toMatch(/empty/);
+		}
+		expect(await storedFiles(w)).toHaveLength(1);
 	});
 
 	it('refuses a file over the size limit with 413, up front and while streaming, storing nothing', async () => {

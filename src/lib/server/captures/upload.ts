@@ -80,7 +80,12 @@ export function detectFromHead(head: Uint8Array, complete: boolean): DetectedLay
 		preview: PREVIEW_ROWS,
 		skipEmptyLines: 'greedy'
 	});
-	return { layout: guess.layout, notes: guess.notes, sampleRows: preview.data };
+	return {
+		layout: guess.layout,
+		notes: guess.notes,
+		problem: guess.problem,
+		sampleRows: preview.data
+	};
 }
 
 /** The request's Content-Length as a byte count, null when it sent none. */
@@ -141,7 +146,8 @@ export async function receiveCaptureUpload(
 		detected = detectFromHead(head.bytes.subarray(0, head.length), head.length === size);
 	} catch (error) {
 		await services.storage.delete(keys.raw);
-		if (error instanceof CaptureFormatError) throw refuseNotCapture(error.message);
+		// Only a file without rows gets here: any text is kept for mapping by hand.
+		if (error instanceof CaptureFormatError) throw new Problem(400, error.message);
 		throw error;
 	}
 

@@ -6,7 +6,11 @@
  */
 import Papa from 'papaparse';
 import { formatCanId } from '$lib/can/map-json';
-import { captureLayoutSchema, SECONDS_PER_UNIT, type CaptureLayout } from '$lib/can/capture/layout';
+import {
+	captureLayoutSchema,
+	secondsPerTimeUnit,
+	type CaptureLayout
+} from '$lib/can/capture/layout';
 import { createParsedRow, createRowParser } from '$lib/can/capture/row-parser';
 
 export interface PreviewRow {
@@ -77,7 +81,7 @@ export function previewRows(layout: CaptureLayout, rows: string[][]): PreviewRow
 			out.push({ line: r + 1, fields, frame: null, error });
 			continue;
 		}
-		const seconds = parsed.time * SECONDS_PER_UNIT[layout.timeUnit];
+		const seconds = parsed.time * secondsPerTimeUnit(layout);
 		origin ??= seconds;
 		const bytes = Array.from(parsed.data.subarray(0, parsed.length), (b) =>
 			b.toString(16).toUpperCase().padStart(2, '0')
