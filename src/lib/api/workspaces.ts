@@ -24,6 +24,12 @@ export const workspaceInputSchema = z.strictObject({ name: workspaceNameSchema }
 export const invitationInputSchema = z.strictObject({ email: emailSchema, role: roleSchema });
 export const roleChangeSchema = z.strictObject({ role: roleSchema });
 
+// The JSON routes name a member or an invitation in their path; the members page's forms send it.
+const idField = z.string({ error: 'Say which one.' }).min(1, 'Say which one.');
+export const memberRefSchema = z.strictObject({ userId: idField });
+export const invitationRefSchema = z.strictObject({ id: idField });
+export const memberRoleFormSchema = roleChangeSchema.extend({ userId: idField });
+
 // ---- answers ----
 
 /** A workspace and the caller's role in it. */

@@ -240,3 +240,10 @@ export async function outcome(
 		throw thrown;
 	}
 }
+
+/** A posted form, as a browser sends it (every value a string). */
+export function formBody(fields: Record<string, string | number>): FormData {
+	const form = new FormData();
+	for (const [name, value] of Object.entries(fields)) form.append(name, String(value));
+	return form;
+}
