@@ -9,6 +9,8 @@ import type { Issue } from './problem';
 export interface FormFailure<A extends string = string> {
 	action: A;
 	ok: false;
+	/** The HTTP status: 400 bad fields, 403, 404, 409 someone else changed it first, 422 … */
+	status: number;
 	/** What went wrong, in a sentence for the whole form. */
 	message: string;
 	/** Messages by field name, shown next to each field. */

@@ -72,6 +72,7 @@ describe('formFailure', () => {
 		expect(formFailure('publish', problem, formOf({ note: 'n', version: '2' }))).toEqual({
 			action: 'publish',
 			ok: false,
+			status: 422,
 			message: 'The draft has 1 lint error.',
 			errors: { note: ['Too long'] },
 			values: { note: 'n', version: '2' },

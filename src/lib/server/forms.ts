@@ -61,6 +61,20 @@ export function echoValues(form: FormData): Record<string, string> {
 	return values;
 }
 
+/** Messages by field (an issue's path), for the issues `belongs` accepts; the rest are returned apart. */
+export function fieldErrors(
+	issues: readonly Issue[],
+	belongs: (path: string) => boolean = () => true
+): { errors: Record<string, string[]>; rest: Issue[] } {
+	const errors: Record<string, string[]> = {};
+	const rest: Issue[] = [];
+	for (const issue of issues) {
+		if (belongs(issue.path)) (errors[issue.path] ??= []).push(issue.message);
+		else rest.push(issue);
+	}
+	return { errors, rest };
+}
+
 /** A refusal as the form shows it: issues about a field that was sent go next to that field. */
 export function formFailure<A extends string>(
 	action: A,
@@ -68,19 +82,15 @@ export function formFailure<A extends string>(
 	form: FormData
 ): FormFailure<A> {
 	const sent = new Set(form.keys());
-	const errors: Record<string, string[]> = {};
-	const issues: Issue[] = [];
-	for (const issue of problem.issues ?? []) {
-		if (sent.has(issue.path)) (errors[issue.path] ??= []).push(issue.message);
-		else if (issues.length < MAX_FORM_ISSUES) issues.push(issue);
-	}
+	const { errors, rest } = fieldErrors(problem.issues ?? [], (path) => sent.has(path));
 	return {
 		action,
 		ok: false,
+		status: problem.status,
 		message: problem.message,
 		errors,
 		values: echoValues(form),
-		issues
+		issues: rest.slice(0, MAX_FORM_ISSUES)
 	};
 }
 

@@ -1,9 +1,9 @@
-import { fail, redirect } from '@sveltejs/kit';
-import { requestSignInLink, safeCallbackUrl } from '$lib/server/auth';
-import { fieldErrorsOf } from '$lib/server/problem';
-import { emailSchema } from '$lib/api/workspaces';
+import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
-import type { Actions, PageServerLoad } from './$types';
+import { emailSchema } from '$lib/api/workspaces';
+import { requestSignInLink, safeCallbackUrl } from '$lib/server/auth';
+import { formAction, readForm } from '$lib/server/forms';
+import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
 const signInFormSchema = z.object({ email: emailSchema });
 
@@ -13,23 +13,16 @@ export const load = (async ({ locals, url }) => {
 	return { callbackUrl };
 }) satisfies PageServerLoad;
 
+// A plain POST (no enhance): the action answers with a redirect to the "check your inbox" page.
 export const actions = {
-	default: async (event) => {
-		const form = await event.request.formData();
-		const values = { email: String(form.get('email') ?? '') };
+	default: formAction('signin', async (event: RequestEvent, form) => {
 		const callbackUrl = safeCallbackUrl(
 			form.get('callbackUrl') ?? event.url.searchParams.get('callbackUrl')
 		);
-		const parsed = signInFormSchema.safeParse(values);
-		if (!parsed.success) {
-			return fail(400, { errors: fieldErrorsOf(parsed.error) as { email?: string[] }, values });
-		}
-		const next = await requestSignInLink(
-			event.locals.services,
-			event.url.origin,
-			parsed.data.email,
-			callbackUrl
+		const { email } = readForm(form, signInFormSchema, { email: 'text' });
+		redirect(
+			303,
+			await requestSignInLink(event.locals.services, event.url.origin, email, callbackUrl)
 		);
-		redirect(303, next);
-	}
+	})
 } satisfies Actions;
