@@ -1,30 +1,15 @@
 // The workspace page's rename form against a fresh database.
 import { describe, expect, it } from 'vitest';
 import { findWorkspaceBySlug } from '$lib/server/workspaces/workspaces';
-import {
-	createTeam,
-	createTestServices,
-	formBody,
-	makeEvent,
-	outcome
-} from '$lib/server/test-support';
+import { createTeamServices, outcome, pageEvents } from '$lib/server/test-support';
 import type { SessionUser } from '$lib/server/guard';
 import { actions } from './+page.server';
 
 describe('workspace rename action', () => {
 	it('renames for owners, keeps the slug, and refuses a bad name next to its field', async () => {
-		const services = await createTestServices();
-		const { workspace, users } = await createTeam(services.db, 'Dyno cell');
-		const rename = (user: SessionUser, name: string) =>
-			actions.rename(
-				makeEvent({
-					services,
-					user,
-					routeId: '/w/[ws]',
-					params: { ws: workspace.slug },
-					body: formBody({ name })
-				}) as never
-			);
+		const { workspace, users, services } = await createTeamServices('Dyno cell');
+		const event = pageEvents(services, '/w/[ws]', { ws: workspace.slug });
+		const rename = (user: SessionUser, name: string) => actions.rename(event(user, { name }));
 		expect(await rename(users.owner, 'x')).toMatchObject({
 			status: 400,
 			data: { errors: { name: ['Use at least 2 characters.'] }, values: { name: 'x' } }

@@ -1,29 +1,13 @@
 // The maps list's forms: a blank map and the two file imports, against a fresh database.
 import { describe, expect, it } from 'vitest';
 import { listMaps } from '$lib/server/maps/maps';
-import {
-	createTeam,
-	createTestServices,
-	fixtureText,
-	formBody,
-	makeEvent,
-	outcome
-} from '$lib/server/test-support';
-import type { SessionUser } from '$lib/server/guard';
+import { createTeamServices, fixtureText, outcome, pageEvents } from '$lib/server/test-support';
 import { actions } from './+page.server';
 
 async function world() {
-	const services = await createTestServices();
-	const team = await createTeam(services.db, 'Maps list team');
-	const event = (user: SessionUser, form: FormData) =>
-		makeEvent({
-			services,
-			user,
-			routeId: '/w/[ws]/maps',
-			params: { ws: team.workspace.slug },
-			body: form
-		}) as never;
-	const maps = () => listMaps(services.db, team.workspace.id);
+	const team = await createTeamServices('Maps list team');
+	const event = pageEvents(team.services, '/w/[ws]/maps', { ws: team.workspace.slug });
+	const maps = () => listMaps(team.db, team.workspace.id);
 	return { ...team, event, maps };
 }
 
@@ -36,13 +20,13 @@ const fileForm = (field: string, name: string, text: string) => {
 describe('maps list actions', () => {
 	it('creates a blank map and opens it; an empty name is refused next to its field', async () => {
 		const w = await world();
-		const refused = await actions.create(w.event(w.users.editor, formBody({ name: '  ' })));
+		const refused = await actions.create(w.event(w.users.editor, { name: '  ' }));
 		expect(refused).toMatchObject({
 			status: 400,
 			data: { errors: { name: ['A map needs a name.'] } }
 		});
 		const made = await outcome(() =>
-			actions.create(w.event(w.users.editor, formBody({ name: 'Gearbox node' })))
+			actions.create(w.event(w.users.editor, { name: 'Gearbox node' }))
 		);
 		const [map] = await w.maps();
 		expect(made).toEqual({
@@ -52,7 +36,7 @@ describe('maps list actions', () => {
 		});
 		expect(map.name).toBe('Gearbox node');
 		expect(
-			await outcome(() => actions.create(w.event(w.users.viewer, formBody({ name: 'No' }))))
+			await outcome(() => actions.create(w.event(w.users.viewer, { name: 'No' })))
 		).toMatchObject({ kind: 'error', status: 403 });
 	});
 

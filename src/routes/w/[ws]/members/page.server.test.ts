@@ -2,33 +2,17 @@
 // the JSON routes, so these check the form side: fields, refusals shown per field, undo, the guard).
 import { describe, expect, it } from 'vitest';
 import { listMembers } from '$lib/server/workspaces/members';
-import {
-	createTeam,
-	createTestServices,
-	formBody,
-	makeEvent,
-	outcome
-} from '$lib/server/test-support';
-import type { SessionUser } from '$lib/server/guard';
+import { createTeamServices, outcome, pageEvents } from '$lib/server/test-support';
 import { actions, load } from './+page.server';
 
 async function world() {
-	const services = await createTestServices();
-	const team = await createTeam(services.db, 'Members page team', { editor: 'Edda' });
-	const event = (user: SessionUser | null, body?: Record<string, string>) =>
-		makeEvent({
-			services,
-			user,
-			routeId: '/w/[ws]/members',
-			params: { ws: team.workspace.slug },
-			path: `/w/${team.workspace.slug}/members`,
-			body: body ? formBody(body) : undefined
-		}) as never;
+	const team = await createTeamServices('Members page team', { editor: 'Edda' });
+	const event = pageEvents(team.services, '/w/[ws]/members', { ws: team.workspace.slug });
 	const roles = async () =>
 		Object.fromEntries(
-			(await listMembers(services.db, team.workspace.id)).map((m) => [m.email, m.role])
+			(await listMembers(team.db, team.workspace.id)).map((m) => [m.email, m.role])
 		);
-	return { services, ...team, event, roles };
+	return { ...team, event, roles };
 }
 
 describe('members page load', () => {

@@ -31,35 +31,33 @@ export const load = (async (event) => {
 	}));
 }) satisfies PageServerLoad;
 
-/** Every action here names the map from the path and the draft version from the form. */
-const target = (
-	event: RequestEvent,
-	access: { user: { id: string }; workspace: { id: string } }
-) => ({
-	workspaceId: access.workspace.id,
-	mapId: event.params.mapId,
-	actorId: access.user.id
-});
+/**
+ * The guard of every action here, with what they act on: the map from the path, by whom, in which
+ * workspace (the draft version comes from the form).
+ */
+async function mapAccess(event: RequestEvent, minimum: 'editor' | 'owner' = 'editor') {
+	const access = await requireRole(event, minimum);
+	const map = {
+		workspaceId: access.workspace.id,
+		mapId: event.params.mapId,
+		actorId: access.user.id
+	};
+	return { access, db: event.locals.services.db, map };
+}
 
 export const actions = {
 	// Answers the name and the new draft version, so an open editor can mirror them (MapDraft.applied).
 	rename: formAction('rename', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { db, map } = await mapAccess(event);
 		const input = readForm(form, renameInputSchema, { name: 'text', version: 'number' });
-		const { version } = await renameMap(event.locals.services.db, {
-			...target(event, access),
-			...input
-		});
+		const { version } = await renameMap(db, { ...map, ...input });
 		return { message: `Renamed to ${input.name}.`, name: input.name, version };
 	}),
 
 	bitrate: formAction('bitrate', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { db, map } = await mapAccess(event);
 		const input = readForm(form, bitrateInputSchema, { bitrate: 'number', version: 'number' });
-		const { version } = await setMapBitrate(event.locals.services.db, {
-			...target(event, access),
-			...input
-		});
+		const { version } = await setMapBitrate(db, { ...map, ...input });
 		return {
 			message: `Bit rate set to ${input.bitrate / 1000} kbit/s.`,
 			bitrate: input.bitrate,
@@ -69,7 +67,7 @@ export const actions = {
 
 	// A draft changed since the page loaded it is refused (409) with who changed it and when.
 	publish: formAction('publish', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { access } = await mapAccess(event);
 		const { note, version } = readForm(form, publishInputSchema, {
 			note: 'text',
 			version: 'number'
@@ -90,9 +88,9 @@ export const actions = {
 	}),
 
 	restore: formAction('restore', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { db, map } = await mapAccess(event);
 		const input = readForm(form, restoreInputSchema, { revision: 'number', version: 'number' });
-		await restoreRevision(event.locals.services.db, { ...target(event, access), ...input });
+		await restoreRevision(db, { ...map, ...input });
 		return {
 			message: `The draft is now a copy of r${input.revision}. Publish it to make it current.`
 		};
@@ -100,14 +98,14 @@ export const actions = {
 
 	// The link's URL (with its token) is in this answer only; the database keeps a hash.
 	share: formAction('share', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { db, map } = await mapAccess(event);
 		const input = readForm(form, shareLinkFormSchema, {
 			revision: 'number',
 			expires: 'optional',
 			expiresAt: 'optional'
 		});
-		const { shareLink } = await shareRevision(event.locals.services.db, {
-			...target(event, access),
+		const { shareLink } = await shareRevision(db, {
+			...map,
 			...input,
 			origin: event.url.origin
 		});
@@ -118,15 +116,15 @@ export const actions = {
 	}),
 
 	unshare: formAction('unshare', async (event: RequestEvent, form) => {
-		const access = await requireRole(event, 'editor');
+		const { db, map } = await mapAccess(event);
 		const { id } = readForm(form, shareLinkRefSchema, { id: 'text' });
-		await revokeShareLink(event.locals.services.db, { ...target(event, access), id });
+		await revokeShareLink(db, { ...map, id });
 		return { message: 'Share link revoked: it no longer opens the revision.' };
 	}),
 
 	delete: formAction('delete', async (event: RequestEvent) => {
-		const access = await requireRole(event, 'owner');
-		await deleteMap(event.locals.services.db, target(event, access));
+		const { access, db, map } = await mapAccess(event, 'owner');
+		await deleteMap(db, map);
 		redirect(303, `/w/${access.workspace.slug}/maps`);
 	})
 } satisfies Actions;

@@ -8,37 +8,29 @@ import { listShareLinks } from '$lib/server/maps/share-links';
 import {
 	countRows,
 	createPublishedMap,
-	createTeam,
-	createTestServices,
+	createTeamServices,
 	fixtureMap,
-	formBody,
-	makeEvent,
-	outcome
+	outcome,
+	pageEvents
 } from '$lib/server/test-support';
-import type { SessionUser } from '$lib/server/guard';
 import { actions, load } from './+page.server';
 
 const club = fixtureMap('club-racer-ecu.map.json');
 
 async function world() {
-	const services = await createTestServices();
-	const { db } = services;
-	const team = await createTeam(db, 'Map page team', { editor: 'Alex' });
+	const team = await createTeamServices('Map page team', { editor: 'Alex' });
+	const { db } = team;
 	const mapId = await createPublishedMap(db, {
 		workspaceId: team.workspace.id,
 		actorId: team.users.editor.id,
 		revisions: [club]
 	});
-	const event = (user: SessionUser, body?: Record<string, string | number>) =>
-		makeEvent({
-			services,
-			user,
-			routeId: '/w/[ws]/maps/[mapId]',
-			params: { ws: team.workspace.slug, mapId },
-			body: body ? formBody(body) : undefined
-		}) as never;
+	const event = pageEvents(team.services, '/w/[ws]/maps/[mapId]', {
+		ws: team.workspace.slug,
+		mapId
+	});
 	const map = async () => (await findMapForWorkspace(db, team.workspace.id, mapId))!;
-	return { services, db, ...team, mapId, event, map };
+	return { ...team, mapId, event, map };
 }
 
 describe('map page load', () => {
