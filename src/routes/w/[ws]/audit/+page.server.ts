@@ -4,7 +4,7 @@ import { fieldErrors } from '$lib/server/forms';
 import { issuesOf } from '$lib/server/problem';
 import { requireRole } from '$lib/server/guard';
 import { auditPeople, readAuditLog } from '$lib/server/workspaces/audit-log';
-import { describeEntry, entryTime } from './describe';
+import { AUDIT_KINDS, describeEntry, entryTime } from './describe.server';
 import type { PageServerLoad } from './$types';
 
 // Owners only. The filter is a plain GET form: a refused field is shown next to it, with no entries.
@@ -18,10 +18,11 @@ export const load = (async (event) => {
 	const people = await auditPeople(db, workspace.id);
 	if (!query.success) {
 		const { errors } = fieldErrors(issuesOf(query.error));
-		return { people, filter, errors, entries: [], older: null, newer: null };
+		return { kinds: AUDIT_KINDS, people, filter, errors, entries: [], older: null, newer: null };
 	}
 	const { entries, older, newer } = await readAuditLog(db, workspace.id, query.data);
 	return {
+		kinds: AUDIT_KINDS,
 		people,
 		filter,
 		errors: {} as Record<string, string[]>,

@@ -1,22 +1,12 @@
 /**
- * Audit entries in words: "Alex published r3 of Club racer ECU". One line per kind of entry
+ * Audit entries in words: "Alex published r3 of Club racer ECU", on the server, for the audit log
+ * page (which also gets the kinds to filter by from here). One line per kind of entry
  * (the dotted verbs `appendAudit` records); a kind this page does not know yet still reads as
  * who did what to which target.
  */
 import type { PersonRef } from '$lib/api/shapes';
 import { ROLE_LABELS, roleSchema } from '$lib/roles';
-
-/** What an entry needs to be put in words (see `AuditRecord` on the server). */
-export interface AuditFacts {
-	action: string;
-	createdAt: string;
-	actor: PersonRef | null;
-	target: string | null;
-	details: Record<string, unknown>;
-	mapName: string | null;
-	subject: PersonRef | null;
-	captureName: string | null;
-}
+import type { AuditRecord } from '$lib/server/workspaces/audit-log';
 
 /** The kinds an owner can filter by: each subject (every verb of it) and its verbs. */
 export const AUDIT_KINDS: { subject: string; label: string; verbs: Record<string, string> }[] = [
@@ -85,7 +75,7 @@ const kbits = (value: unknown) =>
 	typeof value === 'number' ? `${value / 1000} kbit/s` : 'an unknown rate';
 
 /** The sentence for one entry, without its time. */
-export function describeEntry(entry: AuditFacts): string {
+export function describeEntry(entry: AuditRecord): string {
 	const who = person(entry.actor, 'A former member');
 	const d = entry.details;
 	// A map or capture deleted since is named as the entry recorded it, if it did.

@@ -1,8 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { AUDIT_KINDS, describeEntry, entryTime, type AuditFacts } from './describe';
+import type { AuditRecord } from '$lib/server/workspaces/audit-log';
+import { AUDIT_KINDS, describeEntry, entryTime } from './describe.server';
 
 const alex = { email: 'alex@example.test', name: 'Alex' };
-const entry = (facts: Partial<AuditFacts>): AuditFacts => ({
+const entry = (facts: Partial<AuditRecord>): AuditRecord => ({
+	id: 1,
 	action: 'map.publish',
 	createdAt: '2026-12-02T14:02:41.512Z',
 	actor: alex,

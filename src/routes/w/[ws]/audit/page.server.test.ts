@@ -3,13 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { publishRevision } from '$lib/server/maps/revisions';
 import { createMap } from '$lib/server/maps/maps';
 import { changeMemberRole } from '$lib/server/workspaces/members';
-import {
-	createTeam,
-	createTestServices,
-	fixtureMap,
-	makeEvent,
-	outcome
-} from '$lib/server/test-support';
+import { createTeamServices, fixtureMap, outcome, pageEvents } from '$lib/server/test-support';
 import type { SessionUser } from '$lib/server/guard';
 import { load } from './+page.server';
 
@@ -22,19 +16,11 @@ type Page = {
 };
 
 async function world() {
-	const services = await createTestServices();
-	const { db } = services;
-	const team = await createTeam(db, 'Audit team', { owner: 'Olive', editor: 'Alex' });
+	const team = await createTeamServices('Audit team', { owner: 'Olive', editor: 'Alex' });
+	const { db } = team;
+	const event = pageEvents(team.services, '/w/[ws]/audit', { ws: team.workspace.slug });
 	const open = async (user: SessionUser, query = '') =>
-		(await load(
-			makeEvent({
-				services,
-				user,
-				routeId: '/w/[ws]/audit',
-				params: { ws: team.workspace.slug },
-				path: `/w/${team.workspace.slug}/audit${query}`
-			}) as never
-		)) as Page;
+		(await load(event(user, undefined, query))) as Page;
 	/** Setup only: entries at chosen times, as if recorded then. */
 	const record = (n: number, at: (i: number) => string, actorId = team.users.viewer.id) =>
 		db
@@ -50,7 +36,7 @@ async function world() {
 				}))
 			)
 			.execute();
-	return { services, db, ...team, open, record };
+	return { ...team, open, record };
 }
 
 describe('audit log page', () => {
