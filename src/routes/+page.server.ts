@@ -1,23 +1,15 @@
-import { fail, redirect } from '@sveltejs/kit';
-import { createWorkspace } from '$lib/server/workspaces/workspaces';
-import { requireUser } from '$lib/server/guard';
-import { fieldErrorsOf } from '$lib/server/problem';
+import { redirect } from '@sveltejs/kit';
 import { workspaceInputSchema } from '$lib/api/workspaces';
-import type { Actions } from './$types';
+import { formAction, readForm } from '$lib/server/forms';
+import { requireUser } from '$lib/server/guard';
+import { createWorkspace } from '$lib/server/workspaces/workspaces';
+import type { Actions, RequestEvent } from './$types';
 
 export const actions = {
-	create: async (event) => {
+	create: formAction('create', async (event: RequestEvent, form) => {
 		const user = requireUser(event);
-		const form = await event.request.formData();
-		const values = { name: String(form.get('name') ?? '') };
-		const parsed = workspaceInputSchema.safeParse(values);
-		if (!parsed.success) {
-			return fail(400, { errors: fieldErrorsOf(parsed.error) as { name?: string[] }, values });
-		}
-		const workspace = await createWorkspace(event.locals.services.db, {
-			name: parsed.data.name,
-			ownerId: user.id
-		});
+		const { name } = readForm(form, workspaceInputSchema, { name: 'text' });
+		const workspace = await createWorkspace(event.locals.services.db, { name, ownerId: user.id });
 		redirect(303, `/w/${workspace.slug}/maps`);
-	}
+	})
 } satisfies Actions;

@@ -1,4 +1,4 @@
-import { expect, type Page } from '@playwright/test';
+import { expect, type Locator, type Page } from '@playwright/test';
 
 /** A fresh address per test run, so reruns against one database never collide. */
 export function uniqueEmail(who: string): string {
@@ -55,4 +55,18 @@ export async function createBlankMap(
 	await page.getByRole('button', { name: 'Create blank map' }).click();
 	await expect(page.getByRole('heading', { level: 1, name: mapName })).toBeVisible();
 	return new URL(page.url()).pathname;
+}
+
+/** Creates a workspace from the home page, as a signed-in person does; returns its slug. */
+export async function createWorkspace(page: Page, name: string): Promise<string> {
+	await page.goto('/');
+	await page.getByLabel('Workspace name').fill(name);
+	await page.getByRole('button', { name: 'Create workspace' }).click();
+	await expect(page).toHaveURL(/\/w\/[^/]+\/maps$/);
+	return new URL(page.url()).pathname.split('/')[2];
+}
+
+/** A link of the workspace navigation (Maps, Members, Audit log …). */
+export function workspaceLink(page: Page, name: string): Locator {
+	return page.getByRole('navigation', { name: 'Workspace' }).getByRole('link', { name });
 }

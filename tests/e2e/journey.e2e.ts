@@ -58,7 +58,9 @@ test('an owner invites a colleague, makes them Viewer, and the server refuses th
 	const colleagueRole = owner.getByLabel(`Role of ${colleagueEmail}`);
 	await expect(colleagueRole).toHaveValue('editor');
 	await colleagueRole.selectOption('viewer');
-	await expect(owner.getByText(`${colleagueEmail} is now Viewer.`)).toBeVisible();
+	// Picking alone changes nothing; the change is sent with its button.
+	await owner.getByRole('button', { name: `Change role for ${colleagueEmail}` }).click();
+	await expect(owner.getByText(`${colleagueEmail} is now Viewer (was Editor).`)).toBeVisible();
 	await expect(
 		owner.getByRole('button', { name: `Revoke invitation for ${colleagueEmail}` })
 	).toHaveCount(0);

@@ -20,14 +20,21 @@ test('an editor renames a map and sets its bit rate but cannot delete it; the ow
 	await settings.getByRole('button', { name: 'Rename' }).click();
 	await expect(editor.getByRole('heading', { level: 1, name: `${mapName} v2` })).toBeVisible();
 
-	// A bit rate outside the schema's range is refused with a reason; a valid one marks the draft unsaved.
-	await settings.getByLabel('Bit rate (bit/s)').fill('12');
-	await settings.getByLabel('Bit rate (bit/s)').press('Enter');
-	await settings.getByLabel('Bit rate (bit/s)').blur();
+	// A bit rate outside the map format's range is refused with a reason next to the field; a valid
+	// one is saved in the draft at once, and an unsaved edit made before stays unsaved.
+	const bitrate = settings.getByLabel('Bit rate (bit/s)');
+	await bitrate.fill('12');
+	await bitrate.press('Enter');
 	await expect(settings.getByText(/whole number of bit\/s/)).toBeVisible();
-	await settings.getByLabel('Bit rate (bit/s)').fill('250000');
-	await settings.getByLabel('Bit rate (bit/s)').blur();
+	await expect(bitrate).toHaveAttribute('aria-invalid', 'true');
+	await editor.getByRole('button', { name: 'Add frame' }).click();
+	await editor.keyboard.press('Escape'); // leave the proposed frame name
 	await expect(editor.getByText('Unsaved changes')).toBeVisible();
+	await bitrate.fill('250000');
+	await settings.getByRole('button', { name: 'Set' }).click();
+	await expect(editor.getByText('Bit rate set to 250 kbit/s.')).toBeVisible();
+	await expect(editor.getByText('Unsaved changes')).toBeVisible();
+	await expect(editor.getByText('· 250 kbit/s')).toBeVisible();
 	await editor.getByRole('button', { name: 'Save draft' }).click();
 	await expect(editor.getByText('Draft saved.')).toBeVisible();
 	await editor.reload();

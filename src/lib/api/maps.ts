@@ -62,6 +62,15 @@ export const publishInputSchema = z.strictObject({
 	version
 });
 export const restoreInputSchema = z.strictObject({ revision: z.number().int().min(1), version });
+
+const BITRATE_HINT = 'A whole number of bit/s from 1000 to 8000000, e.g. 500000.';
+/** The map settings' bit rate: the map format's own bounds, with words a person can act on. */
+export const bitrateInputSchema = z.strictObject({
+	bitrate: z
+		.number({ error: BITRATE_HINT })
+		.refine((n) => canMapSchema.shape.bitrate.safeParse(n).success, BITRATE_HINT),
+	version
+});
 export const shareLinkInputSchema = z.strictObject({
 	revision: z.number().int().min(1),
 	expiresAt: z.iso
@@ -69,6 +78,27 @@ export const shareLinkInputSchema = z.strictObject({
 		.nullable()
 		.optional()
 });
+
+/** The form naming a share link to revoke (the JSON route has it in its path). */
+export const shareLinkRefSchema = z.strictObject({
+	id: z.string({ error: 'Say which link.' }).min(1, 'Say which link.')
+});
+
+/**
+ * The share-link form: the last day the link works (`2027-01-31`: through its end, in UTC when the
+ * page runs without scripts) or, added by the page's script, that day's end in the person's own
+ * time zone (`expiresAt`). Answers the JSON route's fields.
+ */
+export const shareLinkFormSchema = z
+	.strictObject({
+		revision: z.number({ error: 'Choose a published revision.' }).int().min(1),
+		expires: z.iso.date({ error: 'A date like 2027-01-31.' }).optional(),
+		expiresAt: shareLinkInputSchema.shape.expiresAt
+	})
+	.transform(({ revision, expires, expiresAt }) => ({
+		revision,
+		expiresAt: expiresAt ?? (expires ? `${expires}T23:59:59Z` : null)
+	}));
 
 // ---- revision references (`?rev=3`, `?from=r2&to=draft`) ----
 

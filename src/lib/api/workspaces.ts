@@ -24,6 +24,38 @@ export const workspaceInputSchema = z.strictObject({ name: workspaceNameSchema }
 export const invitationInputSchema = z.strictObject({ email: emailSchema, role: roleSchema });
 export const roleChangeSchema = z.strictObject({ role: roleSchema });
 
+// The JSON routes name a member or an invitation in their path; the members page's forms send it.
+const idField = z.string({ error: 'Say which one.' }).min(1, 'Say which one.');
+export const memberRefSchema = z.strictObject({ userId: idField });
+export const invitationRefSchema = z.strictObject({ id: idField });
+export const memberRoleFormSchema = roleChangeSchema.extend({ userId: idField });
+
+/** A day as a date field sends it; a filter's range runs from the start of one to the end of the other (UTC). */
+const dayField = z.iso.date({ error: 'A date like 2026-12-02.' });
+const entryId = z.coerce.number().int().positive();
+
+/**
+ * The audit log page's query (a plain GET form): who, what kind (`map` or `map.publish`), which
+ * days, and the page: entries older than `before`, or newer than `after` (keyset on the entry id).
+ */
+export const auditQuerySchema = z
+	.object({
+		person: z.string().min(1).optional(),
+		kind: z
+			.string()
+			.regex(/^[a-z_]+(\.[a-z_]+)*$/, 'Choose a kind from the list.')
+			.optional(),
+		from: dayField.optional(),
+		to: dayField.optional(),
+		before: entryId.optional(),
+		after: entryId.optional()
+	})
+	.refine((q) => !q.from || !q.to || q.from <= q.to, {
+		path: ['to'],
+		message: 'The last day comes before the first.'
+	});
+export type AuditQuery = z.output<typeof auditQuerySchema>;
+
 // ---- answers ----
 
 /** A workspace and the caller's role in it. */

@@ -43,7 +43,7 @@ export class MapDraft<V extends DraftView = DraftView> {
 
 	/** A line for the person after a save, reload or other server-side change; cleared by the next edit. */
 	notice = $state<string | null>(null);
-	/** Why the last save, reload or page action failed; cleared when one succeeds. */
+	/** Why the last save, reload or page form failed; cleared when a save or reload succeeds. */
 	failure = $state<DraftFailure | null>(null);
 
 	readonly dirty = $derived(JSON.stringify(this.#draft) !== this.#savedJson);
@@ -139,32 +139,32 @@ export class MapDraft<V extends DraftView = DraftView> {
 	};
 
 	/**
-	 * Server data arriving through navigation: another map, or a newer version of this one, replaces
-	 * the working copy; the same or an older version does not (it would undo edits for nothing).
-	 * Returns whether it was adopted.
+	 * Server data arriving through navigation or a reload after a form: another map, or a newer
+	 * version of this one, replaces the working copy; the same version refreshes what is around it
+	 * (revisions, who saved last) and keeps the unsaved edits; an older one is ignored. Returns
+	 * whether the working copy was replaced.
 	 */
 	receive(next: V): boolean {
-		if (next.map.id === this.#view.map.id && next.map.version <= this.#version) return false;
+		if (next.map.id === this.#view.map.id && next.map.version <= this.#version) {
+			if (next.map.version === this.#version) this.#view = next;
+			return false;
+		}
 		this.#adopt(next);
 		return true;
 	}
 
 	/**
-	 * The server renamed the map and keeps `draft.name` in step, under a new version: mirror that in
-	 * both the saved and the working copy without touching other unsaved edits.
+	 * A map setting (name, bit rate) the server changed in the draft under a new version: mirror it
+	 * in both the saved and the working copy without touching other unsaved edits.
 	 */
-	renamed(name: string, version: number): void {
+	applied(patch: Partial<Pick<CanMap, 'name' | 'bitrate'>>, version: number): void {
+		const name = patch.name ?? this.#view.map.name;
 		this.#view = { ...this.#view, map: { ...this.#view.map, name } };
 		this.#version = version;
-		this.#savedJson = JSON.stringify({ ...(JSON.parse(this.#savedJson) as CanMap), name });
-		this.#draft = { ...this.#draft, name };
+		this.#savedJson = JSON.stringify({ ...(JSON.parse(this.#savedJson) as CanMap), ...patch });
+		this.#draft = { ...this.#draft, ...patch };
 		if (this.#lastEdit)
-			this.#lastEdit = { ...this.#lastEdit, before: { ...this.#lastEdit.before, name } };
-	}
-
-	/** Shows a failure of a page action (restore, rename, delete) the same way a save failure shows. */
-	fail(error: unknown): void {
-		this.failure = this.#io.describe(error);
+			this.#lastEdit = { ...this.#lastEdit, before: { ...this.#lastEdit.before, ...patch } };
 	}
 
 	/**

@@ -286,8 +286,8 @@ describe('MapDraft', () => {
 	it('mirrors a rename done by the server without losing or saving other edits', async () => {
 		const { server, editor } = setUp();
 		editor.change({ bitrate: 250_000 }, 'bit rate');
-		server.saveElsewhere({ name: 'Bench node v2' }); // what the rename endpoint does
-		editor.renamed('Bench node v2', server.version);
+		server.saveElsewhere({ name: 'Bench node v2' }); // what the rename action does
+		editor.applied({ name: 'Bench node v2' }, server.version);
 		expect(editor.view.map.name).toBe('Bench node v2');
 		expect(editor.draft.name).toBe('Bench node v2');
 		expect(editor.draft.bitrate).toBe(250_000);
@@ -298,6 +298,31 @@ describe('MapDraft', () => {
 		editor.change({ bitrate: 125_000 }, 'bit rate');
 		expect(await editor.save()).toBe(true); // the renamed version is the one the server expects
 		expect(server.draft).toMatchObject({ name: 'Bench node v2', bitrate: 125_000 });
+	});
+
+	it('mirrors a bit rate set by the server; the unsaved frame edit stays unsaved', async () => {
+		const { server, editor } = setUp();
+		const [frame] = editor.draft.frames;
+		editor.change({ frames: [{ ...frame, name: 'CoolantStatus2' }] }, 'name of frame 1');
+		server.saveElsewhere({ bitrate: 250_000 }); // what the bit-rate action does
+		editor.applied({ bitrate: 250_000 }, server.version);
+		expect(editor.draft.bitrate).toBe(250_000);
+		expect(editor.draft.frames[0].name).toBe('CoolantStatus2');
+		expect(editor.dirty).toBe(true);
+		editor.undo(); // only the frame edit goes; the bit rate was saved on the server
+		expect(editor.draft.bitrate).toBe(250_000);
+		expect(editor.dirty).toBe(false);
+	});
+
+	it('takes the same version arriving again as fresh surroundings, keeping the edits', () => {
+		const { server, editor } = setUp();
+		editor.change({ bitrate: 250_000 }, 'bit rate');
+		// A publish adds a revision but leaves the draft (and its version) as it was.
+		const afterPublish = { ...server.view(), revisions: ['r1'] };
+		expect(editor.receive(afterPublish)).toBe(false);
+		expect(editor.view).toBe(afterPublish);
+		expect(editor.draft.bitrate).toBe(250_000);
+		expect(editor.dirty).toBe(true);
 	});
 
 	it('lints the working copy as it changes', () => {

@@ -118,16 +118,12 @@ describe('the create-workspace form action', () => {
 		const before = await snapshot();
 		const form = new FormData();
 		form.set('name', 'x');
-		const result = (await homePage.actions.create(
+		const result = await homePage.actions.create(
 			makeEvent({ services, user: owner, routeId: '/', body: form }) as never
-		)) as {
-			status: number;
-			data: { errors: { name?: string[] }; values: { name: string } };
-		};
-		expect(result.status).toBe(400);
-		expect(result.data).toEqual({
-			errors: { name: ['Use at least 2 characters.'] },
-			values: { name: 'x' }
+		);
+		expect(result).toMatchObject({
+			status: 400,
+			data: { errors: { name: ['Use at least 2 characters.'] }, values: { name: 'x' } }
 		});
 		expect(await snapshot()).toEqual(before);
 	});

@@ -31,16 +31,6 @@ export function issuesOf(error: z.ZodError): Issue[] {
 	}));
 }
 
-/** Field errors in the `{ field: string[] }` shape form actions return with `fail(400, …)`. */
-export function fieldErrorsOf(error: z.ZodError): Record<string, string[]> {
-	const errors: Record<string, string[]> = {};
-	for (const issue of error.issues) {
-		const key = issue.path.map(String).join('.') || 'form';
-		(errors[key] ??= []).push(issue.message);
-	}
-	return errors;
-}
-
 /** The input parsed by the schema, or a 400 listing every field that was refused. */
 export function parseOrProblem<S extends z.ZodType>(
 	schema: S,

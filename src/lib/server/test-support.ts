@@ -177,6 +177,8 @@ export interface EventInit {
 	/** JSON-encoded unless it is FormData or a string. */
 	body?: unknown;
 	path?: string;
+	/** Added to the path: `?kind=map`. */
+	query?: string;
 }
 
 /** A RequestEvent good enough for our loads, actions and +server.ts handlers. */
@@ -184,7 +186,7 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 	const params = init.params ?? {};
 	const path =
 		init.path ?? init.routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name] ?? name);
-	const url = new URL(`http://localhost${path}`);
+	const url = new URL(`http://localhost${path}${init.query ?? ''}`);
 	let body: BodyInit | undefined;
 	const headers = new Headers();
 	if (init.body instanceof FormData || typeof init.body === 'string') body = init.body;
@@ -242,4 +244,40 @@ export async function outcome(
 			return { kind: 'error', status: t.status, message: t.body.message ?? '' };
 		throw thrown;
 	}
+}
+
+/** A posted form, as a browser sends it (every value a string). */
+export function formBody(fields: Record<string, string | number>): FormData {
+	const form = new FormData();
+	for (const [name, value] of Object.entries(fields)) form.append(name, String(value));
+	return form;
+}
+
+/** Fresh services with a team in them (see `createTeam`), as a page's tests start. */
+export async function createTeamServices(
+	name: string,
+	displayNames: Partial<Record<TeamMember, string>> = {}
+): Promise<Team & { services: TestServices; db: DB }> {
+	const services = await createTestServices();
+	return { services, db: services.db, ...(await createTeam(services.db, name, displayNames)) };
+}
+
+/**
+ * Events for one page route (its loads and form actions): who sends it, the posted form (fields
+ * or a ready `FormData`; none for a load) and what follows the path (`?kind=map`).
+ */
+export function pageEvents(services: Services, routeId: string, params: Record<string, string>) {
+	return (
+		user: SessionUser | null,
+		body?: Record<string, string | number> | FormData,
+		query?: string
+	): never =>
+		makeEvent({
+			services,
+			user,
+			routeId,
+			params,
+			query,
+			body: body === undefined || body instanceof FormData ? body : formBody(body)
+		});
 }

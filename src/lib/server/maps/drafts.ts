@@ -3,7 +3,7 @@
  * concurrency): a draft changed by someone else in the meantime is refused with a 409, never
  * overwritten. Each change is audited in the same transaction.
  */
-import type { DraftSavedResponse, RenamedMapResponse } from '../../api/maps';
+import type { DraftSavedResponse, RenamedMapResponse, VersionResponse } from '../../api/maps';
 import { lintMap } from '../../can/lint';
 import type { CanMap } from '../../can/map';
 import { serializeMap } from '../../can/map-json';
@@ -78,17 +78,53 @@ export async function saveDraft(
 	return { version, lint: lintMap(input.draft) };
 }
 
+/**
+ * Sets one of the map's settings in the draft, as a draft change of its own (versioned, audited
+ * with the old and new value); other unsaved edits in a browser stay unsaved.
+ */
+async function changeSetting<K extends 'name' | 'bitrate'>(
+	db: DB,
+	input: { workspaceId: string; mapId: string; version: number; actorId: string },
+	setting: { field: K; value: CanMap[K]; action: string }
+): Promise<{ current: MapRecord; version: number }> {
+	const current = await requireMap(db, input.workspaceId, input.mapId);
+	// Setting the value it already has changes nothing (no new version, no audit entry) — as long
+	// as the caller's copy is current: a stale one must still learn that it is.
+	if (current.draft[setting.field] === setting.value) {
+		if (current.version !== input.version) throw staleDraft(current);
+		return { current, version: current.version };
+	}
+	const { version } = await replaceDraft(db, {
+		...input,
+		draft: { ...current.draft, [setting.field]: setting.value },
+		action: setting.action,
+		details: { from: current.draft[setting.field], to: setting.value }
+	});
+	return { current, version };
+}
+
 /** Renaming changes the draft's name too, so the next revision carries it. */
 export async function renameMap(
 	db: DB,
 	input: { workspaceId: string; mapId: string; version: number; name: string; actorId: string }
 ): Promise<RenamedMapResponse> {
-	const current = await requireMap(db, input.workspaceId, input.mapId);
-	const { version } = await replaceDraft(db, {
-		...input,
-		draft: { ...current.draft, name: input.name },
-		action: 'map.rename',
-		details: { from: current.name, to: input.name }
+	const { current, version } = await changeSetting(db, input, {
+		field: 'name',
+		value: input.name,
+		action: 'map.rename'
 	});
 	return { map: { id: current.id, name: input.name }, version };
+}
+
+/** The bus's bit rate, which every node must share (a map setting kept in the draft). */
+export async function setMapBitrate(
+	db: DB,
+	input: { workspaceId: string; mapId: string; version: number; bitrate: number; actorId: string }
+): Promise<VersionResponse> {
+	const { version } = await changeSetting(db, input, {
+		field: 'bitrate',
+		value: input.bitrate,
+		action: 'map.bitrate'
+	});
+	return { version };
 }

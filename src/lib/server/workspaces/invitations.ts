@@ -148,11 +148,12 @@ export async function inviteByEmail(
 	return { invitation };
 }
 
+/** Deletes a pending invitation (its link stops working); answers the address it was for. */
 export async function revokeInvitation(
 	db: DB,
 	input: { workspaceId: string; id: string; actorId: string }
-): Promise<void> {
-	await db.transaction().execute(async (trx) => {
+): Promise<{ email: string }> {
+	return db.transaction().execute(async (trx) => {
 		const row = await trx
 			.selectFrom('invitations')
 			.selectAll()
@@ -169,6 +170,7 @@ export async function revokeInvitation(
 			target: row.email,
 			details: { role: row.role }
 		});
+		return { email: row.email };
 	});
 }
 

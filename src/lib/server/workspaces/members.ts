@@ -34,6 +34,12 @@ function memberQuery(db: DB, workspaceId: string) {
 		.where('memberships.workspace_id', '=', workspaceId);
 }
 
+async function memberView(db: DB, workspaceId: string, userId: string): Promise<MemberView> {
+	return memberQuery(db, workspaceId)
+		.where('memberships.user_id', '=', userId)
+		.executeTakeFirstOrThrow();
+}
+
 export async function listMembers(db: DB, workspaceId: string): Promise<MemberView[]> {
 	return memberQuery(db, workspaceId)
 		.orderBy('memberships.joined_at')
@@ -78,12 +84,17 @@ async function refuseIfLastOwner(db: DB, membership: Membership, message: string
 	}
 }
 
+/** Changes a member's role; answers the member as now and the role they had (for an undo). */
 export async function changeMemberRole(
 	db: DB,
 	input: { workspaceId: string; userId: string; role: Role; actorId: string }
-): Promise<MemberView> {
+): Promise<{ member: MemberView; from: Role }> {
 	return db.transaction().execute(async (trx) => {
 		const membership = await requireMember(trx, input.workspaceId, input.userId);
+		const from = membership.role;
+		// Nothing changes, so nothing is recorded.
+		if (from === input.role)
+			return { member: await memberView(trx, input.workspaceId, input.userId), from };
 		if (input.role !== 'owner') {
 			await refuseIfLastOwner(
 				trx,
@@ -102,21 +113,20 @@ export async function changeMemberRole(
 			actorId: input.actorId,
 			action: 'member.role_change',
 			target: input.userId,
-			details: { from: membership.role, to: input.role }
+			details: { from, to: input.role }
 		});
-		return memberQuery(trx, input.workspaceId)
-			.where('memberships.user_id', '=', input.userId)
-			.executeTakeFirstOrThrow();
+		return { member: await memberView(trx, input.workspaceId, input.userId), from };
 	});
 }
 
-/** Removes a member; when `userId === actorId` this is leaving. */
+/** Removes a member (when `userId === actorId` this is leaving); answers who it was. */
 export async function removeMember(
 	db: DB,
 	input: { workspaceId: string; userId: string; actorId: string }
-): Promise<void> {
-	await db.transaction().execute(async (trx) => {
+): Promise<MemberView> {
+	return db.transaction().execute(async (trx) => {
 		const membership = await requireMember(trx, input.workspaceId, input.userId);
+		const member = await memberView(trx, input.workspaceId, input.userId);
 		await refuseIfLastOwner(
 			trx,
 			membership,
@@ -134,5 +144,6 @@ export async function removeMember(
 			target: input.userId,
 			details: { role: membership.role }
 		});
+		return member;
 	});
 }

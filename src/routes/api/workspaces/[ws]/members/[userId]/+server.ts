@@ -8,7 +8,7 @@ import type { RequestHandler } from './$types';
 export const PATCH: RequestHandler = apiRoute(async (event) => {
 	const { user, workspace } = await requireRole(event, 'owner');
 	const { role } = await readJsonBody(event.request, roleChangeSchema);
-	const member = await changeMemberRole(event.locals.services.db, {
+	const { member } = await changeMemberRole(event.locals.services.db, {
 		workspaceId: workspace.id,
 		userId: event.params.userId,
 		role,
