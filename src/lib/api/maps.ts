@@ -3,11 +3,11 @@
  * Unknown fields are refused (`strictObject`) so a typo never passes silently.
  */
 import { z } from 'zod';
-import type { LintProblem } from '../can/lint';
+import { lintProblemSchema as libraryLintProblemSchema } from '../can/lint';
 import { canMapSchema } from '../can/map';
-import type { MapDiff } from '../can/map-diff';
+import { mapDiffSchema as libraryMapDiffSchema } from '../can/map-diff';
 import { roleSchema } from '../roles';
-import { libraryShape, personRefSchema, timestampSchema } from './shapes';
+import { named, personRefSchema, timestampSchema } from './shapes';
 
 // ---- requests ----
 
@@ -109,13 +109,15 @@ export const sheetQuerySchema = mapExportQuerySchema.pick({ rev: true });
 
 // ---- answers ----
 
-export const lintProblemSchema = libraryShape<LintProblem>(
+export const lintProblemSchema = named(
+	libraryLintProblemSchema,
 	'LintProblem',
-	'A map problem with severity, code, message, frame/signal index and JSON path (src/lib/can/lint.ts).'
+	'A map problem with severity, code, message, frame/signal index and the JSON path of the field to fix (docs/map-format.md lists the codes).'
 );
-const mapDiffSchema = libraryShape<MapDiff>(
+const mapDiffSchema = named(
+	libraryMapDiffSchema,
 	'MapDiff',
-	'Field-by-field differences between two maps (src/lib/can/map-diff.ts).'
+	'Field-by-field differences between two maps: map fields, frames matched by ID, signals by name, alert rules by id.'
 );
 
 export const mapSummarySchema = z.object({
