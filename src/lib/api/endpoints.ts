@@ -106,7 +106,10 @@ export const endpoints = {
 			status: 201,
 			response: createdWorkspaceResponseSchema
 		},
-		{ 400: INVALID }
+		{
+			400: INVALID,
+			403: 'An access token works only inside its own workspace; sign in to create a workspace.'
+		}
 	),
 	'workspaces.rename': endpoint(
 		{

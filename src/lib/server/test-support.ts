@@ -12,6 +12,7 @@ import { createDatabase, migrateToLatest, type DB } from './db';
 import type { SessionUser } from './guard';
 import type { OutgoingMail } from './mail/send';
 import type { Services } from './services';
+import type { BearerCredential } from './tokens/bearer';
 import { createLocalStorage } from './storage';
 import { saveDraft } from './maps/drafts';
 import { createMap } from './maps/maps';
@@ -174,6 +175,9 @@ export interface EventInit {
 	/** JSON-encoded unless it is FormData or a string. */
 	body?: unknown;
 	path?: string;
+	headers?: Record<string, string>;
+	/** The request's `Authorization: Bearer` credential, as the request pipeline read it. */
+	bearer?: BearerCredential | null;
 }
 
 /** A RequestEvent good enough for our loads, actions and +server.ts handlers. */
@@ -183,7 +187,7 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 		init.path ?? init.routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name] ?? name);
 	const url = new URL(`http://localhost${path}`);
 	let body: BodyInit | undefined;
-	const headers = new Headers();
+	const headers = new Headers(init.headers);
 	if (init.body instanceof FormData || typeof init.body === 'string') body = init.body;
 	else if (init.body !== undefined) {
 		body = JSON.stringify(init.body);
@@ -196,7 +200,7 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 	});
 	const cookies = new Map<string, string>();
 	return {
-		locals: { services: init.services, user: init.user },
+		locals: { services: init.services, user: init.user, bearer: init.bearer ?? null },
 		params,
 		url,
 		route: { id: init.routeId },
