@@ -31,6 +31,7 @@ import {
 	uploadResponseSchema
 } from './captures';
 import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
+import { openApiDocumentSchema } from './meta';
 import {
 	createdMapResponseSchema,
 	createdShareLinkResponseSchema,
@@ -566,6 +567,17 @@ export const endpoints = {
 		},
 		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
 	),
+
+	// ---- the API itself ----
+	'meta.openapi': endpoint({
+		method: 'GET',
+		path: '/api/openapi.json',
+		summary:
+			'This API described in OpenAPI 3.1, generated from the same schemas the routes validate with.',
+		access: 'public',
+		status: 200,
+		response: openApiDocumentSchema
+	}),
 
 	// ---- tools ----
 	'tools.busLoad': endpoint(

@@ -9,6 +9,13 @@ import { mapDiffSchema as libraryMapDiffSchema } from '../can/map-diff';
 import { roleSchema } from '../roles';
 import { named, personRefSchema, timestampSchema } from './shapes';
 
+/** A map in the `framewright-map@1` format (docs/map-format.md), as drafts and revisions carry it. */
+const mapSchema = named(
+	canMapSchema,
+	'Map',
+	'A broadcast map in the framewright-map@1 format (docs/map-format.md): frames and their signals, alert rules.'
+);
+
 // ---- requests ----
 
 const version = z
@@ -51,7 +58,7 @@ export const createMapInputSchema = z
 	});
 export type CreateMapInput = z.infer<typeof createMapInputSchema>;
 
-export const draftInputSchema = z.strictObject({ version, draft: canMapSchema });
+export const draftInputSchema = z.strictObject({ version, draft: mapSchema });
 export const renameInputSchema = z.strictObject({ name: mapName, version });
 export const publishInputSchema = z.strictObject({
 	note: z
@@ -150,7 +157,7 @@ export const mapViewSchema = z.object({
 	map: z.object({
 		id: z.string(),
 		name: z.string(),
-		draft: canMapSchema,
+		draft: mapSchema,
 		version: z.number().int(),
 		updatedAt: timestampSchema,
 		updatedBy: personRefSchema.nullable()
@@ -170,10 +177,15 @@ export const draftSavedResponseSchema = z.object({
 });
 export type DraftSavedResponse = z.infer<typeof draftSavedResponseSchema>;
 
-/** The 409 of a stale save or publish: the draft's version now, so the page can offer a reload. */
+/**
+ * The 409 of a stale save or publish: the draft's version now, so the page can offer a reload, and
+ * who changed it when (the command line explains the refusal with them).
+ */
 export const staleDraftProblemSchema = z.looseObject({
 	error: z.string(),
-	currentVersion: z.number().int()
+	currentVersion: z.number().int(),
+	updatedAt: timestampSchema,
+	updatedBy: personRefSchema.nullable()
 });
 
 export const revisionListResponseSchema = z.object({ revisions: z.array(revisionSummarySchema) });
@@ -187,7 +199,7 @@ export const publishedResponseSchema = z.object({
 export type PublishedResponse = z.infer<typeof publishedResponseSchema>;
 
 export const revisionViewSchema = z.object({
-	revision: revisionSummarySchema.extend({ map: canMapSchema }),
+	revision: revisionSummarySchema.extend({ map: mapSchema }),
 	lint: z.array(lintProblemSchema)
 });
 export type RevisionView = z.infer<typeof revisionViewSchema>;

@@ -4,7 +4,9 @@
 import { z } from 'zod';
 
 /** Who did something, as shown next to a change. */
-export const personRefSchema = z.object({ email: z.string(), name: z.string().nullable() });
+export const personRefSchema = z
+	.object({ email: z.string(), name: z.string().nullable() })
+	.meta({ id: 'Person', description: 'Who did something: e-mail address and display name.' });
 export type PersonRef = z.infer<typeof personRefSchema>;
 
 /** An ISO 8601 date and time as the server writes it (`Date.prototype.toISOString`). */
