@@ -33,6 +33,7 @@ import {
 import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
 import { openApiDocumentSchema } from './meta';
 import {
+	codegenQuerySchema,
 	createdMapResponseSchema,
 	createdShareLinkResponseSchema,
 	createMapInputSchema,
@@ -366,6 +367,19 @@ export const endpoints = {
 			query: mapExportQuerySchema,
 			status: 200,
 			download: 'application/json or text/csv'
+		},
+		{ 400: INVALID, 404: noMap }
+	),
+	'maps.codegen': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/maps/{mapId}/codegen',
+			summary:
+				'C99 code for firmware from a revision (or the draft): the header or the source of one generation (docs/codegen.md).',
+			access: 'viewer',
+			query: codegenQuerySchema,
+			status: 200,
+			download: 'text/x-c; charset=utf-8'
 		},
 		{ 400: INVALID, 404: noMap }
 	),

@@ -4,6 +4,7 @@
  */
 import { z } from 'zod';
 import { lintProblemSchema as libraryLintProblemSchema } from '../can/lint';
+import { codegenPrefixSchema } from '../can/codegen/identifiers';
 import { canMapSchema } from '../can/map';
 import { mapDiffSchema as libraryMapDiffSchema } from '../can/map-diff';
 import { roleSchema } from '../roles';
@@ -101,6 +102,14 @@ export const mapExportQuerySchema = z.object({
 	rev: revisionRefSchema.default('draft'),
 	format: exportFormatSchema.default('json')
 });
+
+/** `?rev=<n|draft>&file=h|c[&prefix=fw]` of the C code download (docs/codegen.md). */
+export const codegenQuerySchema = z.object({
+	rev: revisionRefSchema.default('draft'),
+	file: z.enum(['h', 'c'], { error: 'file must be h (the header) or c (the source)' }),
+	prefix: codegenPrefixSchema.default('fw')
+});
+export type CodegenQuery = z.infer<typeof codegenQuerySchema>;
 
 /** `?from=<n|draft>&to=<n|draft>` of the diff route. */
 export const diffQuerySchema = z.object({ from: revisionRefSchema, to: revisionRefSchema });

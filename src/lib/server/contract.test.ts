@@ -264,6 +264,11 @@ describe('every endpoint answers as the contract says', () => {
 			query: { rev: 1, format: 'json' }
 		});
 		expect(file.response.headers.get('x-framewright-revision')).toBe('r1');
+		const code = await call(services, viewer, 'maps.codegen', {
+			params: { ws, mapId },
+			query: { rev: 1, file: 'h' }
+		});
+		expect(code.response.headers.get('content-disposition')).toContain('fw.h');
 		const template = await call(services, viewer, 'maps.template', { params: { ws } });
 		expect(await template.response.text()).toContain('\n');
 		await call(services, viewer, 'tools.busLoad', {
