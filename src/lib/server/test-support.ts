@@ -178,6 +178,8 @@ export interface EventInit {
 	headers?: Record<string, string>;
 	/** The request's `Authorization: Bearer` credential, as the request pipeline read it. */
 	bearer?: BearerCredential | null;
+	/** A request made elsewhere (a test server's), used as it is instead of one built from `body`. */
+	request?: Request;
 }
 
 /** A RequestEvent good enough for our loads, actions and +server.ts handlers. */
@@ -193,11 +195,13 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 		body = JSON.stringify(init.body);
 		headers.set('content-type', 'application/json');
 	}
-	const request = new Request(url, {
-		method: init.method ?? (body ? 'POST' : 'GET'),
-		body,
-		headers
-	});
+	const request =
+		init.request ??
+		new Request(url, {
+			method: init.method ?? (body ? 'POST' : 'GET'),
+			body,
+			headers
+		});
 	const cookies = new Map<string, string>();
 	return {
 		locals: { services: init.services, user: init.user, bearer: init.bearer ?? null },
