@@ -85,7 +85,9 @@ afterAll(async () => {
 	rmSync(services.storageRoot, { recursive: true, force: true });
 });
 
-describe('remote commands', () => {
+// Each command is a fresh Node process with tsx; on a shared, busy machine a test running several
+// of them needs more than the default 30 s.
+describe('remote commands', { timeout: 120_000 }, () => {
 	it('maps lists the token’s workspace only', async () => {
 		const mine = await cli(as('read'), 'maps', '--server', server.url);
 		expect(mine.stderr).toBe('');
