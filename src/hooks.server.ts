@@ -6,6 +6,8 @@ import { limitRequestBodies } from '$lib/server/http/body-limits';
 import { pinCookieSecurity } from '$lib/server/http/cookies';
 import { addSecurityHeaders } from '$lib/server/http/headers';
 import { getServices } from '$lib/server/startup';
+import { withRequestContext } from '$lib/server/request-context';
+import { bearerOf } from '$lib/server/tokens/bearer';
 
 // Opens and migrates the database and starts the demo mail server before the first request, so a
 // misconfiguration fails at start-up rather than on someone's click. (Demo data is seeded before the
@@ -17,7 +19,17 @@ export const init: ServerInit = async () => {
 const provideServices: Handle = async ({ event, resolve }) => {
 	event.locals.services = await getServices();
 	event.locals.user = null;
+	event.locals.bearer = null;
 	return resolve(event);
+};
+
+// An access token is read here and judged by the guard (src/lib/server/guard.ts): it never becomes
+// `locals.user`, so a page that forgot the guard still cannot be used with one. The request runs in
+// its own context, so audit rows of changes made with a token name it.
+const resolveBearer: Handle = async ({ event, resolve }) => {
+	const { db } = event.locals.services;
+	event.locals.bearer = await bearerOf(db, event.request.headers.get('authorization'));
+	return withRequestContext(() => resolve(event));
 };
 
 const resolveUser: Handle = async ({ event, resolve }) => {
@@ -36,6 +48,7 @@ export const handle: Handle = sequence(
 	addSecurityHeaders,
 	limitRequestBodies,
 	pinCookieSecurity,
+	resolveBearer,
 	authHandle,
 	resolveUser
 );

@@ -1,6 +1,7 @@
 /**
  * Framewright command line: `npm run -s cli -- <command> …`. Machine-readable results go to stdout,
- * messages to stderr. Exit codes: 0 done, 1 invalid input file or problems found, 2 bad usage.
+ * messages to stderr. Exit codes: 0 done, 1 invalid input file, problems found or a refusal of the
+ * server, 2 bad usage. Commands with `--server URL` work against a running Framewright.
  */
 import type { Command } from './command';
 import { EXIT, InputError, UsageError } from './errors';
@@ -47,6 +48,26 @@ const COMMANDS: Record<string, { summary: string; load: () => Promise<{ command:
 		summary:
 			'fields CAPTURE.csv [--id ID]         proposed fields of each ID (counters, checksums…)',
 		load: () => import('./commands/fields')
+	},
+	maps: {
+		summary: 'maps --server URL                    maps of the token’s workspace',
+		load: () => import('./commands/maps')
+	},
+	pull: {
+		summary: 'pull --server URL --map NAME [--revision N|latest|draft] [--out FILE]   map JSON',
+		load: () => import('./commands/pull')
+	},
+	push: {
+		summary: 'push --server URL --map NAME --version N DRAFT.json   replace the draft',
+		load: () => import('./commands/push')
+	},
+	publish: {
+		summary: 'publish --server URL --map NAME --version N --note TEXT   next revision',
+		load: () => import('./commands/publish')
+	},
+	upload: {
+		summary: 'upload --server URL [--name NAME] CAPTURE.csv   upload and process a capture',
+		load: () => import('./commands/upload')
 	}
 };
 
@@ -58,8 +79,11 @@ ${Object.values(COMMANDS)
 	.map((c) => `  ${c.summary}`)
 	.join('\n')}
 
+lint and decode also work against a server: add --server URL (and --revision), with --map naming
+the map there. Remote commands read the access token from FRAMEWRIGHT_TOKEN (docs/cli.md).
+
 Run "<command> --help" for details. Output on stdout is JSON or CSV; messages go to stderr.
-Exit codes: 0 done, 1 invalid input or problems found, 2 bad usage.`;
+Exit codes: 0 done, 1 invalid input, problems found or refused by the server, 2 bad usage.`;
 
 export async function main(argv: string[]): Promise<number> {
 	const [name, ...rest] = argv;

@@ -1,6 +1,6 @@
 /** Node-side file access for the CLI: maps are read whole, captures are streamed. */
 import { createReadStream } from 'node:fs';
-import { readFile, stat } from 'node:fs/promises';
+import { readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import type { CanMap } from '../lib/can/map';
 import { parseMap, type MapProblem } from '../lib/can/map-json';
 import { InputError } from './errors';
@@ -83,3 +83,15 @@ export function createOutput(stream: NodeJS.WriteStream = process.stdout) {
 
 export const printJson = (value: unknown) =>
 	process.stdout.write(`${JSON.stringify(value, null, 2)}\n`);
+
+/** Writes through a temporary file and a rename, so a failed run never leaves half a file behind. */
+export async function writeWhole(path: string, text: string | Uint8Array): Promise<void> {
+	const temporary = `${path}.${process.pid}.tmp`;
+	try {
+		await writeFile(temporary, text);
+		await rename(temporary, path);
+	} catch (error) {
+		await rm(temporary, { force: true });
+		throw new InputError(`${path}: ${(error as Error).message}`);
+	}
+}

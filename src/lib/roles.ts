@@ -17,6 +17,13 @@ export function roleAtLeast(role: Role, minimum: Role): boolean {
 	return rank[role] >= rank[minimum];
 }
 
+/**
+ * The roles an access token can carry: read-only (viewer) or edit (editor). What only an owner may do
+ * (members, deleting) needs the person, signed in.
+ */
+export const tokenRoleSchema = z.enum(['viewer', 'editor']);
+export type TokenRole = z.infer<typeof tokenRoleSchema>;
+
 export const ROLE_LABELS: Record<Role, string> = {
 	owner: 'Owner',
 	editor: 'Editor',

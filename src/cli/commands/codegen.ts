@@ -1,5 +1,5 @@
 /** `codegen --map MAP.json --out DIR [--prefix fw] [--revision LABEL]`: C99 code for firmware. */
-import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
+import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { CODEGEN_VERSION, generateC } from '../../lib/can/codegen/generate';
@@ -7,7 +7,7 @@ import { codegenPrefixSchema } from '../../lib/can/codegen/identifiers';
 import { mapPath, parseCommand } from '../args';
 import type { Command } from '../command';
 import { EXIT, InputError } from '../errors';
-import { printJson, readMapFile } from '../io';
+import { printJson, readMapFile, writeWhole } from '../io';
 
 const schema = z.object({
 	map: mapPath,
@@ -21,18 +21,6 @@ const schema = z.object({
 		.optional(),
 	positionals: z.array(z.string()).max(0, 'takes no file arguments besides --map')
 });
-
-/** Writes through a temporary file and a rename, so a failed run never leaves half a file behind. */
-async function writeWhole(path: string, text: string): Promise<void> {
-	const temporary = `${path}.${process.pid}.tmp`;
-	try {
-		await writeFile(temporary, text);
-		await rename(temporary, path);
-	} catch (error) {
-		await rm(temporary, { force: true });
-		throw new InputError(`${path}: ${(error as Error).message}`);
-	}
-}
 
 export const command: Command = {
 	usage: `Usage: codegen --map MAP.json --out DIR [--prefix fw] [--revision LABEL]

@@ -3,11 +3,11 @@
  * text, so their numbers are parsed here with messages naming the parameter.
  */
 import { z } from 'zod';
-import type { AlertReplay } from '../can/alerts/replay';
-import type { Dm1Lamps } from '../can/j1939';
+import { alertReplaySchema as libraryAlertReplaySchema } from '../can/alerts/replay';
+import { dm1LampsSchema } from '../can/j1939';
 import { canIdSchema, MAX_EXTENDED_ID } from '../can/map';
 import { decodeRecordSchema } from './captures';
-import { libraryShape } from './shapes';
+import { named } from './shapes';
 
 const recordId = (what: string) =>
 	z
@@ -179,9 +179,10 @@ export const troubleCodeSummarySchema = z.object({
 	fmi: z.number().int(),
 	occurrenceCount: z.number().int(),
 	/** Lamp states of the latest DM1 that reported it. */
-	lamps: libraryShape<Dm1Lamps>(
+	lamps: named(
+		dm1LampsSchema,
 		'Dm1Lamps',
-		'The four DM1 lamps, each { state, flash } (SAE J1939-73; src/lib/can/j1939.ts).'
+		'The four DM1 lamps, each { state, flash } (SAE J1939-73).'
 	)
 });
 export type TroubleCodeSummary = z.infer<typeof troubleCodeSummarySchema>;
@@ -294,7 +295,8 @@ export const frameExistsProblemSchema = z.looseObject({
 	frameIndex: z.number().int()
 });
 
-export const alertReplaySchema = libraryShape<AlertReplay>(
+export const alertReplaySchema = named(
+	libraryAlertReplaySchema,
 	'AlertReplay',
-	'Alert rules of the decode map replayed over its channels: { rules, events, summary } (src/lib/can/alerts/replay.ts).'
+	'Alert rules of the decode’s map replayed over its channels: the rules, their events and a summary per rule.'
 );

@@ -59,12 +59,14 @@ export function errors(
 /** The failures the guard itself answers for a route of this access. */
 export function guardErrors(access: Access): Partial<Record<ErrorStatus, string>> {
 	if (access === 'public') return {};
-	const signedIn = { 401: 'Your session has ended. Sign in again to continue.' };
+	const signedIn = {
+		401: 'Your session has ended (or the access token is mistyped, revoked or expired). Sign in again to continue.'
+	};
 	if (access === 'signed-in') return signedIn;
 	return {
 		...signedIn,
 		...(access === 'viewer' ? {} : { 403: 'Your role in this workspace does not allow that.' }),
-		404: 'That workspace does not exist, or you are not a member of it.'
+		404: 'That workspace does not exist, or you are not a member of it (or the access token is for another workspace).'
 	};
 }
 

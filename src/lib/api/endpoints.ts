@@ -31,7 +31,9 @@ import {
 	uploadResponseSchema
 } from './captures';
 import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
+import { openApiDocumentSchema } from './meta';
 import {
+	codegenQuerySchema,
 	createdMapResponseSchema,
 	createdShareLinkResponseSchema,
 	createMapInputSchema,
@@ -106,7 +108,10 @@ export const endpoints = {
 			status: 201,
 			response: createdWorkspaceResponseSchema
 		},
-		{ 400: INVALID }
+		{
+			400: INVALID,
+			403: 'An access token works only inside its own workspace; sign in to create a workspace.'
+		}
 	),
 	'workspaces.rename': endpoint(
 		{
@@ -369,6 +374,19 @@ export const endpoints = {
 		},
 		{ 400: INVALID, 404: noMap }
 	),
+	'maps.codegen': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/maps/{mapId}/codegen',
+			summary:
+				'C99 code for firmware from a revision (or the draft): the header or the source of one generation (docs/codegen.md).',
+			access: 'viewer',
+			query: codegenQuerySchema,
+			status: 200,
+			download: 'text/x-c; charset=utf-8'
+		},
+		{ 400: INVALID, 404: noMap }
+	),
 	'maps.template': endpoint({
 		method: 'GET',
 		path: '/w/{ws}/maps/template.csv',
@@ -567,6 +585,17 @@ export const endpoints = {
 		},
 		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
 	),
+
+	// ---- the API itself ----
+	'meta.openapi': endpoint({
+		method: 'GET',
+		path: '/api/openapi.json',
+		summary:
+			'This API described in OpenAPI 3.1, generated from the same schemas the routes validate with.',
+		access: 'public',
+		status: 200,
+		response: openApiDocumentSchema
+	}),
 
 	// ---- tools ----
 	'tools.busLoad': endpoint(

@@ -3,11 +3,19 @@
  * Unknown fields are refused (`strictObject`) so a typo never passes silently.
  */
 import { z } from 'zod';
-import type { LintProblem } from '../can/lint';
+import { lintProblemSchema as libraryLintProblemSchema } from '../can/lint';
+import { codegenPrefixSchema } from '../can/codegen/identifiers';
 import { canMapSchema } from '../can/map';
-import type { MapDiff } from '../can/map-diff';
+import { mapDiffSchema as libraryMapDiffSchema } from '../can/map-diff';
 import { roleSchema } from '../roles';
-import { libraryShape, personRefSchema, timestampSchema } from './shapes';
+import { named, personRefSchema, timestampSchema } from './shapes';
+
+/** A map in the `framewright-map@1` format (docs/map-format.md), as drafts and revisions carry it. */
+const mapSchema = named(
+	canMapSchema,
+	'Map',
+	'A broadcast map in the framewright-map@1 format (docs/map-format.md): frames and their signals, alert rules.'
+);
 
 // ---- requests ----
 
@@ -51,7 +59,7 @@ export const createMapInputSchema = z
 	});
 export type CreateMapInput = z.infer<typeof createMapInputSchema>;
 
-export const draftInputSchema = z.strictObject({ version, draft: canMapSchema });
+export const draftInputSchema = z.strictObject({ version, draft: mapSchema });
 export const renameInputSchema = z.strictObject({ name: mapName, version });
 export const publishInputSchema = z.strictObject({
 	note: z
@@ -125,6 +133,14 @@ export const mapExportQuerySchema = z.object({
 	format: exportFormatSchema.default('json')
 });
 
+/** `?rev=<n|draft>&file=h|c[&prefix=fw]` of the C code download (docs/codegen.md). */
+export const codegenQuerySchema = z.object({
+	rev: revisionRefSchema.default('draft'),
+	file: z.enum(['h', 'c'], { error: 'file must be h (the header) or c (the source)' }),
+	prefix: codegenPrefixSchema.default('fw')
+});
+export type CodegenQuery = z.infer<typeof codegenQuerySchema>;
+
 /** `?from=<n|draft>&to=<n|draft>` of the diff route. */
 export const diffQuerySchema = z.object({ from: revisionRefSchema, to: revisionRefSchema });
 
@@ -139,13 +155,15 @@ export const sheetQuerySchema = mapExportQuerySchema.pick({ rev: true });
 
 // ---- answers ----
 
-export const lintProblemSchema = libraryShape<LintProblem>(
+export const lintProblemSchema = named(
+	libraryLintProblemSchema,
 	'LintProblem',
-	'A map problem with severity, code, message, frame/signal index and JSON path (src/lib/can/lint.ts).'
+	'A map problem with severity, code, message, frame/signal index and the JSON path of the field to fix (docs/map-format.md lists the codes).'
 );
-const mapDiffSchema = libraryShape<MapDiff>(
+const mapDiffSchema = named(
+	libraryMapDiffSchema,
 	'MapDiff',
-	'Field-by-field differences between two maps (src/lib/can/map-diff.ts).'
+	'Field-by-field differences between two maps: map fields, frames matched by ID, signals by name, alert rules by id.'
 );
 
 export const mapSummarySchema = z.object({
@@ -178,7 +196,7 @@ export const mapViewSchema = z.object({
 	map: z.object({
 		id: z.string(),
 		name: z.string(),
-		draft: canMapSchema,
+		draft: mapSchema,
 		version: z.number().int(),
 		updatedAt: timestampSchema,
 		updatedBy: personRefSchema.nullable()
@@ -198,10 +216,15 @@ export const draftSavedResponseSchema = z.object({
 });
 export type DraftSavedResponse = z.infer<typeof draftSavedResponseSchema>;
 
-/** The 409 of a stale save or publish: the draft's version now, so the page can offer a reload. */
+/**
+ * The 409 of a stale save or publish: the draft's version now, so the page can offer a reload, and
+ * who changed it when (the command line explains the refusal with them).
+ */
 export const staleDraftProblemSchema = z.looseObject({
 	error: z.string(),
-	currentVersion: z.number().int()
+	currentVersion: z.number().int(),
+	updatedAt: timestampSchema,
+	updatedBy: personRefSchema.nullable()
 });
 
 export const revisionListResponseSchema = z.object({ revisions: z.array(revisionSummarySchema) });
@@ -215,7 +238,7 @@ export const publishedResponseSchema = z.object({
 export type PublishedResponse = z.infer<typeof publishedResponseSchema>;
 
 export const revisionViewSchema = z.object({
-	revision: revisionSummarySchema.extend({ map: canMapSchema }),
+	revision: revisionSummarySchema.extend({ map: mapSchema }),
 	lint: z.array(lintProblemSchema)
 });
 export type RevisionView = z.infer<typeof revisionViewSchema>;

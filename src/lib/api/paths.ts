@@ -18,7 +18,10 @@ export function mapPaths(slug: string, mapId: string) {
 		diff: (from: RevisionRef, to: RevisionRef) => `${base}/diff?from=${from}&to=${to}`,
 		exportFile: (rev: RevisionRef, format: 'json' | 'csv') =>
 			endpointUrl('maps.export', { params: { ws: slug, mapId }, query: { rev, format } }),
-		sheet: (rev: RevisionRef) => `${base}/sheet?rev=${rev}`
+		sheet: (rev: RevisionRef) => `${base}/sheet?rev=${rev}`,
+		/** `<prefix>.h` or `<prefix>.c` generated from a revision or the draft. */
+		codeFile: (rev: RevisionRef, file: 'h' | 'c', prefix = 'fw') =>
+			endpointUrl('maps.codegen', { params: { ws: slug, mapId }, query: { rev, file, prefix } })
 	};
 }
 

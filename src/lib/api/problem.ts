@@ -16,10 +16,16 @@ export const issueSchema = z.object({
 export type Issue = z.infer<typeof issueSchema>;
 
 /** `{ error, issues? }`; a few failures add fields of their own (see `staleDraftProblemSchema`). */
-export const problemBodySchema = z.looseObject({
-	error: z.string(),
-	issues: z.array(issueSchema).optional()
-});
+export const problemBodySchema = z
+	.looseObject({
+		error: z.string(),
+		issues: z.array(issueSchema).optional()
+	})
+	.meta({
+		id: 'Problem',
+		description:
+			'A failure: what went wrong in words a person can act on, and for bad input each field (or file line) refused.'
+	});
 export type ProblemBody = z.infer<typeof problemBodySchema>;
 
 /** The statuses an expected failure can have. */

@@ -2,9 +2,9 @@
  * The contract of the workspace tools' JSON route (`/api/workspaces/{ws}/tools/bus-load`).
  */
 import { z } from 'zod';
-import type { MapBusLoad } from '../can/busload';
+import { mapBusLoadSchema } from '../can/busload';
 import { revisionRefSchema } from './maps';
-import { libraryShape } from './shapes';
+import { named } from './shapes';
 
 /**
  * `?mapId=…&rev=<n|r<n>|draft>[&bitrate=…]`. The bit rate overrides the map's own (to plan a move
@@ -37,9 +37,10 @@ export const busLoadResponseSchema = z.object({
 	/** "r3" or "draft". */
 	label: z.string(),
 	/** `mapBusLoad` of that snapshot, untouched. */
-	busLoad: libraryShape<MapBusLoad>(
+	busLoad: named(
+		mapBusLoadSchema,
 		'MapBusLoad',
-		'Bus load per frame and in total, nominal and worst case (src/lib/can/busload.ts).'
+		'Bus load per frame and in total, nominal and worst case (docs/cli.md, bus-load).'
 	),
 	/** Per frame (same order as busLoad.frames): what the table shows beside the load. */
 	frames: z.array(

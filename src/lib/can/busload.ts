@@ -4,6 +4,7 @@
  * phase at the data bit rate (fd-frame-bits.ts); their load is expressed in nominal bit times,
  * so every percentage is busy time over elapsed time. See docs/can-fd-and-transport.md.
  */
+import { z } from 'zod';
 import type { CanMap } from './map';
 import {
 	fdNominalPhaseBits,
@@ -20,31 +21,34 @@ import {
 	worstCaseFrameBits
 } from './frame-bits';
 
-export type BusLoadExclusion = 'noCycleTime';
+export const busLoadExclusionSchema = z.enum(['noCycleTime']);
+export type BusLoadExclusion = z.infer<typeof busLoadExclusionSchema>;
 
-export interface FrameBusLoad {
-	frameIndex: number;
-	name: string;
-	id: number;
-	framesPerSecond: number;
+export const frameBusLoadSchema = z.object({
+	frameIndex: z.number().int(),
+	name: z.string(),
+	id: z.number().int(),
+	framesPerSecond: z.number(),
 	/** Bus time per second in nominal bit times (an FD data phase bit weighs bitrate / dataBitrate). */
-	nominalBitsPerSecond: number;
-	worstCaseBitsPerSecond: number;
-	nominalPercent: number;
-	worstCasePercent: number;
+	nominalBitsPerSecond: z.number(),
+	worstCaseBitsPerSecond: z.number(),
+	nominalPercent: z.number(),
+	worstCasePercent: z.number(),
 	/** Why the frame contributes nothing to the totals, or null when it counts. */
-	excluded: BusLoadExclusion | null;
-}
+	excluded: busLoadExclusionSchema.nullable()
+});
+export type FrameBusLoad = z.infer<typeof frameBusLoadSchema>;
 
-export interface MapBusLoad {
+export const mapBusLoadSchema = z.object({
 	/** Nominal (arbitration) bit rate; the percentages are of this rate's bit times. */
-	bitrate: number;
+	bitrate: z.number(),
 	/** Bit rate of CAN FD data phases (equal to `bitrate` when none was given). */
-	dataBitrate: number;
-	nominalPercent: number;
-	worstCasePercent: number;
-	frames: FrameBusLoad[];
-}
+	dataBitrate: z.number(),
+	nominalPercent: z.number(),
+	worstCasePercent: z.number(),
+	frames: z.array(frameBusLoadSchema)
+});
+export type MapBusLoad = z.infer<typeof mapBusLoadSchema>;
 
 function checkPositive(value: number, what: string): void {
 	if (!Number.isFinite(value) || value <= 0) {

@@ -193,18 +193,20 @@ export const DM1_CAUTION =
 /** PGN 65226 (0xFECA): DM1, active diagnostic trouble codes. SAE J1939-73. */
 export const PGN_DM1 = 0xfeca;
 
-export type LampState = 'off' | 'on' | 'reserved' | 'notAvailable';
-export type LampFlash = 'slow' | 'fast' | 'reserved' | 'none';
-export interface Lamp {
-	state: LampState;
-	flash: LampFlash;
-}
-export interface Dm1Lamps {
-	malfunctionIndicator: Lamp;
-	redStop: Lamp;
-	amberWarning: Lamp;
-	protect: Lamp;
-}
+export const lampStateSchema = z.enum(['off', 'on', 'reserved', 'notAvailable']);
+export type LampState = z.infer<typeof lampStateSchema>;
+// J1939-73 flash codes (from memory): 00 slow (1 Hz), 01 fast (2 Hz), 10 reserved, 11 do not flash.
+export const lampFlashSchema = z.enum(['slow', 'fast', 'reserved', 'none']);
+export type LampFlash = z.infer<typeof lampFlashSchema>;
+export const lampSchema = z.object({ state: lampStateSchema, flash: lampFlashSchema });
+export type Lamp = z.infer<typeof lampSchema>;
+export const dm1LampsSchema = z.object({
+	malfunctionIndicator: lampSchema,
+	redStop: lampSchema,
+	amberWarning: lampSchema,
+	protect: lampSchema
+});
+export type Dm1Lamps = z.infer<typeof dm1LampsSchema>;
 export interface TroubleCode {
 	/** Suspect parameter number, 19 bits. */
 	spn: number;
@@ -220,9 +222,8 @@ export interface Dm1 {
 	troubleCodes: TroubleCode[];
 }
 
-const LAMP_STATES: readonly LampState[] = ['off', 'on', 'reserved', 'notAvailable'];
-// J1939-73 flash codes (from memory): 00 slow (1 Hz), 01 fast (2 Hz), 10 reserved, 11 do not flash.
-const LAMP_FLASHES: readonly LampFlash[] = ['slow', 'fast', 'reserved', 'none'];
+const LAMP_STATES = lampStateSchema.options;
+const LAMP_FLASHES = lampFlashSchema.options;
 
 function lamp(status: number, flash: number, shift: number): Lamp {
 	return { state: LAMP_STATES[(status >> shift) & 3], flash: LAMP_FLASHES[(flash >> shift) & 3] };

@@ -3,42 +3,52 @@
  * payload, duplicates, identifier ranges, multiplexing mistakes. Errors make decoding wrong or
  * ambiguous; warnings are legal but probably unintended.
  */
-import { validateAlertRules, type AlertRuleProblemCode } from './alerts/validate';
+import { z } from 'zod';
+import { alertRuleProblemCodeSchema, validateAlertRules } from './alerts/validate';
 import { fieldBitPositions, fieldLayout } from './bits';
 import { rawBounds } from './codec';
 import { j1939Pgn } from './j1939';
 import { MAX_STANDARD_ID, type CanMap, type Frame, type Signal } from './map';
 import { formatCanId } from './map-json';
 
-export interface LintProblem {
-	severity: 'error' | 'warning';
-	code: LintCode;
-	message: string;
-	frameIndex: number | null;
-	signalIndex: number | null;
-	/** JSON path of the field to fix, e.g. `frames[1].signals[3].startBit`. */
-	path: string;
-}
+/** Codes of map-level problems; alert-rule problems follow as `alert-<code>`. */
+const mapLintCodes = z.enum([
+	'signal-overlap',
+	'beyond-payload',
+	'duplicate-frame-id',
+	'duplicate-pgn',
+	'duplicate-frame-name',
+	'duplicate-signal-name',
+	'standard-id-range',
+	'zero-scale',
+	'min-above-max',
+	'float-length',
+	'j1939-standard-id',
+	'mux-without-multiplexer',
+	'multiple-multiplexers',
+	'nested-multiplexer',
+	'mux-value-out-of-range',
+	'label-out-of-range',
+	'limit-unreachable'
+]);
 
-export type LintCode =
-	| 'signal-overlap'
-	| 'beyond-payload'
-	| 'duplicate-frame-id'
-	| 'duplicate-pgn'
-	| 'duplicate-frame-name'
-	| 'duplicate-signal-name'
-	| 'standard-id-range'
-	| 'zero-scale'
-	| 'min-above-max'
-	| 'float-length'
-	| 'j1939-standard-id'
-	| 'mux-without-multiplexer'
-	| 'multiple-multiplexers'
-	| 'nested-multiplexer'
-	| 'mux-value-out-of-range'
-	| 'label-out-of-range'
-	| 'limit-unreachable'
-	| `alert-${AlertRuleProblemCode}`;
+export const lintCodeSchema = z.union([
+	mapLintCodes,
+	z.templateLiteral(['alert-', alertRuleProblemCodeSchema])
+]);
+export type LintCode = z.infer<typeof lintCodeSchema>;
+
+/** One problem of a map: the API answers these, the CLI prints them (docs/map-format.md lists the codes). */
+export const lintProblemSchema = z.object({
+	severity: z.enum(['error', 'warning']),
+	code: lintCodeSchema,
+	message: z.string(),
+	frameIndex: z.number().int().nullable(),
+	signalIndex: z.number().int().nullable(),
+	/** JSON path of the field to fix, e.g. `frames[1].signals[3].startBit`. */
+	path: z.string()
+});
+export type LintProblem = z.infer<typeof lintProblemSchema>;
 
 type Report = (
 	problem: Omit<LintProblem, 'frameIndex' | 'signalIndex' | 'path'>,

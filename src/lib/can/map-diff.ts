@@ -4,49 +4,58 @@
  * map use. A duplicate (a lint error, but legal in a draft) is matched to its n-th counterpart.
  * Alert rules are matched by their id, so a renamed rule shows as changed, not removed and added.
  */
+import { z } from 'zod';
 import type { AlertRule } from './alerts/rule';
 import type { CanMap, Frame, Signal } from './map';
 import { formatCanId } from './map-json';
 
-export interface FieldChange {
-	field: string;
-	from: unknown;
-	to: unknown;
-}
+/** One field that differs; `from`/`to` are the field's values (absent fields are null). */
+export const fieldChangeSchema = z.object({
+	field: z.string(),
+	from: z.unknown(),
+	to: z.unknown()
+});
+export type FieldChange = z.infer<typeof fieldChangeSchema>;
 
-export interface SignalDiff {
-	name: string;
-	status: 'added' | 'removed' | 'changed';
-	changes: FieldChange[];
-}
+const changeStatus = z.enum(['added', 'removed', 'changed']);
 
-export interface FrameDiff {
+export const signalDiffSchema = z.object({
+	name: z.string(),
+	status: changeStatus,
+	changes: z.array(fieldChangeSchema)
+});
+export type SignalDiff = z.infer<typeof signalDiffSchema>;
+
+export const frameDiffSchema = z.object({
 	/** "0x360" (standard) or "0x18FEF100" (extended), with "#2" for a second frame of the same ID. */
-	key: string;
-	status: 'added' | 'removed' | 'changed' | 'same';
-	name: string;
-	changes: FieldChange[];
+	key: z.string(),
+	status: z.enum(['added', 'removed', 'changed', 'same']),
+	name: z.string(),
+	changes: z.array(fieldChangeSchema),
 	/** Only signals that differ; unchanged ones are left out. */
-	signals: SignalDiff[];
-}
+	signals: z.array(signalDiffSchema)
+});
+export type FrameDiff = z.infer<typeof frameDiffSchema>;
 
-export interface AlertRuleDiff {
-	id: string;
+export const alertRuleDiffSchema = z.object({
+	id: z.string(),
 	/** The rule's name (the new one when it changed). */
-	name: string;
-	status: 'added' | 'removed' | 'changed';
-	changes: FieldChange[];
-}
+	name: z.string(),
+	status: changeStatus,
+	changes: z.array(fieldChangeSchema)
+});
+export type AlertRuleDiff = z.infer<typeof alertRuleDiffSchema>;
 
-export interface MapDiff {
+export const mapDiffSchema = z.object({
 	/** Map-level fields (name, bitrate). */
-	changes: FieldChange[];
-	frames: FrameDiff[];
+	changes: z.array(fieldChangeSchema),
+	frames: z.array(frameDiffSchema),
 	/** Only rules that differ. */
-	alertRules: AlertRuleDiff[];
+	alertRules: z.array(alertRuleDiffSchema),
 	/** True when nothing at all differs. */
-	identical: boolean;
-}
+	identical: z.boolean()
+});
+export type MapDiff = z.infer<typeof mapDiffSchema>;
 
 const MAP_FIELDS = ['name', 'bitrate'] as const satisfies readonly (keyof CanMap)[];
 const FRAME_FIELDS = [

@@ -3,12 +3,17 @@
 // run as the server runs it (real handlers, a freshly migrated database, temporary storage, the
 // capture parsed in a worker thread), gets answers that the contract's own schemas accept with
 // nothing left over, with the listed status. Failures met on the way must be listed failures with
-// the listed body shape. The demo fixtures (invented data) are the inputs.
+// the listed body shape. The demo fixtures (invented data) are the inputs. Every JSON answer met on the
+// way is then validated against the generated OpenAPI document (src/lib/api/openapi.ts) with ajv's
+// JSON Schema draft 2020-12 validator, so the published description matches what the routes send.
 import { rmSync } from 'node:fs';
 import type { RequestEvent } from '@sveltejs/kit';
+import { Ajv2020 } from 'ajv/dist/2020.js';
+import addFormats from 'ajv-formats';
 import { afterAll, describe, expect, it } from 'vitest';
 import { endpointUrl, type CallInput } from '$lib/api/client';
 import { endpoints, type EndpointName } from '$lib/api/endpoints';
+import { openApiDocument } from '$lib/api/openapi';
 import { problemBodySchema, type ErrorStatus } from '$lib/api/problem';
 import { processingDone } from './captures/processing';
 import type { SessionUser } from './guard';
@@ -70,6 +75,9 @@ interface Answer {
 	response: Response;
 }
 
+/** Every JSON answer of the journeys, to check against the OpenAPI document at the end. */
+const answers: { name: EndpointName; status: number; body: unknown }[] = [];
+
 /** Calls an endpoint's handler the way SvelteKit would and checks the answer against the contract. */
 async function call<K extends EndpointName>(
 	services: TestServices,
@@ -120,6 +128,7 @@ async function call<K extends EndpointName>(
 		expect(problemBodySchema.safeParse(parsedBody).success).toBe(true);
 		expect(spec!.body.safeParse(parsedBody).success, `${name} ${response.status} body`).toBe(true);
 	}
+	if (parsedBody !== undefined) answers.push({ name, status: response.status, body: parsedBody });
 	return { status: response.status, body: parsedBody, response };
 }
 
@@ -255,6 +264,11 @@ describe('every endpoint answers as the contract says', () => {
 			query: { rev: 1, format: 'json' }
 		});
 		expect(file.response.headers.get('x-framewright-revision')).toBe('r1');
+		const code = await call(services, viewer, 'maps.codegen', {
+			params: { ws, mapId },
+			query: { rev: 1, file: 'h' }
+		});
+		expect(code.response.headers.get('content-disposition')).toContain('fw.h');
 		const template = await call(services, viewer, 'maps.template', { params: { ws } });
 		expect(await template.response.text()).toContain('\n');
 		await call(services, viewer, 'tools.busLoad', {
@@ -263,6 +277,7 @@ describe('every endpoint answers as the contract says', () => {
 		});
 
 		await call(services, owner, 'maps.delete', { params: { ws, mapId } });
+		await call(services, null, 'meta.openapi', {});
 	});
 
 	it('captures: upload, processing, decodes, views, alerts and downloads', async () => {
@@ -347,5 +362,46 @@ describe('every endpoint answers as the contract says', () => {
 		).toBe(404);
 
 		await call(services, viewer, 'captures.delete', { params: { ws, id } });
+	});
+});
+
+describe('the OpenAPI document describes the answers', () => {
+	it('validates every JSON answer of the journeys above against its operation’s response', () => {
+		const document = openApiDocument();
+		const id = 'https://framewright.test/openapi.json';
+		const ajv = new Ajv2020({ strict: false, allErrors: true });
+		addFormats.default(ajv);
+		ajv.addSchema({ ...document, $id: id });
+		// JSON Pointer (RFC 6901) of a response schema, percent-encoded for the URI fragment.
+		const pointer = (...parts: string[]) =>
+			parts.map((p) => encodeURIComponent(p.replaceAll('~', '~0').replaceAll('/', '~1'))).join('/');
+		expect(answers.length).toBeGreaterThan(40);
+		const statuses = new Set<string>();
+		for (const { name, status, body } of answers) {
+			const def = endpoints[name];
+			const fragment = pointer(
+				'paths',
+				def.path,
+				def.method.toLowerCase(),
+				'responses',
+				String(status),
+				'content',
+				'application/json',
+				'schema'
+			);
+			const validate = ajv.getSchema(`${id}#/${fragment}`);
+			expect(validate, `${name} ${status} is in the document`).toBeTypeOf('function');
+			const ok = validate!(body);
+			expect(validate!.errors ?? [], `${name} ${status}`).toEqual([]);
+			expect(ok).toBe(true);
+			statuses.add(`${name} ${status}`);
+		}
+		// Failures were met too, and the schemas are strict enough to refuse a wrong answer.
+		expect([...statuses].some((s) => s.endsWith(' 409'))).toBe(true);
+		const list = ajv.getSchema(
+			`${id}#/${pointer('paths', '/api/workspaces/{ws}/maps', 'get', 'responses', '200', 'content', 'application/json', 'schema')}`
+		)!;
+		expect(list({ maps: [{ id: 'm', name: 'x' }] })).toBe(false);
+		expect(list({ maps: [], extra: true })).toBe(false);
 	});
 });

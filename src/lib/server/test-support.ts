@@ -13,6 +13,7 @@ import type { SessionUser } from './guard';
 import { createMailLimits } from './mail/limits';
 import type { OutgoingMail } from './mail/send';
 import type { Services } from './services';
+import type { BearerCredential } from './tokens/bearer';
 import { createLocalStorage } from './storage';
 import { saveDraft } from './maps/drafts';
 import { createMap } from './maps/maps';
@@ -179,6 +180,11 @@ export interface EventInit {
 	path?: string;
 	/** Added to the path: `?kind=map`. */
 	query?: string;
+	headers?: Record<string, string>;
+	/** The request's `Authorization: Bearer` credential, as the request pipeline read it. */
+	bearer?: BearerCredential | null;
+	/** A request made elsewhere (a test server's), used as it is instead of one built from `body`. */
+	request?: Request;
 }
 
 /** A RequestEvent good enough for our loads, actions and +server.ts handlers. */
@@ -188,20 +194,22 @@ export function makeEvent<E = RequestEvent>(init: EventInit): E {
 		init.path ?? init.routeId.replace(/\[(\w+)\]/g, (_, name: string) => params[name] ?? name);
 	const url = new URL(`http://localhost${path}${init.query ?? ''}`);
 	let body: BodyInit | undefined;
-	const headers = new Headers();
+	const headers = new Headers(init.headers);
 	if (init.body instanceof FormData || typeof init.body === 'string') body = init.body;
 	else if (init.body !== undefined) {
 		body = JSON.stringify(init.body);
 		headers.set('content-type', 'application/json');
 	}
-	const request = new Request(url, {
-		method: init.method ?? (body ? 'POST' : 'GET'),
-		body,
-		headers
-	});
+	const request =
+		init.request ??
+		new Request(url, {
+			method: init.method ?? (body ? 'POST' : 'GET'),
+			body,
+			headers
+		});
 	const cookies = new Map<string, string>();
 	return {
-		locals: { services: init.services, user: init.user },
+		locals: { services: init.services, user: init.user, bearer: init.bearer ?? null },
 		params,
 		url,
 		route: { id: init.routeId },

@@ -14,7 +14,8 @@
  * very instant wins. The off-delay works the same way for the return condition (back past the
  * setpoint by more than the deadband).
  */
-import { excursion, isBeyond, isReturned, type AlertRule, type AlertSeverity } from './rule';
+import { z } from 'zod';
+import { alertSeveritySchema, excursion, isBeyond, isReturned, type AlertRule } from './rule';
 
 export type AlarmState = 'normal' | 'unacknowledged' | 'acknowledged' | 'rtnUnacknowledged';
 
@@ -24,27 +25,28 @@ export interface AlarmTransition {
 	to: AlarmState;
 }
 
-export interface AlertEvent {
+export const alertEventSchema = z.object({
 	/** The rule's id. */
-	rule: string;
-	severity: AlertSeverity;
+	rule: z.string(),
+	severity: alertSeveritySchema,
 	/** When the alert activated (after the on-delay). */
-	start: number;
+	start: z.number(),
 	/** When it went back to normal; null = still active (or latched, unacknowledged) at the end. */
-	end: number | null;
+	end: z.number().nullable(),
 	/**
 	 * The most extreme value (in the alerting direction) the channel held during [start, end), or
 	 * [start, end of recording] for an event still active at the end.
 	 */
-	peak: number;
+	peak: z.number(),
 	/** Seconds from start to end (or to the end of the recording). */
-	duration: number;
+	duration: z.number(),
 	/** Whether the value returned while the alert was unacknowledged, so the latch held it. */
-	latched: boolean;
-	acknowledgedAt: number | null;
+	latched: z.boolean(),
+	acknowledgedAt: z.number().nullable(),
 	/** When the value last returned (after the off-delay) during this event. */
-	returnedAt: number | null;
-}
+	returnedAt: z.number().nullable()
+});
+export type AlertEvent = z.infer<typeof alertEventSchema>;
 
 export interface AlertEvaluation {
 	events: AlertEvent[];

@@ -5,9 +5,9 @@
 import { z } from 'zod';
 import type { ChannelInfo } from '../decoder';
 import type { CanMap } from '../map';
-import { evaluateAlertRule, type AlertEvent } from './evaluate';
-import { formatAlertMessage, type AlertRule } from './rule';
-import { summarizeAlertEvents, type AlertRuleSummary } from './summary';
+import { alertEventSchema, evaluateAlertRule } from './evaluate';
+import { alertRuleSchema, formatAlertMessage } from './rule';
+import { alertRuleSummarySchema, summarizeAlertEvents } from './summary';
 
 export const alertReplayInputSchema = z.strictObject({
 	decode: z
@@ -35,27 +35,37 @@ export interface ReplayChannel {
 	value: Float64Array;
 }
 
-export type ReplayedRule = AlertRule & {
+const replayExtras = {
 	/** The decoded channel the rule watches; null when the map has no such signal (a lint error). */
-	channelIndex: number | null;
-	unit: string;
+	channelIndex: z.number().int().nullable(),
+	unit: z.string()
 };
+/** A rule as replayed: the rule itself, and the channel it watched. */
+export const replayedRuleSchema = z.discriminatedUnion('condition', [
+	alertRuleSchema.options[0].extend(replayExtras),
+	alertRuleSchema.options[1].extend(replayExtras),
+	alertRuleSchema.options[2].extend(replayExtras)
+]);
+export type ReplayedRule = z.output<typeof replayedRuleSchema>;
 
-export type ReplayedEvent = AlertEvent & {
-	ruleName: string;
-	channelIndex: number;
+export const replayedEventSchema = alertEventSchema.extend({
+	ruleName: z.string(),
+	channelIndex: z.number().int(),
 	/** The rule's message filled in with the event's peak value. */
-	message: string;
-};
+	message: z.string()
+});
+export type ReplayedEvent = z.infer<typeof replayedEventSchema>;
 
-export interface AlertReplay {
-	rules: ReplayedRule[];
-	events: ReplayedEvent[];
+/** The answer of `POST …/captures/[id]/alerts`. */
+export const alertReplaySchema = z.object({
+	rules: z.array(replayedRuleSchema),
+	events: z.array(replayedEventSchema),
 	/** One per rule, in rule order, zero counts included. */
-	summary: AlertRuleSummary[];
+	summary: z.array(alertRuleSummarySchema),
 	/** End of the recording the rules ran over (seconds from its first frame): where open events stop. */
-	endTime: number;
-}
+	endTime: z.number()
+});
+export type AlertReplay = z.output<typeof alertReplaySchema>;
 
 export class UnknownRuleError extends Error {
 	constructor(

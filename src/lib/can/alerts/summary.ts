@@ -1,17 +1,19 @@
 /** Per-rule totals of replayed alert events, for the summary beside the timeline. */
+import { z } from 'zod';
 import type { AlertEvent } from './evaluate';
-import type { AlertSeverity } from './rule';
+import { alertSeveritySchema } from './rule';
 
-export interface AlertRuleSummary {
-	rule: string;
-	severity: AlertSeverity;
-	count: number;
+export const alertRuleSummarySchema = z.object({
+	rule: z.string(),
+	severity: alertSeveritySchema,
+	count: z.number().int(),
 	/** Sum of event durations in seconds (latched time included: it counts as active). */
-	totalActiveS: number;
-	latchedCount: number;
+	totalActiveS: z.number(),
+	latchedCount: z.number().int(),
 	/** Events still active (or latched) at the end of the recording. */
-	openCount: number;
-}
+	openCount: z.number().int()
+});
+export type AlertRuleSummary = z.infer<typeof alertRuleSummarySchema>;
 
 /** One summary per rule, in the order each rule first appears among the events. */
 export function summarizeAlertEvents(events: readonly AlertEvent[]): AlertRuleSummary[] {

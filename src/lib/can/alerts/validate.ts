@@ -3,19 +3,22 @@
  * channel must exist, setpoints should be reachable, a band must be a band, names must be unique.
  * Errors make a rule meaningless; warnings are legal but probably unintended.
  */
+import { z } from 'zod';
 import { rawBounds } from '../codec';
 import type { CanMap, Signal } from '../map';
 import { formatJsonPath } from '../map-json';
 import type { AlertRule } from './rule';
 
-export type AlertRuleProblemCode =
-	| 'unknown-frame'
-	| 'unknown-signal'
-	| 'setpoint-out-of-range'
-	| 'band-inverted'
-	| 'deadband-closes-band'
-	| 'duplicate-rule-name'
-	| 'duplicate-rule-id';
+export const alertRuleProblemCodeSchema = z.enum([
+	'unknown-frame',
+	'unknown-signal',
+	'setpoint-out-of-range',
+	'band-inverted',
+	'deadband-closes-band',
+	'duplicate-rule-name',
+	'duplicate-rule-id'
+]);
+export type AlertRuleProblemCode = z.infer<typeof alertRuleProblemCodeSchema>;
 
 export interface AlertRuleProblem {
 	severity: 'error' | 'warning';

@@ -22,6 +22,7 @@ describe('migrations', () => {
 			[
 				'Account',
 				'Session',
+				'access_tokens',
 				'User',
 				'VerificationToken',
 				'audit_log',

@@ -78,6 +78,8 @@ export interface AuditLogTable {
 	/** JSON text. */
 	details: ColumnType<string, string | undefined, string>;
 	created_at: string;
+	/** The access token the change was made with; null for a signed-in session. */
+	token_id: ColumnType<string | null, string | null | undefined, string | null>;
 }
 
 export interface SigninRequestTable {
@@ -179,6 +181,23 @@ export interface CaptureDecodeTable {
 	decoded_at: string;
 }
 
+export interface AccessTokenTable {
+	/** The public part of the token (`fwt_<id>_<secret>`): finds the row. */
+	id: string;
+	workspace_id: string;
+	user_id: string;
+	name: string;
+	/** At most the person's role when it was made; read-only tokens are viewer, edit tokens editor. */
+	role: Role;
+	/** SHA-256 (hex) of the secret part; the secret itself is shown once and never stored. */
+	secret_hash: string;
+	created_at: string;
+	expires_at: string;
+	/** Updated at most once a minute. */
+	last_used_at: string | null;
+	revoked_at: string | null;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -195,6 +214,7 @@ export interface Database {
 	share_links: ShareLinkTable;
 	captures: CaptureTable;
 	capture_decodes: CaptureDecodeTable;
+	access_tokens: AccessTokenTable;
 }
 
 export type User = Selectable<UserTable>;

@@ -61,7 +61,7 @@ export function staleDraft(current: MapRecord): Problem {
 		409,
 		`This map was changed by ${personLabel(current.updatedBy)} at ${current.updatedAt} since you loaded it. Reload to see their changes; your edit was not saved.`,
 		undefined,
-		{ currentVersion: current.version }
+		{ currentVersion: current.version, updatedAt: current.updatedAt, updatedBy: current.updatedBy }
 	);
 }
 

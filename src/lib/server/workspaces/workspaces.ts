@@ -1,5 +1,6 @@
 /** Repository of workspaces: create (the creator becomes owner), find, list, rename, delete. */
 import type { WorkspaceSummary } from '../../api/workspaces';
+import { roleAtLeast, type Role } from '../../roles';
 import { slugPart } from '../../slug';
 import type { DB } from '../db/connection';
 import type { Workspace } from '../db/schema';
@@ -60,14 +61,24 @@ export async function findWorkspaceBySlug(db: DB, slug: string): Promise<Workspa
 	return db.selectFrom('workspaces').selectAll().where('slug', '=', slug).executeTakeFirst();
 }
 
-export async function listWorkspacesForUser(db: DB, userId: string): Promise<WorkspaceSummary[]> {
-	return db
+/**
+ * The workspaces a person belongs to, with their role. With an access token's scope, only the
+ * token's workspace, at the lower of the two roles (a token shows nothing of other workspaces).
+ */
+export async function listWorkspacesForUser(
+	db: DB,
+	userId: string,
+	scope: { workspaceId: string; role: Role } | null = null
+): Promise<WorkspaceSummary[]> {
+	let query = db
 		.selectFrom('workspaces')
 		.innerJoin('memberships', 'memberships.workspace_id', 'workspaces.id')
 		.select(['workspaces.id', 'workspaces.slug', 'workspaces.name', 'memberships.role'])
-		.where('memberships.user_id', '=', userId)
-		.orderBy('workspaces.name')
-		.execute();
+		.where('memberships.user_id', '=', userId);
+	if (scope) query = query.where('workspaces.id', '=', scope.workspaceId);
+	const rows = await query.orderBy('workspaces.name').execute();
+	if (!scope) return rows;
+	return rows.map((w) => ({ ...w, role: roleAtLeast(w.role, scope.role) ? scope.role : w.role }));
 }
 
 async function requireWorkspace(db: DB, workspaceId: string): Promise<Workspace> {
