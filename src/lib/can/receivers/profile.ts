@@ -7,7 +7,7 @@ import { z } from 'zod';
 import { alertRuleSchema } from '../alerts/rule';
 import { parseJsonDocument, type ParseDocumentResult } from '../map-json';
 import { fuelSchema, quantitySchema } from './quantities';
-import { unitQuantityProblem } from './units';
+import { unitQuantityProblem } from './unit-table';
 
 export const PROFILE_FORMAT = 'framewright-profile@1';
 
