@@ -197,3 +197,8 @@ export function profileJsonSchema(): Record<string, unknown> {
 			'A receiver profile (format framewright-profile@1): a device listening on the bus, the channels it wants with quantity, unit and display range, links fixed by hand and the device alert rules.'
 	};
 }
+
+/** The profile as a `framewright-profile@1` file: pretty JSON, every field written out. */
+export function serializeProfile(profile: ReceiverProfile): string {
+	return `${JSON.stringify(profile, null, 2)}\n`;
+}
