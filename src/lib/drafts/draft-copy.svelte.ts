@@ -16,6 +16,8 @@ export interface DraftFailure {
 	message: string;
 	/** Someone else saved first (the server refused the version we sent); the way on is a reload. */
 	stale: boolean;
+	/** What was refused, field by field (a 400's issues), when the server said. */
+	issues?: { path: string; message: string }[];
 }
 
 export interface DraftIo<D, V> {

@@ -17,6 +17,14 @@ export const receiverKindSchema = z.enum(RECEIVER_KINDS, {
 });
 export type ReceiverKind = z.infer<typeof receiverKindSchema>;
 
+/** How a kind of receiver is shown to people. */
+export const RECEIVER_KIND_LABELS: Record<ReceiverKind, string> = {
+	display: 'display',
+	logger: 'logger',
+	'power-module': 'power module',
+	other: 'other device'
+};
+
 const finite = (what: string) => z.number({ error: `${what} must be a finite number` });
 
 export const wantedChannelSchema = z

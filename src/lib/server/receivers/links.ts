@@ -6,6 +6,7 @@
  */
 import type {
 	LinkSuggestionsResponse,
+	ProfileDraft,
 	ManualLinkResponse,
 	ProfileTarget
 } from '../../api/receivers';
@@ -13,7 +14,15 @@ import type { Issue } from '../../api/problem';
 import type { CanMap } from '../../can/map';
 import { formatCanId } from '../../can/map-json';
 import { describeConversion, type Conversion } from '../../can/receivers/conversion';
-import { linkProfile, resolveManualLink, type Link } from '../../can/receivers/linking';
+import {
+	findMapSignal,
+	linkProfile,
+	rankCandidates,
+	resolveManualLink,
+	scoreCandidate,
+	type Candidate,
+	type Link
+} from '../../can/receivers/linking';
 import { createNameMatcher, mergeSynonyms, type NameMatcher } from '../../can/receivers/names';
 import { findWanted, type ReceiverProfile, type WantedChannel } from '../../can/receivers/profile';
 import type { DB } from '../db/connection';
@@ -164,4 +173,37 @@ export async function manualLink(
 			}
 		]);
 	return { link: resolved.link, reason: resolved.reason };
+}
+
+/** Why each link of a draft was made, and the best candidates of each wanted channel without one. */
+export interface LinkDetails {
+	/** By wanted channel name: the name and unit reasoning of its link. */
+	reasons: Record<string, string>;
+	/** By wanted channel name: up to three candidates, best first, with score and reason. */
+	candidates: Record<string, Candidate[]>;
+}
+
+/**
+ * What the link table shows beside a stored draft (the reasons are not stored with the links):
+ * computed again from the map revision, with the workspace's synonyms. Null when not linked.
+ */
+export async function linkDetails(
+	db: DB,
+	workspaceId: string,
+	draft: ProfileDraft
+): Promise<{ details: LinkDetails; map: CanMap } | null> {
+	if (!draft.target) return null;
+	const { map } = await loadTarget(db, workspaceId, draft.target);
+	const matcher = await workspaceMatcher(db, workspaceId);
+	const details: LinkDetails = { reasons: {}, candidates: {} };
+	for (const wanted of draft.profile.wanted) {
+		const link = draft.links.find((l) => l.wanted.toLowerCase() === wanted.name.toLowerCase());
+		const found = link && findMapSignal(map, link);
+		if (link && found)
+			details.reasons[wanted.name] = link.manual
+				? `linked by hand; ${describeConversion(link.conversion)}`
+				: scoreCandidate(wanted, map, found.frameIndex, found.signalIndex, matcher).reason;
+		else details.candidates[wanted.name] = rankCandidates(wanted, map, { matcher }).slice(0, 3);
+	}
+	return { details, map };
 }
