@@ -12,8 +12,11 @@ export const load = (async (event) => {
 	return orPageError(async () => {
 		const view = await profileView(db, workspace.id, event.params.profileId, role);
 		const linked = await linkDetails(db, workspace.id, view.profile.draft);
+		const relinked = Number(event.url.searchParams.get('relinked'));
 		return {
 			...view,
+			/** Just moved to this map revision by the relink page. */
+			relinked: Number.isInteger(relinked) && relinked > 0 ? relinked : null,
 			details: linked?.details ?? { reasons: {}, candidates: {} },
 			targetMap: linked?.map ?? null
 		};

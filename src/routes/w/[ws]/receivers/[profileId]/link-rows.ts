@@ -32,7 +32,8 @@ export interface LinkRow {
 	/** "by hand", or the score as a percentage. */
 	confidence: string | null;
 	reason: string;
-	candidates: Candidate[];
+	/** Best candidates of an unlinked channel; null when not ranked yet (link automatically ranks them). */
+	candidates: Candidate[] | null;
 }
 
 const same = (a: string, b: string) => a.toLowerCase() === b.toLowerCase();
@@ -55,7 +56,7 @@ export function linkRows(draft: ProfileDraft, map: CanMap | null, details: LinkD
 					: `${Math.round(link.confidence * 100)} %`
 				: null,
 			reason: details.reasons[wanted.name] ?? (link ? '' : 'not linked'),
-			candidates: link ? [] : (details.candidates[wanted.name] ?? [])
+			candidates: link ? [] : (details.candidates[wanted.name] ?? null)
 		};
 	});
 }
