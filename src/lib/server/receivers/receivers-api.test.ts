@@ -22,6 +22,7 @@ import * as manualRoute from '../../../routes/api/workspaces/[ws]/receivers/[pro
 import * as relinkRoute from '../../../routes/api/workspaces/[ws]/receivers/[profileId]/relink/+server';
 import * as checkRoute from '../../../routes/api/workspaces/[ws]/receivers/[profileId]/check/+server';
 import * as alertsRoute from '../../../routes/api/workspaces/[ws]/receivers/[profileId]/alerts/+server';
+import * as relinkPage from '../../../routes/w/[ws]/receivers/[profileId]/relink/+page.server';
 import * as exportRoute from '../../../routes/w/[ws]/receivers/[profileId]/export/+server';
 import { importCaptureInProcess } from '../captures/processing';
 import type { SessionUser } from '../guard';
@@ -152,6 +153,26 @@ async function linkedWorld(): Promise<{ w: World; draft: ProfileDraft }> {
 	const saved = await save(w, draft, 1);
 	expect(saved.status).toBe(200);
 	return { w, draft };
+}
+
+/**
+ * r2 of the map: OilPressure renamed on the same bits (its map alert rule follows), CoolantTemp
+ * rescaled to 0.5 °C/bit.
+ */
+async function publishRenamingR2(w: World): Promise<void> {
+	const r2: CanMap = structuredClone(club);
+	for (const f of r2.frames)
+		for (const s of f.signals) {
+			if (s.name === 'OilPressure') s.name = 'EngineOilPressure';
+			if (s.name === 'CoolantTemp') s.scale = 0.5;
+		}
+	for (const rule of r2.alertRules)
+		if (rule.channel.signal === 'OilPressure') rule.channel.signal = 'EngineOilPressure';
+	const { saveDraft } = await import('../maps/drafts');
+	const { publishRevision } = await import('../maps/revisions');
+	const map = { workspaceId: w.workspaceId, mapId: w.mapId, actorId: w.users.editor.id };
+	await saveDraft(w.services.db, { ...map, version: 1, draft: r2 });
+	await publishRevision(w.services.db, { ...map, version: 2, note: 'r2' });
 }
 
 const auditActions = async (w: World) =>
@@ -425,20 +446,7 @@ describe('publishing, diff and relinking', () => {
 
 	it('shows what a new map revision breaks and changes, and moves to it in one step', async () => {
 		const { w } = await linkedWorld();
-		// r2 of the map: OilPressure renamed on the same bits, CoolantTemp rescaled to 0.5 °C/bit.
-		const r2: CanMap = structuredClone(club);
-		for (const f of r2.frames)
-			for (const s of f.signals) {
-				if (s.name === 'OilPressure') s.name = 'EngineOilPressure';
-				if (s.name === 'CoolantTemp') s.scale = 0.5;
-			}
-		for (const rule of r2.alertRules)
-			if (rule.channel.signal === 'OilPressure') rule.channel.signal = 'EngineOilPressure';
-		const { saveDraft } = await import('../maps/drafts');
-		const { publishRevision } = await import('../maps/revisions');
-		const map = { workspaceId: w.workspaceId, mapId: w.mapId, actorId: w.users.editor.id };
-		await saveDraft(w.services.db, { ...map, version: 1, draft: r2 });
-		await publishRevision(w.services.db, { ...map, version: 2, note: 'r2' });
+		await publishRenamingR2(w);
 
 		expect((await view(w)).linkedMap).toMatchObject({ revision: 1, latestRevision: 2 });
 		const reviewed = await call(w, relinkRoute.GET, `${R}/relink`, 'viewer');
@@ -474,6 +482,94 @@ describe('publishing, diff and relinking', () => {
 		expect(after.target).toEqual({ mapId: w.mapId, revision: 2 });
 		expect(after.links.find((l) => l.wanted === 'Oil pressure')?.signal).toBe('EngineOilPressure');
 		expect(await auditActions(w)).toContain('receiver.relink');
+	});
+});
+
+describe('bad relinks are refused whole, saving nothing', () => {
+	/** The linked dash display with r2 of its map published: the draft is at version 2 on r1. */
+	async function relinkWorld() {
+		const { w } = await linkedWorld();
+		await publishRenamingR2(w);
+		return { w, before: await storedRow(w) };
+	}
+
+	it('names each channel that has no suggestion to take', async () => {
+		const { w, before } = await relinkWorld();
+		const response = await call(w, relinkRoute.POST, `${R}/relink`, 'editor', {
+			method: 'POST',
+			// Oil pressure is broken with a suggestion; ECT only changed; Fuel gauge is not in the profile.
+			body: { version: 2, revision: 2, accept: ['Oil pressure', 'ECT', 'Fuel gauge'] }
+		});
+		expect(response.status).toBe(400);
+		const body = (await response.json()) as {
+			error: string;
+			issues: { path: string; message: string }[];
+		};
+		expect(body.error).toBe('Some suggestions cannot be taken.');
+		expect(body.issues.map((i) => i.path)).toEqual(['accept.1', 'accept.2']);
+		expect(body.issues[0].message).toContain('"ECT" has no suggested signal to take on r2');
+		expect(await storedRow(w)).toEqual(before);
+		expect(await auditActions(w)).not.toContain('receiver.relink');
+	});
+
+	it('refuses the revision it is on already and one the map does not have', async () => {
+		const { w, before } = await relinkWorld();
+		const same = await call(w, relinkRoute.POST, `${R}/relink`, 'editor', {
+			method: 'POST',
+			body: { version: 2, revision: 1, accept: [] }
+		});
+		expect(same.status).toBe(400);
+		expect(((await same.json()) as { error: string }).error).toBe(
+			'The profile is linked to r1 already; choose a newer revision.'
+		);
+		const missing = await call(w, relinkRoute.POST, `${R}/relink`, 'editor', {
+			method: 'POST',
+			body: { version: 2, revision: 7, accept: [] }
+		});
+		expect(missing.status).toBe(404);
+		expect(((await missing.json()) as { error: string }).error).toBe(
+			'This map has no revision r7.'
+		);
+		expect(await storedRow(w)).toEqual(before);
+	});
+
+	it('reads the relink form through the same schema, answers a stale draft with 409, then moves', async () => {
+		const { w, before } = await relinkWorld();
+		const submit = (fields: Record<string, string | string[]>) => {
+			const form = new FormData();
+			for (const [name, value] of Object.entries(fields))
+				for (const v of [value].flat()) form.append(name, v);
+			return relinkPage.actions.move(
+				makeEvent({
+					services: w.services,
+					user: w.users.editor,
+					routeId: '/w/[ws]/receivers/[profileId]/relink',
+					params: { ws: w.slug, profileId: w.profileId },
+					method: 'POST',
+					body: form
+				})
+			);
+		};
+		const garbled = await submit({ version: 'two', revision: '2' });
+		expect(garbled).toMatchObject({ status: 400, data: { issues: [{ path: 'version' }] } });
+		const stale = await submit({ version: '1', revision: '2', accept: 'Oil pressure' });
+		expect(stale).toMatchObject({ status: 409 });
+		expect((stale as { data: { message: string } }).data.message).toMatch(
+			/^This receiver profile was changed by .* since you loaded it\./
+		);
+		expect(await storedRow(w)).toEqual(before);
+
+		const moved = await outcome(() =>
+			submit({ version: '2', revision: '2', accept: 'Oil pressure' })
+		);
+		expect(moved).toEqual({
+			kind: 'redirect',
+			status: 303,
+			location: `/w/${w.slug}/receivers/${w.profileId}?relinked=2`
+		});
+		const after = (await view(w)).profile.draft;
+		expect(after.target).toEqual({ mapId: w.mapId, revision: 2 });
+		expect(after.links.find((l) => l.wanted === 'Oil pressure')?.signal).toBe('EngineOilPressure');
 	});
 });
 

@@ -1,8 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { relinkQuerySchema } from '$lib/api/receivers';
+import { relinkInputSchema, relinkQuerySchema } from '$lib/api/receivers';
 import { orPageError, readQuery } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { Problem } from '$lib/server/problem';
+import { parseOrProblem, Problem } from '$lib/server/problem';
 import { requireProfile } from '$lib/server/receivers/profiles';
 import { applyRelink, relinkReview } from '$lib/server/receivers/relink';
 import type { Actions, PageServerLoad } from './$types';
@@ -28,18 +28,20 @@ export const actions = {
 	move: async (event) => {
 		const { user, workspace } = await requireRole(event, 'editor');
 		const form = await event.request.formData();
-		const version = Number(form.get('version'));
-		const revision = Number(form.get('revision'));
-		const accept = form.getAll('accept').map(String);
+		let revision: number;
 		try {
-			await applyRelink(event.locals.services.db, {
+			// The form's fields read through the JSON route's schema: one validation for both.
+			const body = parseOrProblem(relinkInputSchema, {
+				version: Number(form.get('version')),
+				revision: Number(form.get('revision')),
+				accept: form.getAll('accept').map(String)
+			});
+			({ revision } = await applyRelink(event.locals.services.db, {
 				workspaceId: workspace.id,
 				profileId: event.params.profileId,
-				version,
-				revision,
-				accept,
+				...body,
 				actorId: user.id
-			});
+			}));
 		} catch (thrown) {
 			if (!(thrown instanceof Problem)) throw thrown;
 			return fail(thrown.status, { message: thrown.message, issues: thrown.issues ?? [] });
