@@ -11,8 +11,15 @@ import { parseMap } from '../src/lib/can/map-json';
 import type { CanMap } from '../src/lib/can/map';
 import type { BlobStorage } from '../src/lib/server/storage/storage';
 import { importCaptureInProcess } from '../src/lib/server/captures/processing';
+import { linkProfile } from '../src/lib/can/receivers/linking';
+import { saveProfileDraft } from '../src/lib/server/receivers/drafts';
+import { publishProfile } from '../src/lib/server/receivers/revisions';
+import { requireRevision } from '../src/lib/server/maps/revisions';
+import { createProfile, requireProfile } from '../src/lib/server/receivers/profiles';
 import clubRacerMapJson from '../fixtures/club-racer-ecu.map.json';
 import gensetMapJson from '../fixtures/genset-j1939.map.json';
+import dashDisplayJson from '../fixtures/dash-display.profile.json';
+import gensetPanelJson from '../fixtures/genset-panel.profile.json';
 
 // An invented scenario for demos: a small club motorsport team. Addresses use the reserved `.test`
 // top-level domain (RFC 2606), so no real mailbox can ever receive them.
@@ -48,6 +55,7 @@ export async function seedDemo(
 	const { created, workspaceId, calibratorId } = await seedPeople(db);
 	// The map repositories open their own transactions, so maps are added after the people.
 	created.push(...(await seedDemoMaps(db, workspaceId, calibratorId)));
+	created.push(...(await seedDemoReceivers(db, workspaceId, calibratorId)));
 	if (options.storage) created.push(...(await seedDemoCaptures(db, options.storage, workspaceId)));
 	return { created };
 }
@@ -108,6 +116,67 @@ async function seedDemoMaps(
 	});
 	const found = await findMapForWorkspace(db, workspaceId, club.id);
 	return [`map ${found?.name ?? club.name} (r1 + draft)`, `map ${gen.name} (r1)`];
+}
+
+/**
+ * The two demo receivers, only while the workspace has none: the club racer's dash display and the
+ * generator set's panel, each linked to r1 of its map — automatically, except the dash's knock
+ * count, which its profile links by hand — and published as r1. Between them they show a unit
+ * conversion (kPa → bar, °C → °F) and the λ → AFR rule (common practice).
+ */
+async function seedDemoReceivers(
+	db: Kysely<Database>,
+	workspaceId: string,
+	actorId: string
+): Promise<string[]> {
+	const existing = await db
+		.selectFrom('receiver_profiles')
+		.select('id')
+		.where('workspace_id', '=', workspaceId)
+		.executeTakeFirst();
+	if (existing) return [];
+	const created: string[] = [];
+	const pairs = [
+		{ profile: dashDisplayJson, map: clubRacerMapJson.name },
+		{ profile: gensetPanelJson, map: gensetMapJson.name }
+	];
+	for (const pair of pairs) {
+		const map = await db
+			.selectFrom('maps')
+			.select('id')
+			.where('workspace_id', '=', workspaceId)
+			.where('name', '=', pair.map)
+			.executeTakeFirst();
+		if (!map) continue;
+		const { profile: ref } = await createProfile(db, {
+			workspaceId,
+			actorId,
+			request: { profileJson: JSON.stringify(pair.profile) }
+		});
+		const { draft } = await requireProfile(db, workspaceId, ref.id);
+		const revision = await requireRevision(db, map.id, 1);
+		const report = linkProfile(draft.profile, revision.map);
+		await saveProfileDraft(db, {
+			workspaceId,
+			profileId: ref.id,
+			version: 1,
+			actorId,
+			draft: {
+				profile: draft.profile,
+				target: { mapId: map.id, revision: 1 },
+				links: report.links.map((l) => l.link)
+			}
+		});
+		await publishProfile(db, {
+			workspaceId,
+			profileId: ref.id,
+			version: 2,
+			actorId,
+			note: `Fitted to ${pair.map} r1: ${report.links.length} channels linked, ${report.unlinked.length} left for other senders.`
+		});
+		created.push(`receiver profile ${ref.name} (r1, ${report.links.length} links)`);
+	}
+	return created;
 }
 
 /** The two demo captures, uploaded by the tuner and processed, only while the workspace has none. */

@@ -7,6 +7,7 @@ import * as mailbox from './2026-12-01-005-mailbox';
 import * as maps from './2026-12-01-006-maps';
 import * as captures from './2026-12-01-007-captures';
 import * as revisionDraftVersion from './2026-12-02-010-revision-draft-version';
+import * as receivers from './2026-12-02-030-receivers';
 import * as accessTokens from './2026-12-02-040-access-tokens';
 
 // An explicit, ordered list instead of reading the folder: it works the same under Vite, the
@@ -20,6 +21,7 @@ export const migrations: Record<string, Migration> = {
 	'2026-12-01-006-maps': maps,
 	'2026-12-01-007-captures': captures,
 	'2026-12-02-010-revision-draft-version': revisionDraftVersion,
+	'2026-12-02-030-receivers': receivers,
 	'2026-12-02-040-access-tokens': accessTokens
 };
 

@@ -63,7 +63,7 @@ test('keyboard only: Tab reaches the skip link, switcher, navigation and user me
 	await page.locator('body').focus();
 	await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
 	const seen: string[] = [];
-	for (let i = 0; i < 9; i++) {
+	for (let i = 0; i < 10; i++) {
 		await page.keyboard.press('Tab');
 		seen.push(await focusedName(page));
 	}
@@ -73,6 +73,7 @@ test('keyboard only: Tab reaches the skip link, switcher, navigation and user me
 		'Framewright home',
 		'Workspace:',
 		'Maps',
+		'Receivers',
 		'Captures',
 		'Tools',
 		'Members',

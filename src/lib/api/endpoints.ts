@@ -32,6 +32,7 @@ import {
 } from './captures';
 import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
 import { openApiDocumentSchema } from './meta';
+import { problemBodySchema } from './problem';
 import {
 	codegenQuerySchema,
 	createdMapResponseSchema,
@@ -56,6 +57,30 @@ import {
 	staleDraftProblemSchema,
 	versionResponseSchema
 } from './maps';
+import {
+	checkInputSchema,
+	checkResponseSchema,
+	createdProfileResponseSchema,
+	createProfileInputSchema,
+	deviceAlertReplaySchema,
+	deviceAlertsInputSchema,
+	linkSuggestionsInputSchema,
+	linkSuggestionsResponseSchema,
+	manualLinkInputSchema,
+	manualLinkResponseSchema,
+	profileDiffResponseSchema,
+	profileDraftInputSchema,
+	profileDraftSavedResponseSchema,
+	profileListResponseSchema,
+	profilePublishedResponseSchema,
+	profileRevisionListResponseSchema,
+	profileViewSchema,
+	receiverExportQuerySchema,
+	relinkedResponseSchema,
+	relinkInputSchema,
+	relinkQuerySchema,
+	relinkReviewSchema
+} from './receivers';
 import { busLoadQuerySchema, busLoadResponseSchema } from './tools';
 import {
 	createdWorkspaceResponseSchema,
@@ -73,6 +98,7 @@ const INVALID = 'Some of the values were not accepted.';
 const WS = '/api/workspaces/{ws}';
 const MAP = `${WS}/maps/{mapId}`;
 const CAPTURE = `${WS}/captures/{id}`;
+const PROFILE = `${WS}/receivers/{profileId}`;
 
 const noMap =
 	'That map, revision or workspace no longer exists (or you are not a member of the workspace).';
@@ -85,6 +111,14 @@ const noCapture =
 const notReady = 'The capture is not processed yet, or could not be processed.';
 const mapGone =
 	'The map this decode used was deleted, or its draft has changed since; decode again.';
+const noProfile =
+	'That receiver profile, its revision, map or capture no longer exists (or you are not a member of the workspace).';
+const staleProfile = [
+	'This receiver profile was changed by someone else since you loaded it. Reload to see their changes; your edit was not saved.',
+	staleDraftProblemSchema
+] as [string, typeof staleDraftProblemSchema];
+const notLinked =
+	'The profile is not linked to a map revision (or its map was deleted), or the capture is not processed yet.';
 const lastOwner = 'That would leave the workspace without an owner. Make someone else owner first.';
 const csv = 'text/csv; charset=utf-8';
 
@@ -596,6 +630,205 @@ export const endpoints = {
 		status: 200,
 		response: openApiDocumentSchema
 	}),
+	// ---- receiver profiles ----
+	'receivers.list': endpoint({
+		method: 'GET',
+		path: `${WS}/receivers`,
+		summary: 'The workspace’s receiver profiles with the map revision each is linked to.',
+		access: 'viewer',
+		status: 200,
+		response: profileListResponseSchema
+	}),
+	'receivers.create': endpoint(
+		{
+			method: 'POST',
+			path: `${WS}/receivers`,
+			summary:
+				'Creates a receiver profile: blank (a name and kind) or from a framewright-profile@1 file (a bad file is refused whole).',
+			access: 'editor',
+			body: createProfileInputSchema,
+			status: 201,
+			response: createdProfileResponseSchema
+		},
+		{ 400: 'The file has problems; nothing was imported.' }
+	),
+	'receivers.get': endpoint(
+		{
+			method: 'GET',
+			path: PROFILE,
+			summary:
+				'The profile with its draft (profile, link target, links), revisions, the maps to link to and the caller’s role.',
+			access: 'viewer',
+			status: 200,
+			response: profileViewSchema
+		},
+		{ 404: noProfile }
+	),
+	'receivers.delete': endpoint(
+		{
+			method: 'DELETE',
+			path: PROFILE,
+			summary: 'Deletes the profile with its revisions.',
+			access: 'owner',
+			status: 204
+		},
+		{ 404: noProfile }
+	),
+	'receivers.saveDraft': endpoint(
+		{
+			method: 'PUT',
+			path: `${PROFILE}/draft`,
+			summary:
+				'Replaces the draft if nobody changed it since `version`; every link must name a signal of its map revision with the conversion its units need.',
+			access: 'editor',
+			body: profileDraftInputSchema,
+			status: 200,
+			response: profileDraftSavedResponseSchema
+		},
+		{ 400: INVALID, 404: noProfile, 409: staleProfile }
+	),
+	'receivers.revisions': endpoint(
+		{
+			method: 'GET',
+			path: `${PROFILE}/revisions`,
+			summary: 'Published revisions of the profile, newest first.',
+			access: 'viewer',
+			status: 200,
+			response: profileRevisionListResponseSchema
+		},
+		{ 404: noProfile }
+	),
+	'receivers.publish': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/revisions`,
+			summary: 'Publishes the reviewed draft version as the next revision of the profile.',
+			access: 'editor',
+			body: publishInputSchema,
+			status: 201,
+			response: profilePublishedResponseSchema
+		},
+		{
+			400: INVALID,
+			404: noProfile,
+			409: staleProfile,
+			422: 'A required wanted channel has no link, so the profile cannot be published yet.'
+		}
+	),
+	'receivers.diff': endpoint(
+		{
+			method: 'GET',
+			path: `${PROFILE}/diff`,
+			summary:
+				'Field-by-field differences between two revisions of the profile (or one and the draft).',
+			access: 'viewer',
+			query: diffQuerySchema,
+			status: 200,
+			response: profileDiffResponseSchema
+		},
+		{ 400: INVALID, 404: noProfile }
+	),
+	'receivers.suggestLinks': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/links/suggestions`,
+			summary:
+				'Candidates (score and reason) and automatic links of a working copy against a map revision; links made by hand are kept. Nothing is stored.',
+			access: 'editor',
+			body: linkSuggestionsInputSchema,
+			status: 200,
+			response: linkSuggestionsResponseSchema
+		},
+		{ 400: INVALID, 404: noProfile }
+	),
+	'receivers.manualLink': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/links/manual`,
+			summary:
+				'A wanted channel linked by hand to a frame · signal, with its conversion, or why it cannot be. Nothing is stored.',
+			access: 'editor',
+			body: manualLinkInputSchema,
+			status: 200,
+			response: manualLinkResponseSchema
+		},
+		{
+			400: 'That link cannot be made (no such signal, or units that do not convert).',
+			404: noProfile
+		}
+	),
+	'receivers.relinkReview': endpoint(
+		{
+			method: 'GET',
+			path: `${PROFILE}/relink`,
+			summary:
+				'What moving the draft’s links to a newer map revision (the latest by default) keeps, changes and breaks.',
+			access: 'viewer',
+			query: relinkQuerySchema,
+			status: 200,
+			response: relinkReviewSchema
+		},
+		{ 400: INVALID, 404: noProfile, 409: notLinked }
+	),
+	'receivers.relink': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/relink`,
+			summary:
+				'Moves the reviewed draft version to the newer map revision in one step, taking the suggestions named in `accept`.',
+			access: 'editor',
+			body: relinkInputSchema,
+			status: 200,
+			response: relinkedResponseSchema
+		},
+		{
+			400: INVALID,
+			404: noProfile,
+			409: [
+				'This receiver profile was changed by someone else since you loaded it, or it is not linked to a map.',
+				problemBodySchema
+			]
+		}
+	),
+	'receivers.check': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/check`,
+			summary:
+				'The installer’s checklist of the profile (draft or revision) on a processed capture, decoded with the linked map revision. Nothing is stored.',
+			access: 'viewer',
+			body: checkInputSchema,
+			status: 200,
+			response: checkResponseSchema
+		},
+		{ 400: INVALID, 404: noProfile, 409: notLinked }
+	),
+	'receivers.alerts': endpoint(
+		{
+			method: 'POST',
+			path: `${PROFILE}/alerts`,
+			summary:
+				'The profile’s device alert rules replayed over a processed capture in the device’s units. Nothing is stored.',
+			access: 'viewer',
+			body: deviceAlertsInputSchema,
+			status: 200,
+			response: deviceAlertReplaySchema
+		},
+		{ 400: INVALID, 404: noProfile, 409: notLinked }
+	),
+	'receivers.export': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/receivers/{profileId}/export',
+			summary:
+				'The profile (draft or revision) as its receive set (framewright-receive@1) or as the profile file (framewright-profile@1).',
+			access: 'viewer',
+			query: receiverExportQuerySchema,
+			status: 200,
+			download: 'application/json'
+		},
+		{ 400: INVALID, 404: noProfile, 409: notLinked }
+	),
 
 	// ---- tools ----
 	'tools.busLoad': endpoint(

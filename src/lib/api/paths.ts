@@ -50,6 +50,25 @@ export function capturePaths(slug: string) {
 	};
 }
 
+/** Pages and downloads of one receiver profile under /w/[ws]/receivers. */
+export function receiverPaths(slug: string, profileId: string) {
+	const list = `/w/${enc(slug)}/receivers`;
+	const base = `${list}/${enc(profileId)}`;
+	return {
+		list,
+		profile: base,
+		diff: (from: RevisionRef, to: RevisionRef) => `${base}/diff?from=${from}&to=${to}`,
+		relink: (to?: number) => `${base}/relink${to ? `?to=${to}` : ''}`,
+		check: (rev: RevisionRef = 'draft') => `${base}/check${rev === 'draft' ? '' : `?rev=${rev}`}`,
+		sheet: (rev: RevisionRef) => `${base}/sheet?rev=${rev}`,
+		exportFile: (rev: RevisionRef, format: 'receive-set' | 'profile') =>
+			endpointUrl('receivers.export', {
+				params: { ws: slug, profileId },
+				query: { rev, format }
+			})
+	};
+}
+
 /** The public page of a share link. */
 export const sharePath = (token: string) => `/s/${enc(token)}`;
 

@@ -5,7 +5,6 @@
  * Alert rules are matched by their id, so a renamed rule shows as changed, not removed and added.
  */
 import { z } from 'zod';
-import type { AlertRule } from './alerts/rule';
 import type { CanMap, Frame, Signal } from './map';
 import { formatCanId } from './map-json';
 
@@ -113,7 +112,11 @@ function sameValue(a: unknown, b: unknown): boolean {
 	);
 }
 
-function fieldChanges<T, K extends keyof T>(a: T, b: T, fields: readonly K[]): FieldChange[] {
+export function fieldChanges<T, K extends keyof T>(
+	a: T,
+	b: T,
+	fields: readonly K[]
+): FieldChange[] {
 	return fields
 		.filter((f) => !sameValue(a[f], b[f]))
 		.map((f) => ({ field: String(f), from: a[f], to: b[f] }));
@@ -161,22 +164,65 @@ function diffSignals(a: readonly Signal[], b: readonly Signal[]): SignalDiff[] {
 	return out;
 }
 
-function diffAlertRules(a: readonly AlertRule[], b: readonly AlertRule[]): AlertRuleDiff[] {
-	const before = keyed(a, (r) => r.id);
-	const after = keyed(b, (r) => r.id);
-	const out: AlertRuleDiff[] = [];
+/** An item of a list matched by identity: added, removed, or changed in some fields. */
+export interface ItemDiff {
+	key: string;
+	/** The item's name (the new one when it changed). */
+	name: string;
+	status: 'added' | 'removed' | 'changed';
+	changes: FieldChange[];
+}
+
+/**
+ * Differences between two lists whose items are matched by `identity` (repeats numbered), in the
+ * order of `b` with removed items where they stood; unchanged items are left out.
+ */
+export function diffItems<T>(
+	a: readonly T[],
+	b: readonly T[],
+	identity: (item: T) => string,
+	fields: readonly string[],
+	nameOf: (item: T) => string
+): (ItemDiff & { item: T })[] {
+	const before = keyed(a, identity);
+	const after = keyed(b, identity);
+	const out: (ItemDiff & { item: T })[] = [];
 	for (const key of mergedKeys(before, after)) {
 		const from = before.get(key);
 		const to = after.get(key);
-		if (!from && to) out.push({ id: to.id, name: to.name, status: 'added', changes: [] });
-		else if (from && !to)
-			out.push({ id: from.id, name: from.name, status: 'removed', changes: [] });
+		const entry = (item: T, status: ItemDiff['status'], changes: FieldChange[] = []) =>
+			out.push({ key, name: nameOf(item), status, changes, item });
+		if (!from && to) entry(to, 'added');
+		else if (from && !to) entry(from, 'removed');
 		else if (from && to) {
-			const changes = fieldChanges<Record<string, unknown>, string>(from, to, ALERT_RULE_FIELDS);
-			if (changes.length > 0) out.push({ id: to.id, name: to.name, status: 'changed', changes });
+			const changes = fieldChanges(
+				from as Record<string, unknown>,
+				to as Record<string, unknown>,
+				fields
+			);
+			if (changes.length > 0) entry(to, 'changed', changes);
 		}
 	}
 	return out;
+}
+
+/** Alert rules matched by id, so a renamed rule shows as changed; map rules and device rules alike. */
+export function diffAlertRules(
+	a: readonly { id: string; name: string }[],
+	b: readonly { id: string; name: string }[]
+): AlertRuleDiff[] {
+	return diffItems(
+		a,
+		b,
+		(r) => r.id,
+		ALERT_RULE_FIELDS,
+		(r) => r.name
+	).map((d) => ({
+		id: d.item.id,
+		name: d.name,
+		status: d.status,
+		changes: d.changes
+	}));
 }
 
 export function diffMaps(a: CanMap, b: CanMap): MapDiff {

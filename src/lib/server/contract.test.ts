@@ -280,6 +280,125 @@ describe('every endpoint answers as the contract says', () => {
 		await call(services, null, 'meta.openapi', {});
 	});
 
+	it('receiver profiles: drafts, links, revisions, relinking, checks and downloads', async () => {
+		const services = await createTestServices();
+		worlds.push(services);
+		const { workspace, users } = await createTeam(services.db, 'Contract team');
+		const ws = workspace.slug;
+		const { owner, editor, viewer } = users;
+
+		const createdMap = await call(services, editor, 'maps.create', {
+			params: { ws },
+			body: { mapJson: fixtureText('club-racer-ecu.map.json') }
+		});
+		const mapId = (createdMap.body as { map: { id: string } }).map.id;
+		await call(services, editor, 'maps.publish', {
+			params: { ws, mapId },
+			body: { note: 'r1', version: 1 }
+		});
+
+		const created = await call(services, editor, 'receivers.create', {
+			params: { ws },
+			body: { profileJson: fixtureText('dash-display.profile.json') }
+		});
+		const profileId = (created.body as { profile: { id: string } }).profile.id;
+		expect(
+			(
+				await call(services, editor, 'receivers.create', {
+					params: { ws },
+					body: { profileJson: '{"format": "framewright-profile@1"}' }
+				})
+			).status
+		).toBe(400);
+		await call(services, viewer, 'receivers.list', { params: { ws } });
+		const got = await call(services, viewer, 'receivers.get', { params: { ws, profileId } });
+		const { profile } = (got.body as { profile: { draft: { profile: never } } }).profile.draft;
+		const target = { mapId, revision: 1 };
+
+		const suggested = await call(services, editor, 'receivers.suggestLinks', {
+			params: { ws, profileId },
+			body: { profile, target }
+		});
+		const { report } = suggested.body as { report: { links: { link: never }[] } };
+		await call(services, editor, 'receivers.manualLink', {
+			params: { ws, profileId },
+			body: {
+				wanted: { name: 'Fuel level', quantity: 'percent', unit: '%' },
+				target,
+				frame: 'EngineCore',
+				signal: 'NoSuchSignal'
+			}
+		});
+		const draft = { profile, target, links: report.links.map((l) => l.link) };
+		await call(services, editor, 'receivers.saveDraft', {
+			params: { ws, profileId },
+			body: { version: 1, draft }
+		});
+		const stale = await call(services, editor, 'receivers.saveDraft', {
+			params: { ws, profileId },
+			body: { version: 1, draft }
+		});
+		expect(stale.body).toMatchObject({ currentVersion: 2 });
+		await call(services, editor, 'receivers.publish', {
+			params: { ws, profileId },
+			body: { note: 'First fit', version: 2 }
+		});
+		await call(services, viewer, 'receivers.revisions', { params: { ws, profileId } });
+		await call(services, viewer, 'receivers.diff', {
+			params: { ws, profileId },
+			query: { from: 1, to: 'draft' }
+		});
+
+		await call(services, editor, 'maps.publish', {
+			params: { ws, mapId },
+			body: { note: 'r2, unchanged', version: 1 }
+		});
+		await call(services, viewer, 'receivers.relinkReview', {
+			params: { ws, profileId },
+			query: { to: 2 }
+		});
+		await call(services, editor, 'receivers.relink', {
+			params: { ws, profileId },
+			body: { version: 2, revision: 2, accept: [] }
+		});
+
+		const uploaded = await call(services, viewer, 'captures.upload', {
+			params: { ws },
+			query: { name: 'club-racer-session.csv' },
+			body: fixtureText('club-racer-session.csv')
+		} as never);
+		const upload = uploaded.body as { capture: { id: string }; detected: { layout: unknown } };
+		const id = upload.capture.id;
+		expect(
+			(
+				await call(services, viewer, 'receivers.check', {
+					params: { ws, profileId },
+					body: { capture: id }
+				})
+			).status
+		).toBe(409);
+		await call(services, viewer, 'captures.process', {
+			params: { ws, id },
+			body: { layout: upload.detected.layout as never }
+		});
+		await processingDone(id);
+		await call(services, viewer, 'receivers.check', {
+			params: { ws, profileId },
+			body: { capture: id, rev: 1 }
+		});
+		await call(services, viewer, 'receivers.alerts', {
+			params: { ws, profileId },
+			body: { capture: id }
+		});
+		const file = await call(services, viewer, 'receivers.export', {
+			params: { ws, profileId },
+			query: { rev: 1, format: 'receive-set' }
+		});
+		expect(file.response.headers.get('x-framewright-revision')).toBe('r1');
+
+		await call(services, owner, 'receivers.delete', { params: { ws, profileId } });
+	});
+
 	it('captures: upload, processing, decodes, views, alerts and downloads', async () => {
 		const services = await createTestServices();
 		worlds.push(services);

@@ -3,15 +3,10 @@
  * by name and unit, then automatic links where one candidate clearly wins. Links fixed by hand
  * are kept as they are. docs/receivers.md explains the score.
  */
-import { z } from 'zod';
-import { canIdSchema, type CanMap, type Frame, type Signal } from '../map';
+import type { CanMap, Frame, Signal } from '../map';
 import { formatJsonPath } from '../map-json';
-import {
-	conversionSchema,
-	describeConversion,
-	makeConversion,
-	type Conversion
-} from './conversion';
+import { describeConversion, makeConversion, type Conversion } from './conversion';
+import { channelText, type Link } from './link-schema';
 import {
 	createNameMatcher,
 	impliedQuantity,
@@ -23,23 +18,7 @@ import {
 } from './names';
 import type { ManualLink, ReceiverProfile, WantedChannel } from './profile';
 
-/** A stored link: a wanted channel tied to a frame · signal of one map revision. */
-export const linkSchema = z.strictObject({
-	wanted: z.string().trim().min(1, 'name the wanted channel'),
-	frame: z.string().trim().min(1, 'name the frame').describe("the frame's name in the revision"),
-	id: canIdSchema,
-	extended: z.boolean(),
-	signal: z.string().trim().min(1, 'name the signal'),
-	conversion: conversionSchema,
-	confidence: z
-		.number()
-		.min(0, 'confidence is 0…1')
-		.max(1, 'confidence is 0…1')
-		.describe('the score the link was chosen with; 1 for a link made by hand'),
-	manual: z.boolean().default(false).describe('made or confirmed by a person')
-});
-export type Link = z.output<typeof linkSchema>;
-export type LinkInput = z.input<typeof linkSchema>;
+export * from './link-schema';
 
 /** Lowest score an automatic link needs. */
 export const LINK_THRESHOLD = 0.6;
@@ -127,7 +106,6 @@ interface MapSignal {
 const round3 = (x: number) => Math.round(x * 1000) / 1000;
 const signalKey = (c: { frameIndex: number; signalIndex: number }) =>
 	`${c.frameIndex}:${c.signalIndex}`;
-export const channelText = (frame: string, signal: string) => `${frame} · ${signal}`;
 
 function mapSignals(map: CanMap, matcher: NameMatcher): MapSignal[] {
 	return map.frames.flatMap((frame, frameIndex) =>

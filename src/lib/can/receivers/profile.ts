@@ -7,7 +7,7 @@ import { z } from 'zod';
 import { alertRuleSchema } from '../alerts/rule';
 import { parseJsonDocument, type ParseDocumentResult } from '../map-json';
 import { fuelSchema, quantitySchema } from './quantities';
-import { unitQuantityProblem } from './units';
+import { unitQuantityProblem } from './unit-table';
 
 export const PROFILE_FORMAT = 'framewright-profile@1';
 
@@ -16,6 +16,14 @@ export const receiverKindSchema = z.enum(RECEIVER_KINDS, {
 	error: `kind must be one of ${RECEIVER_KINDS.join(', ')}`
 });
 export type ReceiverKind = z.infer<typeof receiverKindSchema>;
+
+/** How a kind of receiver is shown to people. */
+export const RECEIVER_KIND_LABELS: Record<ReceiverKind, string> = {
+	display: 'display',
+	logger: 'logger',
+	'power-module': 'power module',
+	other: 'other device'
+};
 
 const finite = (what: string) => z.number({ error: `${what} must be a finite number` });
 
@@ -196,4 +204,9 @@ export function profileJsonSchema(): Record<string, unknown> {
 		description:
 			'A receiver profile (format framewright-profile@1): a device listening on the bus, the channels it wants with quantity, unit and display range, links fixed by hand and the device alert rules.'
 	};
+}
+
+/** The profile as a `framewright-profile@1` file: pretty JSON, every field written out. */
+export function serializeProfile(profile: ReceiverProfile): string {
+	return `${JSON.stringify(profile, null, 2)}\n`;
 }

@@ -229,3 +229,26 @@ async function decodedEntry(
 	});
 	return { decode, entry };
 }
+
+/**
+ * A processed capture decoded with a published map revision, for a read that stores nothing (a
+ * receiver profile checked on the capture, its device alerts replayed): the same per-process cache
+ * as recorded decodes, but no decode record and no audit entry, since nothing changes.
+ */
+export async function decodeWithRevision(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	mapId: string,
+	revision: number
+): Promise<{ capture: CaptureRow; map: CanMap; result: CaptureDecoding }> {
+	const capture = await requireReadyCapture(services, workspaceId, captureId);
+	await requireMap(services.db, workspaceId, mapId);
+	const map = (await requireRevision(services.db, mapId, revision)).map;
+	const entry = await cached(
+		services,
+		decodeCacheKey(capture.id, mapId, revision, null),
+		computeEntry(services, capture, map)
+	);
+	return { capture, map: entry.map, result: entry.result };
+}

@@ -33,6 +33,9 @@ describe('migrations', () => {
 				'map_revisions',
 				'maps',
 				'memberships',
+				'receiver_profile_revisions',
+				'receiver_profiles',
+				'receiver_synonyms',
 				'share_links',
 				'signin_requests',
 				'workspaces'

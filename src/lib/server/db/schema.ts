@@ -198,6 +198,52 @@ export interface AccessTokenTable {
 	revoked_at: string | null;
 }
 
+export interface ReceiverProfileTable {
+	id: string;
+	workspace_id: string;
+	/** Mirrors the draft's name, for lists. */
+	name: string;
+	kind: string;
+	/** The draft as `framewright-profile@1` JSON text. */
+	draft_json: string;
+	/** The draft's links (JSON array of links, each with its conversion). */
+	links_json: ColumnType<string, string | undefined, string>;
+	/** The map revision the links point at; null before linking (map_id null also once the map is deleted). */
+	map_id: string | null;
+	map_revision: number | null;
+	/** Bumped by every change to the draft; a save must name the version it started from. */
+	draft_version: number;
+	created_by: string | null;
+	created_at: string;
+	updated_by: string | null;
+	updated_at: string;
+}
+
+export interface ReceiverProfileRevisionTable {
+	id: string;
+	profile_id: string;
+	/** 1, 2, … per profile (shown as r1, r2, …). */
+	number: number;
+	note: string;
+	/** The published profile as `framewright-profile@1` JSON text; never changed after insert. */
+	profile_json: string;
+	links_json: string;
+	map_id: string | null;
+	/** The linked map's name when published, kept if the map is deleted. */
+	map_name: string | null;
+	map_revision: number | null;
+	published_by: string | null;
+	published_at: string;
+}
+
+export interface ReceiverSynonymsTable {
+	workspace_id: string;
+	/** The workspace's additions to the built-in synonyms (JSON, the synonyms.json shape). */
+	synonyms_json: string;
+	updated_by: string | null;
+	updated_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -215,6 +261,9 @@ export interface Database {
 	captures: CaptureTable;
 	capture_decodes: CaptureDecodeTable;
 	access_tokens: AccessTokenTable;
+	receiver_profiles: ReceiverProfileTable;
+	receiver_profile_revisions: ReceiverProfileRevisionTable;
+	receiver_synonyms: ReceiverSynonymsTable;
 }
 
 export type User = Selectable<UserTable>;

@@ -1,23 +1,44 @@
 /**
  * Changes to a map's draft. Every change names the draft version it was made on (optimistic
  * concurrency): a draft changed by someone else in the meantime is refused with a 409, never
- * overwritten. Each change is audited in the same transaction.
+ * overwritten. Each change is audited in the same transaction. The protocol is shared with
+ * receiver profiles (`../versioning/drafts.ts`); this module says how a map's draft is stored.
  */
 import type { DraftSavedResponse, RenamedMapResponse, VersionResponse } from '../../api/maps';
 import { lintMap } from '../../can/lint';
 import type { CanMap } from '../../can/map';
 import { serializeMap } from '../../can/map-json';
 import type { DB } from '../db/connection';
-import { personLabel } from '../people';
-import { Problem } from '../problem';
-import { appendAudit } from '../workspaces/audit';
+import {
+	replaceDraft as replaceVersionedDraft,
+	staleDraft,
+	type DraftStore
+} from '../versioning/drafts';
 import { requireMap, type MapRecord } from './maps';
 
-/**
- * Replaces the draft only if nobody changed it since `version` was read (optimistic concurrency):
- * the UPDATE names the version, so two racing saves cannot both succeed.
- */
-export async function replaceDraft(
+/** How maps keep their draft: the JSON text and the version in the `maps` row. */
+export const mapDrafts: DraftStore<MapRecord, CanMap> = {
+	noun: 'map',
+	require: requireMap,
+	async write(db, change) {
+		const result = await db
+			.updateTable('maps')
+			.set({
+				name: change.draft.name,
+				draft_json: serializeMap(change.draft),
+				draft_version: change.next,
+				updated_by: change.actorId,
+				updated_at: change.at
+			})
+			.where('id', '=', change.id)
+			.where('draft_version', '=', change.expected)
+			.executeTakeFirst();
+		return Number(result.numUpdatedRows) === 1;
+	}
+};
+
+/** Replaces the draft only if nobody changed it since `version` was read (versioning/drafts.ts). */
+export function replaceDraft(
 	db: DB,
 	input: {
 		workspaceId: string;
@@ -29,40 +50,8 @@ export async function replaceDraft(
 		details?: Record<string, unknown>;
 	}
 ): Promise<{ version: number }> {
-	return db.transaction().execute(async (trx) => {
-		const current = await requireMap(trx, input.workspaceId, input.mapId);
-		const next = input.version + 1;
-		const result = await trx
-			.updateTable('maps')
-			.set({
-				name: input.draft.name,
-				draft_json: serializeMap(input.draft),
-				draft_version: next,
-				updated_by: input.actorId,
-				updated_at: new Date().toISOString()
-			})
-			.where('id', '=', input.mapId)
-			.where('draft_version', '=', input.version)
-			.executeTakeFirst();
-		if (Number(result.numUpdatedRows) !== 1) throw staleDraft(current);
-		await appendAudit(trx, {
-			workspaceId: input.workspaceId,
-			actorId: input.actorId,
-			action: input.action,
-			target: input.mapId,
-			details: { version: next, ...input.details }
-		});
-		return { version: next };
-	});
-}
-
-export function staleDraft(current: MapRecord): Problem {
-	return new Problem(
-		409,
-		`This map was changed by ${personLabel(current.updatedBy)} at ${current.updatedAt} since you loaded it. Reload to see their changes; your edit was not saved.`,
-		undefined,
-		{ currentVersion: current.version, updatedAt: current.updatedAt, updatedBy: current.updatedBy }
-	);
+	const { mapId, ...rest } = input;
+	return replaceVersionedDraft(db, mapDrafts, { ...rest, id: mapId });
 }
 
 /** Saves the draft and answers with its lint problems: a draft may hold errors (work in progress); only publishing refuses them. */
@@ -91,7 +80,7 @@ async function changeSetting<K extends 'name' | 'bitrate'>(
 	// Setting the value it already has changes nothing (no new version, no audit entry) — as long
 	// as the caller's copy is current: a stale one must still learn that it is.
 	if (current.draft[setting.field] === setting.value) {
-		if (current.version !== input.version) throw staleDraft(current);
+		if (current.version !== input.version) throw staleDraft(mapDrafts.noun, current);
 		return { current, version: current.version };
 	}
 	const { version } = await replaceDraft(db, {

@@ -1,6 +1,7 @@
 /**
  * Published revisions of a map: immutable copies of the draft, numbered r1, r2, … Publishing and
- * restoring name the draft version they were made on, like every draft change (`drafts.ts`).
+ * restoring name the draft version they were made on, like every draft change (`drafts.ts`). The
+ * publishing protocol is shared with receiver profiles (`../versioning/revisions.ts`).
  */
 import type { RevisionRef, RevisionSummary } from '../../api/maps';
 import { lintMap, type LintProblem } from '../../can/lint';
@@ -9,9 +10,9 @@ import { serializeMap } from '../../can/map-json';
 import type { DB } from '../db/connection';
 import { personRef } from '../people';
 import { Problem } from '../problem';
-import { appendAudit } from '../workspaces/audit';
-import { replaceDraft, staleDraft } from './drafts';
-import { readStoredMap, requireMap } from './maps';
+import { publishDraft, type RevisionStore } from '../versioning/revisions';
+import { replaceDraft } from './drafts';
+import { readStoredMap, requireMap, type MapRecord } from './maps';
 
 export interface RevisionRecord extends RevisionSummary {
 	id: string;
@@ -84,6 +85,44 @@ export async function requireRevision(
 	return revision;
 }
 
+/** How maps keep their revisions: rows of `map_revisions` holding the map JSON. */
+const mapRevisions: RevisionStore<MapRecord, CanMap> = {
+	noun: 'map',
+	require: requireMap,
+	async lastNumber(db, mapId) {
+		const last = await db
+			.selectFrom('map_revisions')
+			.select((eb) => eb.fn.max('number').as('n'))
+			.where('map_id', '=', mapId)
+			.executeTakeFirst();
+		return Number(last?.n ?? 0);
+	},
+	async publishedAs(db, mapId, version) {
+		const row = await db
+			.selectFrom('map_revisions')
+			.select('number')
+			.where('map_id', '=', mapId)
+			.where('draft_version', '=', version)
+			.executeTakeFirst();
+		return row?.number ?? null;
+	},
+	async insert(db, r) {
+		await db
+			.insertInto('map_revisions')
+			.values({
+				id: r.id,
+				map_id: r.parentId,
+				number: r.number,
+				note: r.note,
+				map_json: serializeMap(r.snapshot),
+				published_by: r.actorId,
+				published_at: r.publishedAt,
+				draft_version: r.version
+			})
+			.execute();
+	}
+};
+
 /**
  * Publishes the draft as the next revision. The caller names the draft version it reviewed, so a
  * draft changed by someone else in the meantime is never published unseen; lint errors refuse it,
@@ -100,75 +139,25 @@ export async function publishRevision(
 		now?: Date;
 	}
 ): Promise<RevisionRecord> {
-	const publishedAt = (input.now ?? new Date()).toISOString();
-	return db.transaction().execute(async (trx) => {
-		const map = await requireMap(trx, input.workspaceId, input.mapId);
-		if (map.version !== input.version) throw staleDraft(map);
-		const already = await trx
-			.selectFrom('map_revisions')
-			.select('number')
-			.where('map_id', '=', map.id)
-			.where('draft_version', '=', map.version)
-			.executeTakeFirst();
-		// A second publish of the same draft version (a double click, a retried request) would make
-		// an identical revision and mail everyone again.
-		if (already) {
-			throw new Problem(
-				409,
-				`This draft version is already published as r${already.number}; change the draft to publish a new revision.`,
-				undefined,
-				{ currentVersion: map.version, revision: already.number }
-			);
+	const { mapId, ...rest } = input;
+	const published = await publishDraft(db, mapRevisions, {
+		...rest,
+		id: mapId,
+		action: 'map.publish',
+		snapshot: (map) => map.draft,
+		refuse: (_map, draft) => {
+			const errors = lintMap(draft).filter((p) => p.severity === 'error');
+			return errors.length === 0
+				? null
+				: new Problem(
+						422,
+						`The draft has ${errors.length} lint error${errors.length === 1 ? '' : 's'}; fix ${errors.length === 1 ? 'it' : 'them'} before publishing.`,
+						errors
+					);
 		}
-		const errors = lintMap(map.draft).filter((p) => p.severity === 'error');
-		if (errors.length > 0) {
-			throw new Problem(
-				422,
-				`The draft has ${errors.length} lint error${errors.length === 1 ? '' : 's'}; fix ${errors.length === 1 ? 'it' : 'them'} before publishing.`,
-				errors
-			);
-		}
-		const last = await trx
-			.selectFrom('map_revisions')
-			.select((eb) => eb.fn.max('number').as('n'))
-			.where('map_id', '=', map.id)
-			.executeTakeFirst();
-		const number = Number(last?.n ?? 0) + 1;
-		const id = crypto.randomUUID();
-		await trx
-			.insertInto('map_revisions')
-			.values({
-				id,
-				map_id: map.id,
-				number,
-				note: input.note,
-				map_json: serializeMap(map.draft),
-				published_by: input.actorId,
-				published_at: publishedAt,
-				draft_version: map.version
-			})
-			.execute();
-		await appendAudit(trx, {
-			workspaceId: input.workspaceId,
-			actorId: input.actorId,
-			action: 'map.publish',
-			target: map.id,
-			details: { revision: number, version: map.version, note: input.note }
-		});
-		const publisher = await trx
-			.selectFrom('User')
-			.select(['email', 'name'])
-			.where('id', '=', input.actorId)
-			.executeTakeFirst();
-		return {
-			id,
-			number,
-			note: input.note,
-			publishedAt,
-			publishedBy: publisher ?? null,
-			map: map.draft
-		};
 	});
+	const { record: _record, snapshot, ...revision } = published;
+	return { ...revision, map: snapshot };
 }
 
 /** Copies a revision into the draft (a normal draft change: versioned and audited). */
