@@ -10,7 +10,8 @@ import { csvField } from '../csv-records';
 import { lengthToDlc } from '../dlc';
 import type { Channel } from './channels';
 import { upperBound } from './decimate';
-import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+import type { FrameColumns } from './frame-columns';
+import { FLAG_EXTENDED } from './frame-store';
 import { CANONICAL_HEADER } from './layout';
 import { slugPart } from '../../slug';
 
@@ -176,7 +177,7 @@ const HEX_BYTE = Array.from({ length: 256 }, (_, b) =>
  * first frame, the ID in hex (3 digits standard, 8 extended), the ISO 11898-1 DLC code (CAN FD
  * lengths 12–64 bytes as codes 9–15) and the payload as spaced hex bytes.
  */
-export function* canonicalCaptureCsv(store: FrameStore): Generator<string> {
+export function* canonicalCaptureCsv(store: FrameColumns): Generator<string> {
 	const { time, id, flags, length, dataOffset, data } = store;
 	function* rows(): Generator<string> {
 		yield CANONICAL_HEADER + '\n';
