@@ -8,7 +8,14 @@ import { parseMap } from '../map-json';
 import { seededRandom } from '../testing/seeded-random';
 import { ChunkIndex, ChunkStoreWriter, Segment } from './chunk-store';
 import { channelSamples, chunkSource, decodeChunked, decodedSegments } from './chunked-decode';
+import {
+	framesCsvChunked,
+	longFormCsvChunked,
+	wideFormCsvChunked,
+	wideRows
+} from './chunked-export';
 import { decodeCapture } from './decode-capture';
+import { canonicalCaptureCsv, longFormCsv, wideFormCsv } from './export';
 import { FrameStore } from './frame-store';
 import { ingestCapture, ingestCaptureInto } from './ingest';
 
@@ -221,4 +228,39 @@ describe('chunked decode of the demo fixtures (decodeCapture on the whole FrameS
 			channels.forEach((c, k) => joined[k].push(...c.value.subarray(0, c.count)));
 		reference.channels.forEach((c, k) => expect(joined[k]).toEqual(Array.from(c.value)));
 	});
+});
+
+describe('chunked exports (export.ts over the whole capture is the reference)', () => {
+	const text = async (chunks: AsyncIterable<string>) => {
+		let out = '';
+		for await (const c of chunks) out += c;
+		return out;
+	};
+	it.each([
+		['club-racer-ecu.map.json', 'club-racer-session.csv', 777],
+		['genset-j1939.map.json', 'genset-idle.csv', 250]
+	])(
+		'%s over %s: frames, long and wide (last and mean) byte for byte',
+		async (mapName, captureName, segmentFrames) => {
+			const { compiled, whole, source } = await fixtureDecode(mapName, captureName, segmentFrames);
+			const reference = decodeCapture(whole.store, compiled);
+			const join = (g: Iterable<string>) => [...g].join('');
+			expect(await text(framesCsvChunked(source))).toBe(join(canonicalCaptureCsv(whole.store)));
+			expect(await text(longFormCsvChunked(source, compiled))).toBe(
+				join(longFormCsv(reference.channels))
+			);
+			const { channels } = await decodeChunked(source, compiled);
+			for (const mode of ['last', 'mean'] as const)
+				for (const interval of [0.05, 0.0137, 1]) {
+					expect(
+						await text(
+							wideFormCsvChunked(source, compiled, { interval, mode, channelTimes: channels })
+						)
+					).toBe(join(wideFormCsv(reference.channels, { interval, mode })));
+				}
+			expect(() => wideRows({ interval: 1e-9, mode: 'last', channelTimes: channels })).toThrow(
+				/more than 10000000/
+			);
+		}
+	);
 });

@@ -336,6 +336,8 @@ export function pyramidFromBytes(bytes: Uint8Array): Pyramid {
 	for (let n = Math.ceil(count / FANOUT); n > 0; n = n === 1 ? 0 : Math.ceil(n / FANOUT))
 		sizes.push(n);
 	let at = 16 + 8 * sizes.length;
+	if (bytes.byteLength !== at + 40 * sizes.reduce((a, b) => a + b, 0))
+		throw new Error('stored channel pyramid is damaged: wrong length');
 	for (const [l, n] of sizes.entries()) {
 		if (view.getUint32(16 + 8 * l, true) !== n)
 			throw new Error('stored channel pyramid is damaged: level sizes do not match');
