@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { failInterruptedProcessing } from './captures/processing';
+import { sweepStorage } from './captures/sweep';
 import { loadConfig } from './config';
 import { getDatabase, type DB } from './db';
 import { createSendMail, type SendMail } from './mail/send';
@@ -24,7 +25,8 @@ async function createServices(): Promise<Services> {
 	const db = await getDatabase();
 	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
 	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
-	await failInterruptedProcessing(db);
+	await failInterruptedProcessing(db, storage);
+	sweepStorage(storage);
 	let sendMail: SendMail;
 	if (config.smtp) {
 		sendMail = createSendMail(config.smtp, config.mailFrom);

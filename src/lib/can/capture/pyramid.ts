@@ -2,8 +2,9 @@
  * A min/max pyramid of one decoded channel, so a plot of any zoom window reads a bounded number of
  * points instead of every sample. Level 1 groups FANOUT consecutive samples into a node that keeps
  * the time of its first sample and its smallest and largest sample (value and time); each level
- * above groups FANOUT nodes of the level below. A window is answered from the finest level with at
- * most NODE_BUDGET_PER_BUCKET nodes per bucket in it: each node's min and max points (real samples)
+ * above groups FANOUT nodes of the level below. A window is answered from the coarsest level with
+ * at least NODES_PER_BUCKET nodes per bucket in it (the finest when none has), so a window reads
+ * between 2 and 2 · FANOUT nodes per bucket whatever the channel's length: each node's min and max points (real samples)
  * go to the bucket their time falls in, and each bucket keeps its smallest and largest. A one-sample
  * spike therefore always survives, as in decimate.ts; the difference is that bucket edges are
  * resolved to whole nodes (a node straddling an edge gives its extremes to the bucket they lie in).
@@ -11,9 +12,9 @@
  */
 import { bucketOf, type Decimation } from './decimate';
 
-export const FANOUT = 16;
-/** Nodes read per bucket at most: enough for the extremes to land in the right pixel column. */
-const NODE_BUDGET_PER_BUCKET = 4;
+export const FANOUT = 32;
+/** A level is coarse enough once it has this many nodes per bucket in the window. */
+const NODES_PER_BUCKET = 2;
 
 const PYRAMID_MAGIC = 0x50435746; // "FWCP"
 const FORMAT_VERSION = 1;
@@ -34,19 +35,30 @@ export interface Pyramid {
 	levels: PyramidLevel[];
 }
 
+/** A column grown in fixed blocks (no doubling, so memory stays close to what is held). */
 class Growable {
-	array = new Float64Array(64);
+	static BLOCK = 1 << 14;
+	blocks: Float64Array[] = [];
 	length = 0;
 	push(v: number) {
-		if (this.length === this.array.length) {
-			const next = new Float64Array(this.array.length * 2);
-			next.set(this.array);
-			this.array = next;
-		}
-		this.array[this.length++] = v;
+		const at = this.length % Growable.BLOCK;
+		if (at === 0) this.blocks.push(new Float64Array(Growable.BLOCK));
+		this.blocks[this.blocks.length - 1][at] = v;
+		this.length++;
+	}
+	get byteLength(): number {
+		return this.blocks.length * Growable.BLOCK * 8;
 	}
 	done(): Float64Array {
-		return this.array.slice(0, this.length);
+		const out = new Float64Array(this.length);
+		this.blocks.forEach((b, k) =>
+			out.set(
+				b.subarray(0, Math.min(Growable.BLOCK, this.length - k * Growable.BLOCK)),
+				k * Growable.BLOCK
+			)
+		);
+		this.blocks = [];
+		return out;
 	}
 }
 
@@ -99,7 +111,7 @@ export class PyramidBuilder {
 
 	/** Bytes held (for memory accounting). */
 	get byteLength(): number {
-		return this.#first.array.byteLength * 5;
+		return this.#first.byteLength * 5;
 	}
 
 	finish(): Pyramid {
@@ -211,12 +223,13 @@ export function queryPyramid(
 		trailingEdge: false
 	};
 	if (pyramid.levels.length === 0) return empty;
-	// The finest level whose nodes in the window fit the budget.
+	// The coarsest level with enough nodes in the window (the finest when none has).
 	let l = 0;
 	let [k0, k1] = nodesInWindow(pyramid, 0, from, to);
-	while (k1 - k0 + 1 > NODE_BUDGET_PER_BUCKET * buckets && l + 1 < pyramid.levels.length) {
-		l++;
-		[k0, k1] = nodesInWindow(pyramid, l, from, to);
+	for (let up = 1; up < pyramid.levels.length; up++) {
+		const [a, b] = nodesInWindow(pyramid, up, from, to);
+		if (b - a + 1 < NODES_PER_BUCKET * buckets) break;
+		[l, k0, k1] = [up, a, b];
 	}
 	const level = pyramid.levels[l];
 	let inRange = 0;

@@ -1,0 +1,68 @@
+/**
+ * The pools of capture worker threads (piscina), so CPU work over captures never runs on the
+ * server's event loop: parsing, first decodes, exports and alert replays in the `heavy` pool, series
+ * windows in a small `interactive` pool of their own so a plot never waits behind a long decode.
+ * Workers run at a lower scheduling priority (nice) than the server thread, which then keeps
+ * answering pages while every core decodes. Sizes: CAPTURE_WORKERS (default: the machine's cores).
+ */
+import { availableParallelism } from 'node:os';
+import type { TransferListItem } from 'node:worker_threads';
+import { Piscina } from 'piscina';
+import { captureWorkerPath } from './worker-bundle';
+import type { CaptureTask } from './work/tasks';
+
+interface Pools {
+	heavy: Piscina;
+	interactive: Piscina;
+}
+
+let pools: Promise<Pools> | null = null;
+
+function workerCount(): number {
+	const configured = Number(process.env.CAPTURE_WORKERS);
+	return Number.isInteger(configured) && configured > 0
+		? configured
+		: Math.max(1, availableParallelism());
+}
+
+function createPools(): Promise<Pools> {
+	return captureWorkerPath().then((filename) => {
+		const common = {
+			filename,
+			minThreads: 0,
+			// Idle workers end (and give their memory back) after a minute.
+			idleTimeout: 60_000,
+			// A task waiting on storage or on a slow download leaves its thread to others.
+			concurrentTasksPerWorker: 4
+		};
+		return {
+			heavy: new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 }),
+			interactive: new Piscina({ ...common, maxThreads: 1, niceIncrement: 5 })
+		};
+	});
+}
+
+/** Runs a task on a worker; `interactive` for short answers a person waits for (series windows). */
+export async function runCaptureTask<T>(
+	task: CaptureTask,
+	options: { interactive?: boolean; signal?: AbortSignal; transferList?: TransferListItem[] } = {}
+): Promise<T> {
+	pools ??= createPools().catch((error: unknown) => {
+		pools = null;
+		throw error;
+	});
+	const { heavy, interactive } = await pools;
+	return (options.interactive ? interactive : heavy).run(task, {
+		signal: options.signal,
+		transferList: options.transferList
+	}) as Promise<T>;
+}
+
+/** Ends the worker threads (at shutdown; tasks still running are stopped). */
+export async function closeCaptureWorkers(): Promise<void> {
+	const current = pools;
+	pools = null;
+	if (!current) return;
+	const { heavy, interactive } = await current.catch(() => ({ heavy: null, interactive: null }));
+	await Promise.all([heavy?.destroy(), interactive?.destroy()]);
+}
