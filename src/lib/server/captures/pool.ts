@@ -17,12 +17,15 @@ interface Pools {
 }
 
 let pools: Promise<Pools> | null = null;
+let configuredWorkers: number | null = null;
+
+/** Sets the heavy pool's size (CAPTURE_WORKERS, read by config.ts); null = one per core. */
+export function configureCaptureWorkers(workers: number | null): void {
+	configuredWorkers = workers;
+}
 
 function workerCount(): number {
-	const configured = Number(process.env.CAPTURE_WORKERS);
-	return Number.isInteger(configured) && configured > 0
-		? configured
-		: Math.max(1, availableParallelism());
+	return configuredWorkers ?? Math.max(1, availableParallelism());
 }
 
 function createPools(): Promise<Pools> {
