@@ -239,9 +239,20 @@ export class Segment {
 	}
 }
 
+let slots = new Int32Array(0);
+/** A key → slot table of at least `keyCount` entries, all -1 (kept between segments). */
+function slotTable(keyCount: number): Int32Array {
+	if (slots.length < keyCount) {
+		const next = new Int32Array(Math.max(keyCount, 2 * slots.length)).fill(-1);
+		slots = next;
+	}
+	return slots;
+}
+
 /** Encodes `n` frames held in capture order (columns of length ≥ n) as one segment. */
 function encodeSegment(
 	n: number,
+	keyCount: number,
 	cols: {
 		time: Float64Array;
 		key: Uint32Array;
@@ -255,19 +266,20 @@ function encodeSegment(
 		tag: Uint16Array;
 	}
 ): { bytes: Uint8Array; chunks: SegmentChunkEntry[] } {
-	// Chunk slots in order of first appearance in the segment.
-	const slotOfKey = new Map<number, number>();
+	// Chunk slots in order of first appearance in the segment (an array lookup per frame, no Map).
+	const slotOfKey = slotTable(keyCount);
 	const slot = new Uint32Array(n);
 	const keys: number[] = [];
 	for (let i = 0; i < n; i++) {
-		let s = slotOfKey.get(cols.key[i]);
-		if (s === undefined) {
-			s = keys.length;
-			slotOfKey.set(cols.key[i], s);
-			keys.push(cols.key[i]);
+		const key = cols.key[i];
+		let s = slotOfKey[key];
+		if (s < 0) {
+			s = slotOfKey[key] = keys.length;
+			keys.push(key);
 		}
 		slot[i] = s;
 	}
+	for (const key of keys) slotOfKey[key] = -1; // ready for the next segment
 	const chunkCount = keys.length;
 	// Each slot's frames, in capture order: a counting sort.
 	const start = new Uint32Array(chunkCount + 1);
@@ -353,8 +365,9 @@ function encodeSegment(
 		const c = chunkColumns[s];
 		const m = c.m;
 		const base = e.offset;
-		for (let j = 0; j < m; j++)
-			view.setFloat64(base + 8 * j, cols.time[members[start[s] + j]], true);
+		// Chunks start on 8-byte boundaries, so the time column is written through a typed view.
+		const times = new Float64Array(bytes.buffer, base, m);
+		for (let j = 0; j < m; j++) times[j] = cols.time[members[start[s] + j]];
 		let p = base + 8 * m;
 		for (let j = 0; j < m; j++) bytes[p++] = cols.length[members[start[s] + j]];
 		for (let j = 0; j < m; j++) {
@@ -614,6 +627,8 @@ export class ChunkStoreWriter implements FrameSink {
 	#bus: Uint8Array;
 	#tag: Uint16Array;
 	#keyOf = new Map<number, number>();
+	/** Standard IDs' keys by ID (the common case, without a Map lookup per frame). */
+	#standardKey = new Int32Array(0x800).fill(-1);
 	#keyIds: number[] = [];
 	#keyExtended: number[] = [];
 	#segments: { frames: number; minTime: number; maxTime: number }[] = [];
@@ -654,11 +669,13 @@ export class ChunkStoreWriter implements FrameSink {
 		length: number,
 		extras?: FrameExtras
 	): void {
-		const code = keyCode(id, extended);
-		let key = this.#keyOf.get(code);
-		if (key === undefined) {
+		let key = !extended && (id & 0x7ff) === id ? this.#standardKey[id] : -1;
+		if (key < 0) key = this.#keyOf.get(keyCode(id, extended)) ?? -1;
+		if (key < 0) {
+			const code = keyCode(id, extended);
 			key = this.#keyIds.length;
 			this.#keyOf.set(code, key);
+			if (!extended && (id & 0x7ff) === id) this.#standardKey[id] = key;
 			this.#keyIds.push(id);
 			this.#keyExtended.push(extended ? 1 : 0);
 			this.#chunksOfKey.push([]);
@@ -696,7 +713,7 @@ export class ChunkStoreWriter implements FrameSink {
 		const n = this.#n;
 		if (n === 0) return;
 		const segment = this.#segments.length;
-		const { bytes, chunks } = encodeSegment(n, {
+		const { bytes, chunks } = encodeSegment(n, this.#keyIds.length, {
 			time: this.#time,
 			key: this.#key,
 			flags: this.#flags,

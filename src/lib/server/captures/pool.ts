@@ -38,10 +38,17 @@ function createPools(): Promise<Pools> {
 			// A task waiting on storage or on a slow download leaves its thread to others.
 			concurrentTasksPerWorker: 4
 		};
-		return {
-			heavy: new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 }),
-			interactive: new Piscina({ ...common, maxThreads: 1, niceIncrement: 5 })
-		};
+		const heavy = new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 });
+		const interactive = new Piscina({ ...common, maxThreads: 1, niceIncrement: 5 });
+		// A worker that fails outside a task (e.g. cannot load) must not end the server: the task
+		// that needed it fails with the error, and this says why.
+		for (const pool of [heavy, interactive])
+			pool.on('error', (error: unknown) =>
+				console.error(
+					`A capture worker failed: ${error instanceof Error ? error.message : String(error)}`
+				)
+			);
+		return { heavy, interactive };
 	});
 }
 
