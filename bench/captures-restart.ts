@@ -4,7 +4,7 @@
  * series windows. Prints one JSON line.
  */
 import type { RequestEvent } from '@sveltejs/kit';
-import { closeCaptureWorkers } from '../src/lib/server/captures/pool';
+import { closeCaptureWorkers, startCaptureWorkers } from '../src/lib/server/captures/pool';
 import { loadConfig } from '../src/lib/server/config';
 import { createDatabase } from '../src/lib/server/db';
 import type { Services } from '../src/lib/server/services';
@@ -46,6 +46,9 @@ const series = (query: string) =>
 		seriesRoute(event(`${API}/series`, `?decode=${params.decodeId}&channel=0&points=2000${query}`))
 	);
 
+// As the server does at start (startup.ts); then a moment, as a server is up before the first plot.
+startCaptureWorkers();
+await new Promise((r) => setTimeout(r, 2000));
 const summaryMs = await timed(() => decodesRoute(event(`${API}/decodes/[decodeId]`)));
 const firstMs = await series('');
 const narrowMs = await series(`&from=${duration * 0.2}&to=${duration * 0.21}`);

@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { configureCaptureWorkers } from './captures/pool';
+import { configureCaptureWorkers, startCaptureWorkers } from './captures/pool';
 import { failInterruptedProcessing } from './captures/processing';
 import { sweepStorage } from './captures/sweep';
 import { loadConfig } from './config';
@@ -27,6 +27,7 @@ async function createServices(): Promise<Services> {
 	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
 	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
 	configureCaptureWorkers(config.captureWorkers);
+	startCaptureWorkers();
 	await failInterruptedProcessing(db, storage);
 	sweepStorage(storage);
 	let sendMail: SendMail;

@@ -39,7 +39,14 @@ function createPools(): Promise<Pools> {
 			concurrentTasksPerWorker: 4
 		};
 		const heavy = new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 });
-		const interactive = new Piscina({ ...common, maxThreads: 1, niceIncrement: 5 });
+		// One interactive thread kept ready, so a plot after a restart does not wait for a thread to start.
+		const interactive = new Piscina({
+			...common,
+			minThreads: 1,
+			maxThreads: 1,
+			idleTimeout: Infinity,
+			niceIncrement: 5
+		});
 		// A worker that fails outside a task (e.g. cannot load) must not end the server: the task
 		// that needed it fails with the error, and this says why.
 		for (const pool of [heavy, interactive])
@@ -52,16 +59,29 @@ function createPools(): Promise<Pools> {
 	});
 }
 
+function getPools(): Promise<Pools> {
+	pools ??= createPools().catch((error: unknown) => {
+		pools = null;
+		throw error;
+	});
+	return pools;
+}
+
+/** Starts the pools now (at server start) rather than at the first capture task. */
+export function startCaptureWorkers(): void {
+	getPools().catch((error: unknown) =>
+		console.error(
+			`The capture workers could not start: ${error instanceof Error ? error.message : String(error)}`
+		)
+	);
+}
+
 /** Runs a task on a worker; `interactive` for short answers a person waits for (series windows). */
 export async function runCaptureTask<T>(
 	task: CaptureTask,
 	options: { interactive?: boolean; signal?: AbortSignal; transferList?: TransferListItem[] } = {}
 ): Promise<T> {
-	pools ??= createPools().catch((error: unknown) => {
-		pools = null;
-		throw error;
-	});
-	const { heavy, interactive } = await pools;
+	const { heavy, interactive } = await getPools();
 	return (options.interactive ? interactive : heavy).run(task, {
 		signal: options.signal,
 		transferList: options.transferList
