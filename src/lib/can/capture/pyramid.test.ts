@@ -122,7 +122,9 @@ describe('min/max pyramid', () => {
 			});
 			if (inner.length) {
 				const returned = Array.from(d.value).filter((_, k) => d.time[k] >= from && d.time[k] <= to);
-				expect(Math.min(...returned)).toBeLessThanOrEqual(inner.reduce((m, i) => Math.min(m, value[i]), Infinity));
+				expect(Math.min(...returned)).toBeLessThanOrEqual(
+					inner.reduce((m, i) => Math.min(m, value[i]), Infinity)
+				);
 				expect(Math.max(...returned)).toBeGreaterThanOrEqual(
 					inner.reduce((m, i) => Math.max(m, value[i]), -Infinity)
 				);
