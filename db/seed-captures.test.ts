@@ -1,7 +1,7 @@
 // The demo seed's captures: both fixtures uploaded by the tuner and processed, once.
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { loadFrameStore } from '../src/lib/server/captures/store';
+import { loadWholeCapture } from '../src/lib/server/captures/capture-store';
 import { createTestServices } from '../src/lib/server/test-support';
 import { seedDemo } from './seed';
 
@@ -41,11 +41,7 @@ describe('demo seed captures', () => {
 			],
 			['genset-idle.csv', 'ready', dataRows('genset-idle.csv'), 'tuner@framewright.test']
 		]);
-		const store = await loadFrameStore(services, {
-			id: rows[0].id,
-			status: 'ready',
-			store_key: rows[0].store_key
-		});
+		const store = await loadWholeCapture(services.storage, rows[0].store_key!);
 		expect(store.count).toBe(dataRows('club-racer-session.csv'));
 		const second = await seedDemo(services.db, { storage: services.storage });
 		expect(second.created).toEqual([]);

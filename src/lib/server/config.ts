@@ -34,7 +34,12 @@ const envSchema = z.object({
 	INVITATIONS_PER_CLIENT_PER_HOUR: positiveInt(60),
 	SIGNIN_LINK_MAX_AGE_MINUTES: positiveInt(60),
 	INVITATION_MAX_AGE_DAYS: positiveInt(7),
-	CAPTURE_MAX_BYTES: positiveInt(1024 ** 3)
+	CAPTURE_MAX_BYTES: positiveInt(4 * 1024 ** 3),
+	CAPTURE_WORKERS: z
+		.string()
+		.optional()
+		.transform((v) => (v === undefined || v === '' ? null : Number(v)))
+		.pipe(z.number().int().min(1).max(64).nullable())
 });
 
 export interface AppConfig {
@@ -58,8 +63,10 @@ export interface AppConfig {
 	invitationsPerClientPerHour: number;
 	signinLinkMaxAgeSeconds: number;
 	invitationMaxAgeMs: number;
-	/** Largest capture upload in bytes (default 1 GiB). */
+	/** Largest capture upload in bytes (default 4 GiB: an hour of a saturated 1 Mbit/s bus is about 1.3 GB of CSV). */
 	captureMaxBytes: number;
+	/** Capture worker threads; null = one per core. */
+	captureWorkers: number | null;
 }
 
 export function loadConfig(env: Record<string, string | undefined> = process.env): AppConfig {
@@ -90,7 +97,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
 		invitationsPerClientPerHour: e.INVITATIONS_PER_CLIENT_PER_HOUR,
 		signinLinkMaxAgeSeconds: e.SIGNIN_LINK_MAX_AGE_MINUTES * 60,
 		invitationMaxAgeMs: e.INVITATION_MAX_AGE_DAYS * 24 * 60 * 60 * 1000,
-		captureMaxBytes: e.CAPTURE_MAX_BYTES
+		captureMaxBytes: e.CAPTURE_MAX_BYTES,
+		captureWorkers: e.CAPTURE_WORKERS
 	};
 }
 

@@ -1,5 +1,7 @@
 import { randomBytes } from 'node:crypto';
+import { closeCaptureWorkers, configureCaptureWorkers, startCaptureWorkers } from './captures/pool';
 import { allProcessingDone, failInterruptedProcessing } from './captures/processing';
+import { sweepStorage } from './captures/sweep';
 import { loadConfig, startupProblem } from './config';
 import { getDatabase, type DB } from './db';
 import { createMailLimits } from './mail/limits';
@@ -28,15 +30,19 @@ async function createServices(): Promise<Services> {
 	const db = await getDatabase();
 	// Closed last (closers run newest first): after processing and mail are done with it.
 	onShutdown('database', () => db.destroy());
+	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
+	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
+	configureCaptureWorkers(config.captureWorkers);
+	startCaptureWorkers();
 	onShutdown('capture processing', async () => {
 		// Let running processing finish for a few seconds; what is still running is marked
 		// interrupted (as a restart would), so nobody waits on it and it can be processed again.
 		await Promise.race([allProcessingDone(), new Promise((r) => setTimeout(r, 3000))]);
-		await failInterruptedProcessing(db);
+		await failInterruptedProcessing(db, storage);
+		await closeCaptureWorkers();
 	});
-	// Room for a processed frame store next to an upload at the limit (it is smaller in practice).
-	const storage = storageFromEnv(process.env, 4 * config.captureMaxBytes);
-	await failInterruptedProcessing(db);
+	await failInterruptedProcessing(db, storage);
+	sweepStorage(storage);
 	let sendMail: SendMail;
 	if (config.smtp) {
 		sendMail = createSendMail(config.smtp, config.mailFrom);

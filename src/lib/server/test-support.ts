@@ -9,6 +9,7 @@ import { parseMap } from '../can/map-json';
 import type { Role } from '../roles';
 import { loadConfig, type AppConfig } from './config';
 import { createDatabase, migrateToLatest, type DB } from './db';
+import { createPostgresDatabase, isPostgresUrl } from './db/postgres';
 import type { SessionUser } from './guard';
 import { createMailLimits } from './mail/limits';
 import type { OutgoingMail } from './mail/send';
@@ -21,7 +22,11 @@ import { publishRevision } from './maps/revisions';
 import { createWorkspace } from './workspaces/workspaces';
 
 export async function createTestDatabase(): Promise<DB> {
-	const db = createDatabase(':memory:');
+	// Opt-in: the same tests against PostgreSQL (docs/scale-out.md), each in an empty database of its own.
+	const url = process.env.TEST_DATABASE_URL;
+	const db = isPostgresUrl(url)
+		? await createPostgresDatabase(url, `t_${crypto.randomUUID().replaceAll('-', '')}`)
+		: createDatabase(':memory:');
 	await migrateToLatest(db);
 	return db;
 }

@@ -3,7 +3,8 @@
  * holding only the samples where the signal was present, with summary statistics.
  */
 import { SIGNAL_STATUS, type ChannelInfo, type CompiledMap } from '../decoder';
-import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+import type { FrameColumns } from './frame-columns';
+import { FLAG_EXTENDED } from './frame-store';
 
 export interface Channel {
 	info: ChannelInfo;
@@ -79,7 +80,7 @@ function summarise(
  *     shares the definition's time array; a column with gaps (mux pages, short payloads) is
  *     compacted into arrays of its own.
  */
-export function decodeChannels(store: FrameStore, compiled: CompiledMap): Channel[] {
+export function decodeChannels(store: FrameColumns, compiled: CompiledMap): Channel[] {
 	const { time, id, flags, length, dataOffset, data } = store;
 	const n = store.count;
 	const { frames } = compiled;

@@ -4,7 +4,7 @@
  */
 import type { CompiledMap } from '../decoder';
 import { decodeChannels, type Channel } from './channels';
-import type { FrameStore } from './frame-store';
+import type { FrameColumns } from './frame-columns';
 import { surveyIds, type IdStatistics, type UnknownId } from './id-statistics';
 import { scanJ1939, type J1939Scan } from './j1939-scan';
 import { loadOverTime, type LoadOverTime } from './load-over-time';
@@ -31,7 +31,7 @@ export interface DecodeCaptureOptions {
 }
 
 export function decodeCapture(
-	store: FrameStore,
+	store: FrameColumns,
 	compiled: CompiledMap,
 	options: DecodeCaptureOptions = {}
 ): CaptureDecoding {

@@ -11,7 +11,8 @@ import { csvText } from '../csv-cell';
 import { lengthToDlc } from '../dlc';
 import type { Channel } from './channels';
 import { upperBound } from './decimate';
-import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+import type { FrameColumns } from './frame-columns';
+import { FLAG_EXTENDED } from './frame-store';
 import { CANONICAL_HEADER } from './layout';
 import { slugPart } from '../../slug';
 
@@ -19,10 +20,10 @@ import { slugPart } from '../../slug';
 export type ExportChannel = Pick<Channel, 'info' | 'time' | 'value'>;
 
 /** Characters gathered before a chunk is handed out: large enough to amortise, small enough to stream. */
-const CHUNK_CHARS = 1 << 16;
+export const CHUNK_CHARS = 1 << 16;
 
 /** Collects rows and hands them out in chunks of about CHUNK_CHARS. */
-function* chunked(rows: Iterable<string>): Generator<string> {
+export function* chunked(rows: Iterable<string>): Generator<string> {
 	let buffer = '';
 	for (const row of rows) {
 		buffer += row;
@@ -40,7 +41,10 @@ export const LONG_FORM_HEADER = 'time,frame,signal,value,unit';
  * One row per sample, `time,frame,signal,value,unit`, in time order across all channels (a k-way
  * merge over a binary heap); samples at the same time keep the channels' order (the map's order).
  */
-export function* longFormCsv(channels: readonly ExportChannel[]): Generator<string> {
+export function* longFormCsv(
+	channels: readonly ExportChannel[],
+	options: { header?: boolean } = {}
+): Generator<string> {
 	const middle = channels.map(
 		(c) => `,${csvText(c.info.frameName)},${csvText(c.info.signalName)},`
 	);
@@ -71,7 +75,7 @@ export function* longFormCsv(channels: readonly ExportChannel[]): Generator<stri
 	for (let at = (heap.length >> 1) - 1; at >= 0; at--) siftDown(at);
 
 	function* rows(): Generator<string> {
-		yield LONG_FORM_HEADER + '\n';
+		if (options.header ?? true) yield LONG_FORM_HEADER + '\n';
 		while (heap.length > 0) {
 			const k = heap[0];
 			const c = channels[k];
@@ -107,6 +111,23 @@ export interface WideFormOptions {
 /** Rows a wide export may have, so a tiny interval over a long capture is refused rather than run for hours. */
 export const MAX_WIDE_ROWS = 10_000_000;
 
+/** Rows of a wide export over [from, to]; a RangeError (with the advice) beyond MAX_WIDE_ROWS. */
+export function wideRowCount(from: number, to: number, interval: number): number {
+	if (!(interval > 0) || !Number.isFinite(interval)) {
+		throw new RangeError(
+			`the resampling interval must be a positive number of seconds, got ${interval}`
+		);
+	}
+	// A tiny tolerance so a span that is a whole number of intervals keeps its last row despite rounding.
+	const rowCount = Math.floor((to - from) / interval + 1e-9) + 1;
+	if (rowCount > MAX_WIDE_ROWS) {
+		throw new RangeError(
+			`an interval of ${interval} s over ${to - from} s makes ${rowCount} rows, more than ${MAX_WIDE_ROWS}; choose a longer interval`
+		);
+	}
+	return rowCount;
+}
+
 /** The wide-form column name of a channel: `<frame>.<signal> [unit]`, CSV-quoted when needed. */
 export function wideColumnName(info: ExportChannel['info']): string {
 	return csvText(`${info.frameName}.${info.signalName}${info.unit ? ` [${info.unit}]` : ''}`);
@@ -131,13 +152,7 @@ export function* wideFormCsv(
 		yield header; // no samples (or an empty range): the header alone
 		return;
 	}
-	// A tiny tolerance so a span that is a whole number of intervals keeps its last row despite rounding.
-	const rowCount = Math.floor((to - from) / interval + 1e-9) + 1;
-	if (rowCount > MAX_WIDE_ROWS) {
-		throw new RangeError(
-			`an interval of ${interval} s over ${to - from} s makes ${rowCount} rows, more than ${MAX_WIDE_ROWS}; choose a longer interval`
-		);
-	}
+	const rowCount = wideRowCount(from, to, interval);
 
 	function* rows(): Generator<string> {
 		yield header;
@@ -177,10 +192,13 @@ const HEX_BYTE = Array.from({ length: 256 }, (_, b) =>
  * first frame, the ID in hex (3 digits standard, 8 extended), the ISO 11898-1 DLC code (CAN FD
  * lengths 12–64 bytes as codes 9–15) and the payload as spaced hex bytes.
  */
-export function* canonicalCaptureCsv(store: FrameStore): Generator<string> {
+export function* canonicalCaptureCsv(
+	store: FrameColumns,
+	options: { header?: boolean } = {}
+): Generator<string> {
 	const { time, id, flags, length, dataOffset, data } = store;
 	function* rows(): Generator<string> {
-		yield CANONICAL_HEADER + '\n';
+		if (options.header ?? true) yield CANONICAL_HEADER + '\n';
 		for (let i = 0; i < store.count; i++) {
 			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
 			let bytes = '';

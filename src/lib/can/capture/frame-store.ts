@@ -5,15 +5,48 @@
  * without parsing the CSV again.
  */
 
+import type { FrameColumns } from './frame-columns';
+
+/**
+ * What a capture row may say about a frame beyond time, ID and payload. Today's CSV layouts carry
+ * none of it, so every field has a default; the chunked store (chunk-store.ts) keeps a column for each.
+ */
+export interface FrameExtras {
+	/** Index into the capture's bus names (default 0, the one unnamed bus). */
+	bus?: number;
+	direction?: FrameDirection;
+	kind?: FrameKind;
+	/** CAN FD bit-rate switch (BRS) seen on the bus. */
+	bitRateSwitch?: boolean;
+	/** Index into the capture's tag names + 1; 0 = no tag. */
+	tag?: number;
+}
+
+/** Received or sent by the logger itself (0 = rx, 1 = tx). */
+export const FRAME_DIRECTION = { rx: 0, tx: 1 } as const;
+export type FrameDirection = (typeof FRAME_DIRECTION)[keyof typeof FRAME_DIRECTION];
+/** A data frame, a remote request (no payload) or an error frame (ISO 11898-1). */
+export const FRAME_KIND = { data: 0, remote: 1, error: 2 } as const;
+export type FrameKind = (typeof FRAME_KIND)[keyof typeof FRAME_KIND];
+
 /** Anything frames can be streamed into (the store itself, or a decoder that keeps nothing). */
 export interface FrameSink {
 	/** `time` in seconds from the first frame; copies `data[0 … length)`. */
-	add(time: number, id: number, extended: boolean, data: Uint8Array, length: number): void;
+	add(
+		time: number,
+		id: number,
+		extended: boolean,
+		data: Uint8Array,
+		length: number,
+		extras?: FrameExtras
+	): void;
 }
 
 export const FLAG_EXTENDED = 1;
 /** Payload longer than 8 bytes, which only CAN FD can carry (ISO 11898-1). */
 export const FLAG_FD = 2;
+/** A CAN FD frame sent with the faster data-phase bit rate (BRS bit, ISO 11898-1:2015). */
+export const FLAG_BRS = 4;
 
 const MAGIC = 0x53435746; // "FWCS" read as little-endian u32
 const FORMAT_VERSION = 1;
@@ -38,7 +71,7 @@ export interface FrameStoreOrigin {
 	epoch: boolean;
 }
 
-export class FrameStore implements FrameSink {
+export class FrameStore implements FrameSink, FrameColumns {
 	#count = 0;
 	#dataBytes = 0;
 	#time = new Float64Array(INITIAL_CAPACITY);

@@ -4,7 +4,8 @@
  * not define, how often each payload bit changed — the first clue to what an unknown frame carries.
  */
 import type { CompiledMap } from '../decoder';
-import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+import type { FrameColumns } from './frame-columns';
+import { FLAG_EXTENDED } from './frame-store';
 
 export interface IdStatistics {
 	id: number;
@@ -56,91 +57,109 @@ interface Tally {
 	unknown: { previous: Uint8Array; previousLength: number; bitChanges: Uint32Array } | null;
 }
 
-export function surveyIds(store: FrameStore, compiled: CompiledMap): IdSurvey {
+export function surveyIds(store: FrameColumns, compiled: CompiledMap): IdSurvey {
+	const survey = createIdSurvey(compiled);
+	survey.add(store);
+	return survey.finish();
+}
+
+/** The survey fed a capture piece by piece in capture order (segments of the chunked store). */
+export function createIdSurvey(compiled: CompiledMap): {
+	add(columns: FrameColumns): void;
+	finish(): IdSurvey;
+} {
 	const tallies = new Map<number, Tally>();
-	const { time, id, flags, length, dataOffset, data } = store;
-	for (let i = 0; i < store.count; i++) {
-		const extended = (flags[i] & FLAG_EXTENDED) !== 0;
-		const key = extended ? id[i] + 0x20000000 : id[i];
-		let t = tallies.get(key);
-		if (t === undefined) {
-			t = {
-				id: id[i],
-				extended,
-				count: 0,
-				firstTime: time[i],
-				lastTime: time[i],
-				gapMean: 0,
-				gapM2: 0,
-				minLength: length[i],
-				maxLength: length[i],
-				unknown: compiled.lookup(id[i], extended)
-					? null
-					: { previous: new Uint8Array(64), previousLength: 0, bitChanges: new Uint32Array(64 * 8) }
-			};
-			tallies.set(key, t);
-		} else {
-			const gap = time[i] - t.lastTime;
-			const n = t.count; // gaps so far + 1
-			const delta = gap - t.gapMean;
-			t.gapMean += delta / n;
-			t.gapM2 += delta * (gap - t.gapMean);
-			t.lastTime = time[i];
-		}
-		t.count++;
-		if (length[i] < t.minLength) t.minLength = length[i];
-		if (length[i] > t.maxLength) t.maxLength = length[i];
-		const u = t.unknown;
-		if (u) {
-			const at = dataOffset[i];
-			const n = length[i];
-			if (t.count > 1) {
-				const common = Math.min(n, u.previousLength);
-				for (let b = 0; b < common; b++) {
-					let changed = data[at + b] ^ u.previous[b];
-					while (changed !== 0) {
-						const low = changed & -changed;
-						u.bitChanges[b * 8 + 31 - Math.clz32(low)]++;
-						changed ^= low;
+	const add = (store: FrameColumns) => {
+		const { time, id, flags, length, dataOffset, data } = store;
+		for (let i = 0; i < store.count; i++) {
+			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
+			const key = extended ? id[i] + 0x20000000 : id[i];
+			let t = tallies.get(key);
+			if (t === undefined) {
+				t = {
+					id: id[i],
+					extended,
+					count: 0,
+					firstTime: time[i],
+					lastTime: time[i],
+					gapMean: 0,
+					gapM2: 0,
+					minLength: length[i],
+					maxLength: length[i],
+					unknown: compiled.lookup(id[i], extended)
+						? null
+						: {
+								previous: new Uint8Array(64),
+								previousLength: 0,
+								bitChanges: new Uint32Array(64 * 8)
+							}
+				};
+				tallies.set(key, t);
+			} else {
+				const gap = time[i] - t.lastTime;
+				const n = t.count; // gaps so far + 1
+				const delta = gap - t.gapMean;
+				t.gapMean += delta / n;
+				t.gapM2 += delta * (gap - t.gapMean);
+				t.lastTime = time[i];
+			}
+			t.count++;
+			if (length[i] < t.minLength) t.minLength = length[i];
+			if (length[i] > t.maxLength) t.maxLength = length[i];
+			const u = t.unknown;
+			if (u) {
+				const at = dataOffset[i];
+				const n = length[i];
+				if (t.count > 1) {
+					const common = Math.min(n, u.previousLength);
+					for (let b = 0; b < common; b++) {
+						let changed = data[at + b] ^ u.previous[b];
+						while (changed !== 0) {
+							const low = changed & -changed;
+							u.bitChanges[b * 8 + 31 - Math.clz32(low)]++;
+							changed ^= low;
+						}
 					}
 				}
+				u.previous.set(data.subarray(at, at + n));
+				u.previousLength = n;
 			}
-			u.previous.set(data.subarray(at, at + n));
-			u.previousLength = n;
 		}
-	}
-
-	const sorted = [...tallies.values()].sort(
-		(a, b) => Number(a.extended) - Number(b.extended) || a.id - b.id
-	);
-	const ids = sorted.map((t): IdStatistics => {
-		const frame = t.unknown ? undefined : compiled.lookup(t.id, t.extended);
-		const gaps = t.count - 1;
-		const span = t.lastTime - t.firstTime;
-		return {
-			id: t.id,
-			extended: t.extended,
-			count: t.count,
-			firstTime: t.firstTime,
-			lastTime: t.lastTime,
-			rateHz: gaps > 0 && span > 0 ? gaps / span : null,
-			meanPeriodMs: gaps > 0 ? t.gapMean * 1000 : null,
-			jitterMs: gaps > 0 ? Math.sqrt(t.gapM2 / gaps) * 1000 : null,
-			minLength: t.minLength,
-			maxLength: t.maxLength,
-			frameIndex: frame ? frame.frameIndex : null,
-			frameName: frame ? frame.frame.name : null,
-			cycleMs: frame ? frame.frame.cycleMs : null
-		};
-	});
-	const unknownIds = sorted
-		.filter((t) => t.unknown !== null)
-		.map((t) => ({
-			id: t.id,
-			extended: t.extended,
-			count: t.count,
-			maxLength: t.maxLength,
-			bitChanges: t.unknown!.bitChanges.slice(0, t.maxLength * 8)
-		}));
-	return { ids, unknownIds };
+	};
+	const finish = (): IdSurvey => {
+		const sorted = [...tallies.values()].sort(
+			(a, b) => Number(a.extended) - Number(b.extended) || a.id - b.id
+		);
+		const ids = sorted.map((t): IdStatistics => {
+			const frame = t.unknown ? undefined : compiled.lookup(t.id, t.extended);
+			const gaps = t.count - 1;
+			const span = t.lastTime - t.firstTime;
+			return {
+				id: t.id,
+				extended: t.extended,
+				count: t.count,
+				firstTime: t.firstTime,
+				lastTime: t.lastTime,
+				rateHz: gaps > 0 && span > 0 ? gaps / span : null,
+				meanPeriodMs: gaps > 0 ? t.gapMean * 1000 : null,
+				jitterMs: gaps > 0 ? Math.sqrt(t.gapM2 / gaps) * 1000 : null,
+				minLength: t.minLength,
+				maxLength: t.maxLength,
+				frameIndex: frame ? frame.frameIndex : null,
+				frameName: frame ? frame.frame.name : null,
+				cycleMs: frame ? frame.frame.cycleMs : null
+			};
+		});
+		const unknownIds = sorted
+			.filter((t) => t.unknown !== null)
+			.map((t) => ({
+				id: t.id,
+				extended: t.extended,
+				count: t.count,
+				maxLength: t.maxLength,
+				bitChanges: t.unknown!.bitChanges.slice(0, t.maxLength * 8)
+			}));
+		return { ids, unknownIds };
+	};
+	return { add, finish };
 }

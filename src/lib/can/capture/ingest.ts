@@ -192,7 +192,11 @@ export async function ingestCaptureInto(
 		}
 		previousTime = row.time;
 		// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
-		sink.add((row.time - firstTime) * secondsPerUnit, row.id, row.extended, row.data, row.length);
+		sink.add((row.time - firstTime) * secondsPerUnit, row.id, row.extended, row.data, row.length, {
+			bus: row.bus,
+			direction: row.direction,
+			tag: row.tag
+		});
 		frameCount++;
 	};
 

@@ -9,7 +9,8 @@ import {
 	type TransportMode,
 	type TransportProblem
 } from '../j1939-transport';
-import { FLAG_EXTENDED, type FrameStore } from './frame-store';
+import { payloadOf, type FrameColumns } from './frame-columns';
+import { FLAG_EXTENDED } from './frame-store';
 
 export interface Dm1Message {
 	time: number;
@@ -52,7 +53,14 @@ export interface J1939Scan {
 
 const MAX_LISTED = 10_000;
 
-export function scanJ1939(store: FrameStore): J1939Scan {
+export function scanJ1939(store: FrameColumns): J1939Scan {
+	const scanner = createJ1939Scanner();
+	scanner.add(store);
+	return scanner.finish();
+}
+
+/** The J1939 pass fed a capture piece by piece in capture order (segments of the chunked store). */
+export function createJ1939Scanner(): { add(columns: FrameColumns): void; finish(): J1939Scan } {
 	const scan: J1939Scan = {
 		dm1: [],
 		troubleCodes: [],
@@ -97,33 +105,40 @@ export function scanJ1939(store: FrameStore): J1939Scan {
 	};
 
 	let lastTime = -Infinity;
-	for (let i = 0; i < store.count; i++) {
-		if (store.time[i] > lastTime) lastTime = store.time[i];
-		if ((store.flags[i] & FLAG_EXTENDED) === 0) continue;
-		const id = store.id[i];
-		const time = store.time[i];
-		const payload = store.payload(i);
-		const { pgn, sourceAddress } = parseJ1939Id(id);
-		if (pgn === PGN_DM1 && payload.length >= 2) recordDm1(time, sourceAddress, payload, false);
-		const message = reassembler.push(id, time, payload);
-		if (message) {
-			if (scan.transportMessages.length < MAX_LISTED) {
-				scan.transportMessages.push({
-					time: message.time,
-					mode: message.mode,
-					pgn: message.pgn,
-					sourceAddress: message.sourceAddress,
-					destinationAddress: message.destinationAddress,
-					length: message.data.length,
-					data: message.data
-				});
+	let frames = 0;
+	const add = (store: FrameColumns) => {
+		frames += store.count;
+		for (let i = 0; i < store.count; i++) {
+			if (store.time[i] > lastTime) lastTime = store.time[i];
+			if ((store.flags[i] & FLAG_EXTENDED) === 0) continue;
+			const id = store.id[i];
+			const time = store.time[i];
+			const payload = payloadOf(store, i);
+			const { pgn, sourceAddress } = parseJ1939Id(id);
+			if (pgn === PGN_DM1 && payload.length >= 2) recordDm1(time, sourceAddress, payload, false);
+			const message = reassembler.push(id, time, payload);
+			if (message) {
+				if (scan.transportMessages.length < MAX_LISTED) {
+					scan.transportMessages.push({
+						time: message.time,
+						mode: message.mode,
+						pgn: message.pgn,
+						sourceAddress: message.sourceAddress,
+						destinationAddress: message.destinationAddress,
+						length: message.data.length,
+						data: message.data
+					});
+				}
+				if (message.pgn === PGN_DM1)
+					recordDm1(message.time, message.sourceAddress, message.data, true);
 			}
-			if (message.pgn === PGN_DM1)
-				recordDm1(message.time, message.sourceAddress, message.data, true);
 		}
-	}
-	// Transfers still open when the capture ends are reported, not silently forgotten.
-	if (store.count) reassembler.finish(lastTime);
-	scan.troubleCodes = [...codes.values()];
-	return scan;
+	};
+	const finish = () => {
+		// Transfers still open when the capture ends are reported, not silently forgotten.
+		if (frames) reassembler.finish(lastTime);
+		scan.troubleCodes = [...codes.values()];
+		return scan;
+	};
+	return { add, finish };
 }

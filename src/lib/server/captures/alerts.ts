@@ -1,6 +1,7 @@
 /**
  * The alert rules of the map revision (or draft version) a decode used, replayed over its channels
- * with the acknowledgements given. Nothing is stored, so viewers may replay freely.
+ * with the acknowledgements given, in a capture worker (work/alerts.ts). Nothing is stored, so
+ * viewers may replay freely.
  */
 import {
 	replayAlertRules,
@@ -10,7 +11,8 @@ import {
 } from '../../can/alerts/replay';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { getDecoded } from './decoding';
+import { openDecode } from './decoding';
+import { runCaptureTask } from './pool';
 
 export async function replayDecodeAlerts(
 	services: Services,
@@ -18,9 +20,10 @@ export async function replayDecodeAlerts(
 	captureId: string,
 	input: Required<Pick<AlertReplayInput, 'decode' | 'acknowledgements'>>
 ): Promise<AlertReplay> {
-	const { map, result } = await getDecoded(services, workspaceId, captureId, input.decode);
+	const open = await openDecode(services, workspaceId, captureId, input.decode);
 	try {
-		return replayAlertRules(map, result.channels, result.duration, input.acknowledgements);
+		// Checks the acknowledgements against the rules here (no channel needed), for a 400 with the path.
+		replayAlertRules(open.map, [], 0, input.acknowledgements);
 	} catch (error) {
 		if (error instanceof UnknownRuleError) {
 			throw new Problem(400, "An acknowledgement names a rule this decode's map does not have.", [
@@ -29,4 +32,13 @@ export async function replayDecodeAlerts(
 		}
 		throw error;
 	}
+	return runCaptureTask<AlertReplay>({
+		kind: 'alerts',
+		storage: services.storage.settings,
+		indexKey: open.indexKey,
+		map: open.map,
+		folder: open.folder,
+		duration: open.stored.summary.durationS,
+		acknowledgements: input.acknowledgements
+	});
 }

@@ -1,57 +1,54 @@
 /**
- * Worker thread entry: parses one capture CSV, streamed in by the main thread chunk by chunk, into
- * the compact FrameStore, so a large import never blocks the server's event loop. Each chunk is
- * acknowledged once the parser took it (the main thread's flow control and progress). Bundled with
- * esbuild: at build time into the build folder, on demand in development and tests
- * (see worker-bundle.ts).
+ * The capture worker thread's entry (run by the pool in pool.ts): parses captures into the chunked
+ * store, decodes, answers series windows, replays alert rules and produces exports, so none of that
+ * CPU work runs on the server's event loop. Each task names its storage by plain-data settings and
+ * the worker opens it itself. Bundled with esbuild: at build time into the build folder, on demand
+ * in development and tests (worker-bundle.ts).
  */
-import { parentPort, threadId, workerData } from 'node:worker_threads';
-import { CaptureFormatError } from '../../can/capture/detect-layout';
-import { ingestCapture } from '../../can/capture/ingest';
-import type { CaptureLayout } from '../../can/capture/layout';
-import type { ToWorker, FromWorker } from './worker-protocol';
+import type { MessagePort } from 'node:worker_threads';
+import { storageFromSettings } from '../storage/settings';
+import type { BlobStorage, StorageSettings } from '../storage/storage';
+import { runAlerts, runSamples } from './work/alerts';
+import { runReceiver } from './work/receivers';
+import { runDecode } from './work/decode';
+import { runExport } from './work/export';
+import { runConvert, runProcess } from './work/process';
+import { runSeries } from './work/series';
+import type { CaptureTask } from './work/tasks';
 
-const port = parentPort!;
-const queue: Uint8Array[] = [];
-let ended = false;
-let wake: (() => void) | null = null;
+const stores = new Map<string, Promise<BlobStorage>>();
 
-port.on('message', (message: ToWorker) => {
-	if (message.type === 'chunk') queue.push(message.bytes);
-	else ended = true;
-	wake?.();
-});
+function storageFor(settings: StorageSettings): Promise<BlobStorage> {
+	const key = JSON.stringify(settings);
+	let store = stores.get(key);
+	if (!store) stores.set(key, (store = storageFromSettings(settings)));
+	return store;
+}
 
-const send = (message: FromWorker, transfer: ArrayBuffer[] = []) =>
-	port.postMessage(message, transfer);
-
-async function* chunks(): AsyncGenerator<Uint8Array> {
-	for (;;) {
-		while (queue.length > 0) {
-			const chunk = queue.shift()!;
-			yield chunk;
-			send({ type: 'consumed', bytes: chunk.byteLength });
+export default async function run(task: CaptureTask): Promise<unknown> {
+	const storage = await storageFor(task.storage);
+	switch (task.kind) {
+		case 'process': {
+			const progress = task.progress as unknown as MessagePort | undefined;
+			try {
+				return await runProcess(storage, task, (bytes) => progress?.postMessage({ bytes }));
+			} finally {
+				progress?.close();
+			}
 		}
-		if (ended) return;
-		await new Promise<void>((resolve) => (wake = resolve));
-		wake = null;
+		case 'convert':
+			return runConvert(storage, task);
+		case 'decode':
+			return runDecode(storage, task);
+		case 'series':
+			return runSeries(storage, task);
+		case 'samples':
+			return runSamples(storage, task);
+		case 'alerts':
+			return runAlerts(storage, task);
+		case 'receiver':
+			return runReceiver(storage, task);
+		case 'export':
+			return runExport(storage, { ...task, port: task.port as unknown as MessagePort });
 	}
 }
-
-try {
-	const { store, ...report } = await ingestCapture(chunks(), {
-		layout: (workerData as { layout: CaptureLayout }).layout
-	});
-	let durationS = 0;
-	for (const t of store.time) if (t > durationS) durationS = t;
-	const bytes = store.toBytes();
-	send({ type: 'done', report, durationS, store: bytes, threadId }, [bytes.buffer as ArrayBuffer]);
-} catch (error) {
-	send({
-		type: 'failed',
-		message: error instanceof Error ? error.message : String(error),
-		formatError: error instanceof CaptureFormatError,
-		threadId
-	});
-}
-port.close();

@@ -30,11 +30,11 @@ import { findCaptureRow } from './captures-db';
 import {
 	failInterruptedProcessing,
 	INTERRUPTED_MESSAGE,
-	parseInWorker,
+	processInWorker,
 	processingDone
 } from './processing';
 import type { DetectedLayout } from '../../api/captures';
-import { loadFrameStore } from './store';
+import { captureKeys, loadWholeCapture } from './capture-store';
 
 type Handler = (event: RequestEvent) => Promise<Response>;
 type Actor = Role | 'outsider';
@@ -298,7 +298,7 @@ describe('capture upload and processing', () => {
 		expect(result.report?.badRowCount).toBe(0);
 		expect(result.layout).toEqual(result.detected.layout);
 		const row = (await findCaptureRow(w.services.db, w.workspaceId, result.capture.id))!;
-		const store = await loadFrameStore(w.services, row);
+		const store = await loadWholeCapture(w.services.storage, row.store_key!);
 		expect(store.count).toBe(FRAMES.length);
 		// Epoch seconds near 1.8e9 carry about 0.24 µs of resolution in a float64 (IEEE 754: ulp = 2^-22).
 		const digits = variant.name === 'epoch times' ? 6 : 9;
@@ -498,36 +498,58 @@ describe('capture upload and processing', () => {
 
 	it('parses in a worker thread, not the main thread', async () => {
 		expect(isMainThread).toBe(true);
-		async function* source() {
-			yield new TextEncoder().encode(render(VARIANTS[0]));
-		}
-		const outcome = await parseInWorker(source(), CANONICAL_LAYOUT);
+		const { storage } = await createTestServices();
+		const keys = captureKeys('w', 'c');
+		await storage.put(keys.raw, single(new TextEncoder().encode(render(VARIANTS[0]))));
+		const outcome = await processInWorker(storage, {
+			rawKey: keys.raw,
+			layout: CANONICAL_LAYOUT,
+			storeFolder: keys.storeFolder
+		});
 		expect(outcome.threadId).toBeGreaterThan(0);
 		expect(outcome.threadId).not.toBe(mainThreadId);
-		expect(outcome.frameCount).toBe(FRAMES.length);
+		expect(outcome.ok && outcome.frameCount).toBe(FRAMES.length);
 	});
 
-	it('reports progress as the worker takes each chunk, ending at the full size', async () => {
+	it('reports progress as the worker reads the file, ending at the full size; memory is one segment', async () => {
 		const text = render(VARIANTS[0]);
 		const bytes = new TextEncoder().encode(
 			text +
 				Array.from(
-					{ length: 2000 },
+					{ length: 200_000 },
 					(_, i) => `${(0.03 + i / 1000).toFixed(6)},321,0,2,AB CD`
 				).join('\n') +
 				'\n'
 		);
-		async function* source() {
-			for (let at = 0; at < bytes.length; at += 1000) yield bytes.subarray(at, at + 1000);
-		}
+		const { storage } = await createTestServices();
+		const keys = captureKeys('w', 'c');
+		await storage.put(keys.raw, single(bytes));
 		const seen: number[] = [];
-		const outcome = await parseInWorker(source(), CANONICAL_LAYOUT, (n) => seen.push(n));
-		expect(outcome.frameCount).toBe(FRAMES.length + 2000);
-		expect(seen.length).toBe(Math.ceil(bytes.length / 1000));
+		const outcome = await processInWorker(
+			storage,
+			{
+				rawKey: keys.raw,
+				layout: CANONICAL_LAYOUT,
+				storeFolder: keys.storeFolder,
+				segmentFrames: 50_000
+			},
+			(n) => seen.push(n)
+		);
+		expect(outcome.ok && outcome.frameCount).toBe(FRAMES.length + 200_000);
+		expect(seen.length).toBeGreaterThan(10);
 		expect(seen.every((n, i) => i === 0 || n > seen[i - 1])).toBe(true);
 		expect(seen.at(-1)).toBe(bytes.length);
+		// Five segments of at most 50,000 frames and the index, written while parsing.
+		expect(await storage.list(keys.storeFolder)).toEqual([
+			`${keys.storeFolder}index.fwci`,
+			...[0, 1, 2, 3, 4].map((s) => `${keys.storeFolder}segment-00000${s}.fwcg`)
+		]);
 	});
 });
+
+async function* single(bytes: Uint8Array) {
+	yield bytes;
+}
 
 describe('capture roles', () => {
 	it('lets viewers upload and list; a non-member gets 404 everywhere', async () => {
@@ -562,7 +584,7 @@ describe('capture roles', () => {
 			);
 		const a = (await uploadAndProcess(w, 'a.csv', render(VARIANTS[0]))).capture; // by the viewer
 		const b = (await uploaded(w, 'b.csv', render(VARIANTS[0]), 'editor')).capture;
-		expect((await storedFiles(w)).length).toBe(3); // a: raw + frame store, b: raw
+		expect((await storedFiles(w)).length).toBe(4); // a: raw + chunk index + one segment, b: raw
 
 		const refused = await del(b.id, 'viewer');
 		expect(refused.status).toBe(403);

@@ -4,7 +4,13 @@
  * Typed arrays become plain arrays and NaN-free numbers, so the shape survives JSON unchanged.
  */
 import type { DecodeSummary, J1939Summary, TroubleCodeSummary } from '../../api/capture-views';
+import type { Channel } from '../../can/capture/channels';
 import type { CaptureDecoding } from '../../can/capture/decode-capture';
+
+/** What the summary reads of a decode: everything but the channels' samples. */
+export type DecodingFigures = Omit<CaptureDecoding, 'channels'> & {
+	channels: readonly Omit<Channel, 'time' | 'value'>[];
+};
 
 /** JSON has no NaN or ±Infinity (a float signal can decode to them); they become null. */
 const finiteOrNull = (n: number | null): number | null =>
@@ -53,7 +59,7 @@ function summarizeJ1939(scan: NonNullable<CaptureDecoding['j1939']>): J1939Summa
 	};
 }
 
-export function summarizeDecoding(result: CaptureDecoding): DecodeSummary {
+export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
 	const rates = new Map(result.ids.map((s) => [idKey(s.id, s.extended), s.rateHz]));
 	return {
 		frameCount: result.frameCount,

@@ -30,7 +30,7 @@ import { GET as frameRoute } from '../../../routes/api/workspaces/[ws]/captures/
 import { GET as seriesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/series/+server';
 import { GET as exportRoute } from '../../../routes/w/[ws]/captures/[id]/export/+server';
 import type { DecodeResponse, FrameDetail, FrameRow, SeriesResponse } from '$lib/api/capture-views';
-import { forgetCaptureDecodes, getDecoded } from './decoding';
+import { decodedChannelSamples, forgetCaptureDecodes } from './decoding';
 
 const clubRacer = fixtureMap('club-racer-ecu.map.json');
 const sessionCsv = fixtureText('club-racer-session.csv');
@@ -192,7 +192,7 @@ describe('decoding a capture with a chosen revision', () => {
 		const draft = await decode(w, w.viewer, 'draft');
 		expect(draft.decode).toMatchObject({ revision: null, draftVersion: map.version });
 
-		forgetCaptureDecodes(w.services, w.captureId); // as after a restart: decoded again from the stored frames
+		forgetCaptureDecodes(w.captureId); // as after a restart: decoded again from the stored frames
 		const reopened = await jsonOf<DecodeResponse>(
 			await decodesRoute(
 				event(w, w.viewer, '/decodes/[decodeId]', { params: { decodeId: draft.decode.id } })
@@ -207,7 +207,7 @@ describe('decoding a capture with a chosen revision', () => {
 			draft: clubRacer,
 			actorId: w.owner.id
 		});
-		forgetCaptureDecodes(w.services, w.captureId);
+		forgetCaptureDecodes(w.captureId);
 		const gone = await decodesRoute(
 			event(w, w.viewer, '/decodes/[decodeId]', { params: { decodeId: draft.decode.id } })
 		);
@@ -293,8 +293,13 @@ describe('series', () => {
 		const samples = csvFrames
 			.filter((f) => f.id === 0x5f0)
 			.map((f) => ({ t: f.time - t0, v: new DataView(f.bytes.buffer).getUint16(0, false) }));
-		const { result } = await getDecoded(w.services, w.workspaceId, w.captureId, d.id);
-		const channel = result.channels[index];
+		const channel = await decodedChannelSamples(
+			w.services,
+			w.workspaceId,
+			w.captureId,
+			d.id,
+			index
+		);
 		samples.forEach((s, k) => expect(channel.time[k]).toBeCloseTo(s.t, 9));
 		expect(Array.from(channel.value)).toEqual(samples.map((s) => s.v));
 		// Brute force over the channel's own times: per bucket [from + k·w, from + (k+1)·w), the extremes.

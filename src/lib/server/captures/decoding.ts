@@ -1,11 +1,13 @@
 /**
  * Decoding a processed capture with one map revision (or the draft), recorded so a decoded view is
- * reproducible: the record names the revision, or the draft version it saw. Decoding works on the
- * stored compact frames (never the CSV again) and its results are kept in a small per-process LRU
- * cache keyed by capture + map + revision/draft version, so views of one decode do not re-decode.
+ * reproducible: the record names the revision, or the draft version it saw. The first decode of a
+ * capture with a given map text runs in a capture worker (work/decode.ts) and is stored in the
+ * capture's folder — statistics and one min/max pyramid per channel — so every later view, also
+ * after a restart, reads that instead of decoding again. Stored decodes are keyed by capture + map +
+ * revision or draft version: the same key means the same map text, so the same result.
  */
-import type { FrameStore } from '../../can/capture/frame-store';
-import { decodeCapture, type CaptureDecoding } from '../../can/capture/decode-capture';
+import type { DecodeInput, DecodeResponse, DecodeSummary } from '../../api/capture-views';
+import type { DecodeRecord } from '../../api/captures';
 import { compileMap, type CompiledMap } from '../../can/decoder';
 import type { CanMap } from '../../can/map';
 import { appendAudit } from '../workspaces/audit';
@@ -14,74 +16,26 @@ import { requireRevision } from '../maps/revisions';
 import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
+import { StorageNotFoundError } from '../storage/storage';
+import {
+	byteCache,
+	captureKeys,
+	decodeFolder,
+	forgetCaptureStore,
+	isLegacyStoreKey
+} from './capture-store';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
-import { summarizeDecoding } from './decode-summary';
-import { loadFrameStore } from './store';
-import type { DecodeInput, DecodeResponse, DecodeSummary } from '../../api/capture-views';
-import type { DecodeRecord } from '../../api/captures';
+import { runCaptureTask } from './pool';
+import { summaryKey } from './work/decode';
+import type { SamplesTask, StoredDecode } from './work/tasks';
 
-export interface Decoded {
-	decode: DecodeRecord;
-	map: CanMap;
-	compiled: CompiledMap;
-	store: FrameStore;
-	result: CaptureDecoding;
-}
-
-interface CacheEntry {
-	map: CanMap;
-	compiled: CompiledMap;
-	store: FrameStore;
-	result: CaptureDecoding;
-	summary?: DecodeSummary;
-}
-
-/** Decodes kept per process: each holds its channels' samples, so only a few (a 1M-frame capture's are tens of MB). */
-const DECODE_CACHE_SIZE = 4;
-
-// Per database, so test databases (and their random ids) never share entries. Promises are cached
-// so two requests for the same decode wait for one computation instead of running two.
-const caches = new WeakMap<object, Map<string, Promise<CacheEntry>>>();
-
-function cacheOf(services: Pick<Services, 'db'>): Map<string, Promise<CacheEntry>> {
-	let cache = caches.get(services.db);
-	if (!cache) caches.set(services.db, (cache = new Map()));
-	return cache;
-}
-
-/** capture + map + `r<n>` or `d<draft version>`: the same key means the same map text, so the same result. */
-function decodeCacheKey(
-	captureId: string,
-	mapId: string,
-	revision: number | null,
-	draftVersion: number | null
-): string {
-	return `${captureId}|${mapId}|${revision !== null ? `r${revision}` : `d${draftVersion}`}`;
-}
-
-async function cached(
-	services: Services,
-	key: string,
-	compute: () => Promise<CacheEntry>
-): Promise<CacheEntry> {
-	const cache = cacheOf(services);
-	let entry = cache.get(key);
-	if (entry) {
-		cache.delete(key); // re-insert: Map order is the recency order
-	} else {
-		entry = compute();
-		entry.catch(() => cache.get(key) === entry && cache.delete(key));
-		while (cache.size >= DECODE_CACHE_SIZE) cache.delete(cache.keys().next().value!);
-	}
-	cache.set(key, entry);
-	return entry;
-}
-
-/** Forgets every cached decode of a capture (when it is deleted). */
-export function forgetCaptureDecodes(services: Pick<Services, 'db'>, captureId: string): void {
-	const cache = cacheOf(services);
-	for (const key of [...cache.keys()]) if (key.startsWith(`${captureId}|`)) cache.delete(key);
-}
+const MiB = 1024 * 1024;
+/** Stored decodes read back, by storage folder; sized by their JSON. */
+const storedDecodes = byteCache<{ stored: StoredDecode; bytes: number }>(32 * MiB, (e) => e.bytes);
+/** Compiled maps of recent decodes (compiling a large map takes a few milliseconds). */
+const compiledMaps = byteCache<CompiledMap>(8 * MiB, (c) => 10_000 + 500 * c.channels.length);
+/** Legacy stores being converted, by capture id, so two requests wait for one conversion. */
+const converting = new Map<string, Promise<string>>();
 
 /** The capture if it belongs to the workspace and is processed (409 with the reason otherwise). */
 export async function requireReadyCapture(
@@ -90,7 +44,7 @@ export async function requireReadyCapture(
 	captureId: string
 ): Promise<CaptureRow> {
 	const capture = await requireCaptureRow(services.db, workspaceId, captureId);
-	if (capture.status !== 'ready') {
+	if (capture.status !== 'ready' || capture.store_key === null) {
 		throw new Problem(
 			409,
 			capture.status === 'failed'
@@ -101,26 +55,89 @@ export async function requireReadyCapture(
 	return capture;
 }
 
-function computeEntry(
-	services: Services,
-	capture: CaptureRow,
-	map: CanMap
-): () => Promise<CacheEntry> {
-	return async () => {
-		const store = await loadFrameStore(services, capture);
-		const compiled = compileMap(map);
-		return { map, compiled, store, result: decodeCapture(store, compiled) };
-	};
+/**
+ * The capture's chunk index key. A capture processed by an earlier version (one FrameStore blob)
+ * is converted to the chunked store the first time it is opened, in a worker.
+ */
+export async function captureIndexKey(
+	services: Pick<Services, 'db' | 'storage'>,
+	capture: Pick<CaptureRow, 'id' | 'workspace_id' | 'store_key'>
+): Promise<string> {
+	const key = capture.store_key!;
+	if (!isLegacyStoreKey(key)) return key;
+	let pending = converting.get(capture.id);
+	if (!pending) {
+		pending = (async () => {
+			const keys = captureKeys(capture.workspace_id, capture.id);
+			const indexKey = await runCaptureTask<string>({
+				kind: 'convert',
+				storage: services.storage.settings,
+				legacyKey: key,
+				storeFolder: keys.storeFolder
+			});
+			await services.db
+				.updateTable('captures')
+				.set({ store_key: indexKey })
+				.where('id', '=', capture.id)
+				.where('store_key', '=', key)
+				.execute();
+			await services.storage.delete(key);
+			return indexKey;
+		})().finally(() => converting.delete(capture.id));
+		converting.set(capture.id, pending);
+	}
+	return pending;
 }
 
-/** Decodes a capture with a map revision or the current draft, records it, and returns the result. */
+/** Reads a stored decode, or decodes in a worker (once, however many ask at the same time). */
+function storedDecode(
+	services: Services,
+	indexKey: string,
+	folder: string,
+	map: CanMap
+): Promise<StoredDecode> {
+	const id = JSON.stringify(services.storage.settings);
+	return storedDecodes
+		.get(`${id}|${folder}`, async () => {
+			try {
+				const bytes = await services.storage.getBytes(summaryKey(folder));
+				return {
+					stored: JSON.parse(new TextDecoder().decode(bytes)) as StoredDecode,
+					bytes: 2 * bytes.byteLength
+				};
+			} catch (error) {
+				if (!(error instanceof StorageNotFoundError)) throw error;
+			}
+			const stored = await runCaptureTask<StoredDecode>({
+				kind: 'decode',
+				storage: services.storage.settings,
+				indexKey,
+				map,
+				folder
+			});
+			return { stored, bytes: 2 * JSON.stringify(stored).length };
+		})
+		.then((e) => e.stored);
+}
+
+/**
+ * Forgets what this thread keeps of a capture: its stored decodes and store (when it is deleted, or
+ * as after a restart; the workers' own caches are theirs, see closeCaptureWorkers).
+ */
+export function forgetCaptureDecodes(captureId: string): void {
+	storedDecodes.forget(`/${captureId}/`);
+	compiledMaps.forget(`/${captureId}/`);
+	forgetCaptureStore(captureId);
+}
+
+/** Decodes a capture with a map revision or the current draft, records it, and returns the summary. */
 export async function decodeWith(
 	services: Services,
 	workspaceId: string,
 	captureId: string,
 	input: DecodeInput,
 	actorId: string
-): Promise<{ decode: DecodeRecord; result: CaptureDecoding; summary: DecodeSummary }> {
+): Promise<{ decode: DecodeRecord; summary: DecodeSummary }> {
 	const { db } = services;
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
 	const mapRecord = await requireMap(db, workspaceId, input.mapId);
@@ -128,11 +145,14 @@ export async function decodeWith(
 	const draftVersion = input.revision === 'draft' ? mapRecord.version : null;
 	const map =
 		revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
-	const entry = await cached(
-		services,
-		decodeCacheKey(capture.id, mapRecord.id, revision, draftVersion),
-		computeEntry(services, capture, map)
+	const indexKey = await captureIndexKey(services, capture);
+	const folder = decodeFolder(
+		captureKeys(capture.workspace_id, capture.id).folder,
+		mapRecord.id,
+		revision,
+		draftVersion
 	);
+	const stored = await storedDecode(services, indexKey, folder, map);
 	const decode = await db.transaction().execute(async (trx) => {
 		const record = await insertDecode(trx, {
 			captureId: capture.id,
@@ -151,7 +171,7 @@ export async function decodeWith(
 		});
 		return record;
 	});
-	return { decode, result: entry.result, summary: summaryOf(entry) };
+	return { decode, summary: stored.summary };
 }
 
 /** `r3`, or `draft-v12` for the draft as it was at version 12: what an export names. */
@@ -159,47 +179,26 @@ export function revisionLabel(decode: Pick<DecodeRecord, 'revision' | 'draftVers
 	return decode.revision !== null ? `r${decode.revision}` : `draft-v${decode.draftVersion}`;
 }
 
-function summaryOf(entry: CacheEntry): DecodeSummary {
-	return (entry.summary ??= summarizeDecoding(entry.result));
+/** A recorded decode with what its views need: the map it used, where its data is, its figures. */
+export interface OpenDecode {
+	decode: DecodeRecord;
+	capture: CaptureRow;
+	map: CanMap;
+	indexKey: string;
+	folder: string;
+	stored: StoredDecode;
 }
 
 /**
- * A recorded decode with everything its views need. Re-decodes from the stored frames when it is no
- * longer cached; a draft decode whose draft has changed since cannot be reproduced and says so (410).
+ * A recorded decode, its stored figures read back (or decoded again when missing). A draft decode
+ * whose draft has changed since cannot be reproduced and says so (410), as does one whose map was deleted.
  */
-export async function getDecoded(
+export async function openDecode(
 	services: Services,
 	workspaceId: string,
 	captureId: string,
 	decodeId: string
-): Promise<Decoded> {
-	const { decode, entry } = await decodedEntry(services, workspaceId, captureId, decodeId);
-	return {
-		decode,
-		map: entry.map,
-		compiled: entry.compiled,
-		store: entry.store,
-		result: entry.result
-	};
-}
-
-/** `getDecoded` plus the JSON summary (computed once per cached decode). */
-export async function getDecodeSummary(
-	services: Services,
-	workspaceId: string,
-	captureId: string,
-	decodeId: string
-): Promise<DecodeResponse> {
-	const { decode, entry } = await decodedEntry(services, workspaceId, captureId, decodeId);
-	return { decode, summary: summaryOf(entry) };
-}
-
-async function decodedEntry(
-	services: Services,
-	workspaceId: string,
-	captureId: string,
-	decodeId: string
-): Promise<{ decode: DecodeRecord; entry: CacheEntry }> {
+): Promise<OpenDecode> {
 	const { db } = services;
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
 	const decode = await findDecode(db, capture.id, decodeId);
@@ -211,44 +210,97 @@ async function decodedEntry(
 		);
 	}
 	const mapId = decode.mapId;
-	const key = decodeCacheKey(capture.id, mapId, decode.revision, decode.draftVersion);
-	const entry = await cached(services, key, async () => {
-		let map: CanMap;
-		if (decode.revision !== null) map = (await requireRevision(db, mapId, decode.revision)).map;
-		else {
-			const current = await requireMap(db, workspaceId, mapId);
-			if (current.version !== decode.draftVersion) {
-				throw new Problem(
-					410,
-					`This decode used version ${decode.draftVersion} of the draft of "${decode.mapName}", which has changed since (now version ${current.version}); decode again with the draft or a published revision.`
-				);
-			}
-			map = current.draft;
+	let map: CanMap;
+	if (decode.revision !== null) map = (await requireRevision(db, mapId, decode.revision)).map;
+	else {
+		const current = await requireMap(db, workspaceId, mapId);
+		if (current.version !== decode.draftVersion) {
+			throw new Problem(
+				410,
+				`This decode used version ${decode.draftVersion} of the draft of "${decode.mapName}", which has changed since (now version ${current.version}); decode again with the draft or a published revision.`
+			);
 		}
-		return computeEntry(services, capture, map)();
-	});
-	return { decode, entry };
+		map = current.draft;
+	}
+	const indexKey = await captureIndexKey(services, capture);
+	const folder = decodeFolder(
+		captureKeys(capture.workspace_id, capture.id).folder,
+		mapId,
+		decode.revision,
+		decode.draftVersion
+	);
+	return {
+		decode,
+		capture,
+		map,
+		indexKey,
+		folder,
+		stored: await storedDecode(services, indexKey, folder, map)
+	};
+}
+
+/** The compiled map of an open decode (kept for the next request). */
+export function compiledOf(open: Pick<OpenDecode, 'folder' | 'map'>): Promise<CompiledMap> {
+	return compiledMaps.get(open.folder, async () => compileMap(open.map));
+}
+
+/** The JSON summary of a recorded decode. */
+export async function getDecodeSummary(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	decodeId: string
+): Promise<DecodeResponse> {
+	const { decode, stored } = await openDecode(services, workspaceId, captureId, decodeId);
+	return { decode, summary: stored.summary };
+}
+
+/** Every sample of one channel of a decode, decoded in a worker (tests and small captures: memory grows with the channel). */
+export async function decodedChannelSamples(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	decodeId: string,
+	channel: number
+): Promise<{ time: Float64Array; value: Float64Array }> {
+	const open = await openDecode(services, workspaceId, captureId, decodeId);
+	return runCaptureTask({
+		kind: 'samples',
+		storage: services.storage.settings,
+		indexKey: open.indexKey,
+		map: open.map,
+		folder: open.folder,
+		channel
+	} satisfies SamplesTask);
 }
 
 /**
- * A processed capture decoded with a published map revision, for a read that stores nothing (a
- * receiver profile checked on the capture, its device alerts replayed): the same per-process cache
- * as recorded decodes, but no decode record and no audit entry, since nothing changes.
+ * A processed capture decoded with a published map revision, for a read that records nothing (a
+ * receiver profile checked on the capture, its device alerts replayed): the decode's figures are
+ * stored and shared like a recorded decode's, but no decode record and no audit entry are made.
  */
-export async function decodeWithRevision(
+export async function openRevisionDecode(
 	services: Services,
 	workspaceId: string,
 	captureId: string,
 	mapId: string,
 	revision: number
-): Promise<{ capture: CaptureRow; map: CanMap; result: CaptureDecoding }> {
+): Promise<Omit<OpenDecode, 'decode'>> {
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
 	await requireMap(services.db, workspaceId, mapId);
 	const map = (await requireRevision(services.db, mapId, revision)).map;
-	const entry = await cached(
-		services,
-		decodeCacheKey(capture.id, mapId, revision, null),
-		computeEntry(services, capture, map)
+	const indexKey = await captureIndexKey(services, capture);
+	const folder = decodeFolder(
+		captureKeys(capture.workspace_id, capture.id).folder,
+		mapId,
+		revision,
+		null
 	);
-	return { capture, map: entry.map, result: entry.result };
+	return {
+		capture,
+		map,
+		indexKey,
+		folder,
+		stored: await storedDecode(services, indexKey, folder, map)
+	};
 }

@@ -10,7 +10,7 @@ import { requireMap } from '../maps/maps';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { requireCaptureRow } from './captures-db';
-import { getDecoded } from './decoding';
+import { openDecode } from './decoding';
 import { undocumentedFrame, undocumentedFrameName } from './undocumented-frame';
 
 export async function defineFrameFromCapture(
@@ -21,9 +21,9 @@ export async function defineFrameFromCapture(
 	actorId: string
 ): Promise<DefinedFrameResponse> {
 	const { db } = services;
-	const { decode, result } = await getDecoded(services, workspaceId, captureId, input.decode);
+	const { decode, stored } = await openDecode(services, workspaceId, captureId, input.decode);
 	const label = undocumentedFrameName(input.id, input.extended);
-	const seen = result.ids.find((s) => s.id === input.id && s.extended === input.extended);
+	const seen = stored.summary.ids.find((s) => s.id === input.id && s.extended === input.extended);
 	if (!seen) {
 		throw new Problem(
 			404,

@@ -1,43 +1,21 @@
 /**
  * A capture as a streamed CSV download: its raw frames in the canonical layout, or the channels of
- * a decode in long or wide form. Decoded exports name the map revision in the file name and in
- * `X-Framewright-Revision`.
+ * a decode in long or wide form, produced in a capture worker from the chunked store and streamed
+ * with back-pressure (export-stream.ts), so a download of any size blocks no other request. Decoded
+ * exports name the map revision in the file name and in `X-Framewright-Revision`.
  */
 import type { z } from 'zod';
 import type { exportQuerySchema } from '../../api/capture-views';
-import {
-	canonicalCaptureCsv,
-	captureExportFileName,
-	csvByteStream,
-	longFormCsv,
-	wideFormCsv
-} from '../../can/capture/export';
+import { captureExportFileName } from '../../can/capture/export';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { getDecoded, requireReadyCapture, revisionLabel } from './decoding';
-import { loadFrameStore } from './store';
+import { captureIndexKey, openDecode, requireReadyCapture, revisionLabel } from './decoding';
+import { ExportRefused, streamFromWorker } from './export-stream';
+import { runCaptureTask } from './pool';
+import type { ExportTask } from './work/tasks';
 
 /** The capture's own name without its file extension, for the download's name. */
 const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
-
-/**
- * Pulls the first chunk before the response starts, so a refusal (a wide export with far too many
- * rows) becomes a 400 instead of a download that breaks off.
- */
-function primed(chunks: Generator<string>): Iterable<string> {
-	let first: IteratorResult<string>;
-	try {
-		first = chunks.next();
-	} catch (thrown) {
-		if (thrown instanceof RangeError)
-			throw new Problem(400, thrown.message, [{ path: 'interval', message: thrown.message }]);
-		throw thrown;
-	}
-	return (function* () {
-		if (!first.done) yield first.value;
-		yield* { [Symbol.iterator]: () => chunks };
-	})();
-}
 
 export async function exportCapture(
 	services: Services,
@@ -50,26 +28,52 @@ export async function exportCapture(
 		'content-type': 'text/csv; charset=utf-8',
 		'cache-control': 'no-store'
 	});
-	let chunks: Iterable<string>;
+	let task: Omit<ExportTask, 'port' | 'storage'>;
 	let fileName: string;
 	if (q.kind === 'frames') {
-		chunks = primed(canonicalCaptureCsv(await loadFrameStore(services, capture)));
+		task = {
+			kind: 'export',
+			exportKind: 'frames',
+			indexKey: await captureIndexKey(services, capture),
+			map: null,
+			interval: q.interval,
+			mode: q.mode,
+			channelTimes: []
+		};
 		fileName = captureExportFileName(baseName(capture.name), 'frames');
 	} else {
 		// exportQuerySchema requires a decode for the decoded kinds.
-		const { decode, result } = await getDecoded(services, workspaceId, capture.id, q.decode!);
-		const revision = revisionLabel(decode);
-		chunks = primed(
-			q.kind === 'long'
-				? longFormCsv(result.channels)
-				: wideFormCsv(result.channels, { interval: q.interval, mode: q.mode })
-		);
+		const open = await openDecode(services, workspaceId, capture.id, q.decode!);
+		const revision = revisionLabel(open.decode);
+		task = {
+			kind: 'export',
+			exportKind: q.kind,
+			indexKey: open.indexKey,
+			map: open.map,
+			interval: q.interval,
+			mode: q.mode,
+			channelTimes: open.stored.channels
+		};
 		fileName = captureExportFileName(baseName(capture.name), q.kind, {
-			mapName: decode.mapName,
+			mapName: open.decode.mapName,
 			revision
 		});
 		headers.set('x-framewright-revision', revision);
 	}
+	let body: ReadableStream<Uint8Array>;
+	try {
+		body = await streamFromWorker((port) =>
+			runCaptureTask(
+				{ ...task, storage: services.storage.settings, port: port as never },
+				{ transferList: [port] }
+			)
+		);
+	} catch (error) {
+		// A refusal (a wide export with far too many rows) becomes a 400, before the download starts.
+		if (error instanceof ExportRefused)
+			throw new Problem(400, error.message, [{ path: 'interval', message: error.message }]);
+		throw error;
+	}
 	headers.set('content-disposition', `attachment; filename="${fileName}"`);
-	return new Response(csvByteStream(chunks), { headers });
+	return new Response(body, { headers });
 }

@@ -1,9 +1,12 @@
 /**
  * The frames table of a capture: pages of received frames (optionally one ID only) and one frame
  * decoded signal by signal with the core's reference codec, so the table shows exactly what the
- * map says, labels included.
+ * map says, labels included. Read from the chunked store a segment at a time (a page or one frame
+ * is cheap work, done on the server thread).
  */
-import { FLAG_EXTENDED, type FrameStore } from '../../can/capture/frame-store';
+import type { ChunkSource } from '../../can/capture/chunked-decode';
+import type { FrameColumns } from '../../can/capture/frame-columns';
+import { FLAG_EXTENDED } from '../../can/capture/frame-store';
 import { decodeFrame } from '../../can/codec';
 import type { CompiledMap } from '../../can/decoder';
 import type {
@@ -15,61 +18,102 @@ import type {
 } from '../../api/capture-views';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { getDecoded, requireReadyCapture } from './decoding';
-import { loadFrameStore } from './store';
+import { openChunkSource } from './capture-store';
+import { captureIndexKey, compiledOf, openDecode, requireReadyCapture } from './decoding';
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
 
-function frameRow(store: FrameStore, i: number): FrameRow {
-	const payload = store.payload(i);
+function frameRow(c: FrameColumns, i: number, index: number): FrameRow {
 	let dataHex = '';
-	for (let k = 0; k < payload.length; k++) dataHex += (k ? ' ' : '') + HEX[payload[k]];
+	for (let k = 0, at = c.dataOffset[i]; k < c.length[i]; k++)
+		dataHex += (k ? ' ' : '') + HEX[c.data[at + k]];
 	return {
-		index: i,
-		time: store.time[i],
-		id: store.id[i],
-		extended: (store.flags[i] & FLAG_EXTENDED) !== 0,
-		length: payload.length,
+		index,
+		time: c.time[i],
+		id: c.id[i],
+		extended: (c.flags[i] & FLAG_EXTENDED) !== 0,
+		length: c.length[i],
 		dataHex
 	};
 }
 
-/** One page of frames in capture order; `total` counts every frame the filter lets through. */
-function listFrames(
-	store: FrameStore,
+/**
+ * One page of frames in capture order; `total` counts every frame the filter lets through. Only
+ * the segments the page falls in are read: frame i is at position i mod segmentFrames of segment
+ * i ÷ segmentFrames, and with an ID filter the index tells how many of its frames each segment holds.
+ */
+async function listFrames(
+	source: ChunkSource,
 	query: Pick<FramesQuery, 'offset' | 'limit' | 'id' | 'extended'>
-): FramesResponse {
+): Promise<FramesResponse> {
+	const { index } = source;
 	const { offset, limit, id, extended } = query;
+	const W = index.header.segmentFrames;
 	const frames: FrameRow[] = [];
 	if (id === undefined) {
-		for (let i = offset; i < Math.min(store.count, offset + limit); i++)
-			frames.push(frameRow(store, i));
-		return { total: store.count, frames };
+		const end = Math.min(index.header.frameCount, offset + limit);
+		for (let i = offset; i < end;) {
+			const s = Math.floor(i / W);
+			const c = (await source.segment(s)).columns();
+			for (let p = i - s * W; p < c.count && i < end; p++, i++) frames.push(frameRow(c, p, i));
+		}
+		return { total: index.header.frameCount, frames };
 	}
-	// One pass over the ID column: cheap next to JSON (a few ms for a million frames).
-	const ids = store.id;
-	const flags = store.flags;
+	const keys = [false, true]
+		.filter((e) => extended === undefined || extended === e)
+		.map((e) => index.keyOf(id, e))
+		.filter((k) => k >= 0);
+	// Frames of the filter per segment, in segment order.
+	const perSegment = new Map<number, number>();
 	let total = 0;
-	for (let i = 0; i < store.count; i++) {
-		if (ids[i] !== id) continue;
-		if (extended !== undefined && ((flags[i] & FLAG_EXTENDED) !== 0) !== extended) continue;
-		if (total >= offset && frames.length < limit) frames.push(frameRow(store, i));
-		total++;
+	for (const k of keys)
+		for (let c = index.keyChunkStart[k]; c < index.keyChunkStart[k + 1]; c++) {
+			const s = index.chunkSegment[c];
+			perSegment.set(s, (perSegment.get(s) ?? 0) + index.chunkFrames[c]);
+			total += index.chunkFrames[c];
+		}
+	let skip = offset;
+	for (const s of [...perSegment.keys()].sort((a, b) => a - b)) {
+		if (frames.length >= limit) break;
+		const n = perSegment.get(s)!;
+		if (skip >= n) {
+			skip -= n;
+			continue;
+		}
+		const c = (await source.segment(s)).columns();
+		for (let p = 0; p < c.count && frames.length < limit; p++) {
+			if (c.id[p] !== id) continue;
+			if (extended !== undefined && ((c.flags[p] & FLAG_EXTENDED) !== 0) !== extended) continue;
+			if (skip > 0) skip--;
+			else frames.push(frameRow(c, p, s * W + p));
+		}
 	}
 	return { total, frames };
 }
 
-function frameDetail(store: FrameStore, compiled: CompiledMap, index: number): FrameDetail {
-	if (index >= store.count) {
+async function frameDetail(
+	source: ChunkSource,
+	compiled: CompiledMap,
+	index: number
+): Promise<FrameDetail> {
+	const count = source.index.header.frameCount;
+	if (index >= count) {
 		throw new Problem(
 			404,
-			`This capture has ${store.count} frames (index 0–${store.count - 1}); there is no frame ${index}.`
+			`This capture has ${count} frames (index 0–${count - 1}); there is no frame ${index}.`
 		);
 	}
-	const row = frameRow(store, index);
+	const W = source.index.header.segmentFrames;
+	const s = Math.floor(index / W);
+	const c = (await source.segment(s)).columns();
+	const p = index - s * W;
+	const row = frameRow(c, p, index);
 	const definition = compiled.lookup(row.id, row.extended);
 	if (!definition) return { frame: { ...row, frameName: null }, signals: [] };
-	const results = decodeFrame(definition.frame, store.payload(index));
+	const results = decodeFrame(
+		definition.frame,
+		c.data.subarray(c.dataOffset[p], c.dataOffset[p] + c.length[p])
+	);
 	const signals = definition.frame.signals.map((signal, k): FrameSignalRow => {
 		const r = results[k];
 		if (!r.present)
@@ -103,7 +147,8 @@ export async function captureFrames(
 	query: FramesQuery
 ): Promise<FramesResponse> {
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
-	return listFrames(await loadFrameStore(services, capture), query);
+	const indexKey = await captureIndexKey(services, capture);
+	return listFrames(await openChunkSource(services.storage, indexKey), query);
 }
 
 /** Frame `index` of a capture with its signals as the map of decode `decode` reads them. */
@@ -113,6 +158,7 @@ export async function decodedFrame(
 	captureId: string,
 	query: { index: number; decode: string }
 ): Promise<FrameDetail> {
-	const { store, compiled } = await getDecoded(services, workspaceId, captureId, query.decode);
-	return frameDetail(store, compiled, query.index);
+	const open = await openDecode(services, workspaceId, captureId, query.decode);
+	const source = await openChunkSource(services.storage, open.indexKey);
+	return frameDetail(source, await compiledOf(open), query.index);
 }

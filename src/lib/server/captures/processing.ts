@@ -1,121 +1,55 @@
 /**
- * Processing a capture: its stored CSV is parsed once, in a worker thread, into the compact
- * FrameStore, which is stored beside it; reopening the capture later reads only that store.
- * The route answers 202 at once and the work runs in the background, writing progress
- * (bytes parsed / size) to the row for polling; failures end in status 'failed' with a readable
- * error, never a half-stored result.
+ * Processing a capture: its stored CSV is parsed once, in a capture worker thread (pool.ts), into
+ * the chunked frame store (chunk-store.ts) written segment by segment beside it; reopening the
+ * capture later reads only that store. The route answers 202 at once and the work runs in the
+ * background, writing progress (bytes parsed / size) to the row for polling; failures end in status
+ * 'failed' with a readable error, never a half-stored result. A capture deleted while it was being
+ * processed has its output discarded.
  */
-import { Worker } from 'node:worker_threads';
-import { ingestCapture } from '../../can/capture/ingest';
+import { MessageChannel } from 'node:worker_threads';
 import type { CaptureLayout } from '../../can/capture/layout';
 import { appendAudit } from '../workspaces/audit';
 import type { CaptureRow } from '../db/schema';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { byteChunks } from '../storage/storage';
+import type { BlobStorage } from '../storage/storage';
 import {
 	insertCapture,
 	requireCaptureRow,
 	requireCaptureSummary,
 	updateCapture
 } from './captures-db';
-import type { CaptureReport, CaptureSummary } from '../../api/captures';
-import { captureKeys, forgetFrameStore } from './store';
+import type { CaptureSummary } from '../../api/captures';
+import { captureKeys, forgetCaptureStore } from './capture-store';
+import { runCaptureTask } from './pool';
 import { DETECTION_BYTES, detectFromHead } from './upload';
-import { captureWorkerPath } from './worker-bundle';
-import type { FromWorker, ToWorker } from './worker-protocol';
+import { runProcess } from './work/process';
+import type { ProcessOutcome } from './work/tasks';
 
 type ProcessingServices = Pick<Services, 'db' | 'storage'>;
 
-/** Chunks sent to the worker and not yet parsed; bounds memory whatever the file size. */
-const MAX_CHUNKS_IN_FLIGHT = 4;
 /** Progress is written at most this often. */
 const PROGRESS_INTERVAL_MS = 250;
 
-export interface ParseOutcome {
-	report: CaptureReport;
-	frameCount: number;
-	durationS: number;
-	store: Uint8Array;
-	/** The worker thread that parsed (for tests and logs). */
-	threadId: number;
-}
-
-/** A capture's data rows could not be read as a whole (not a per-row problem). */
-export class CaptureProcessingError extends Error {
-	override name = 'CaptureProcessingError';
-}
-
-function reportOf(r: Omit<Awaited<ReturnType<typeof ingestCapture>>, 'store'>): CaptureReport {
-	return {
-		frameCount: r.frameCount,
-		lineCount: r.lineCount,
-		badRows: r.badRows,
-		badRowCount: r.badRowCount,
-		warnings: r.warnings,
-		layoutNotes: r.layoutNotes
-	};
-}
-
-/** Streams `source` to a new capture worker and resolves with its parse. */
-export async function parseInWorker(
-	source: AsyncIterable<Uint8Array>,
-	layout: CaptureLayout,
-	onProgress: (bytesParsed: number) => void = () => {}
-): Promise<ParseOutcome> {
-	const worker = new Worker(await captureWorkerPath(), { workerData: { layout } });
-	let inFlight = 0;
-	let parsed = 0;
-	let resume: (() => void) | null = null;
-	let failure: Error | null = null;
-	const result = new Promise<ParseOutcome>((resolve, reject) => {
-		worker.on('message', (message: FromWorker) => {
-			if (message.type === 'consumed') {
-				inFlight--;
-				parsed += message.bytes;
-				onProgress(parsed);
-				resume?.();
-			} else if (message.type === 'done') {
-				resolve({
-					report: reportOf(message.report),
-					frameCount: message.report.frameCount,
-					durationS: message.durationS,
-					store: message.store,
-					threadId: message.threadId
-				});
-			} else {
-				reject(
-					message.formatError
-						? new CaptureProcessingError(message.message)
-						: new Error(message.message)
-				);
-			}
-		});
-		worker.on('error', reject);
-		worker.on('exit', (code) =>
-			reject(new Error(`the capture worker stopped unexpectedly (exit code ${code})`))
-		);
-	});
-	result.catch((error: Error) => {
-		failure = error;
-		resume?.();
-	});
+/**
+ * Parses a stored capture file in a worker thread into a chunked store under `storeFolder`;
+ * `onProgress` gets the bytes read so far.
+ */
+export async function processInWorker(
+	storage: BlobStorage,
+	input: { rawKey: string; layout: CaptureLayout; storeFolder: string; segmentFrames?: number },
+	onProgress: (bytesRead: number) => void = () => {},
+	signal?: AbortSignal
+): Promise<ProcessOutcome> {
+	const { port1, port2 } = new MessageChannel();
+	port1.on('message', (m: { bytes: number }) => onProgress(m.bytes));
 	try {
-		for await (const chunk of source) {
-			if (failure) break;
-			// A copy the worker can own (transferred, not cloned); storage may reuse its buffers.
-			const bytes = chunk.slice();
-			worker.postMessage({ type: 'chunk', bytes } satisfies ToWorker, [bytes.buffer]);
-			inFlight++;
-			while (inFlight >= MAX_CHUNKS_IN_FLIGHT && !failure) {
-				await new Promise<void>((r) => (resume = r));
-				resume = null;
-			}
-		}
-		if (!failure) worker.postMessage({ type: 'end' } satisfies ToWorker);
-		return await result;
+		return await runCaptureTask<ProcessOutcome>(
+			{ kind: 'process', storage: storage.settings, ...input, progress: port2 as never },
+			{ transferList: [port2], signal }
+		);
 	} finally {
-		await worker.terminate();
+		port1.close();
 	}
 }
 
@@ -123,16 +57,26 @@ async function* single(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
 	yield bytes;
 }
 
-/** Work in progress, by capture id, so tests and shutdown can wait for it. */
-const running = new Map<string, Promise<void>>();
+/** Work in progress, by capture id, so tests and shutdown can wait for it and a deletion can stop it. */
+const running = new Map<
+	string,
+	{ work: Promise<void>; workspaceId: string; abort: AbortController }
+>();
 
 export function processingDone(captureId: string): Promise<void> {
-	return running.get(captureId) ?? Promise.resolve();
+	return running.get(captureId)?.work ?? Promise.resolve();
 }
 
-/** Settles when every processing running now has finished (for shutdown). */
-export async function allProcessingDone(): Promise<void> {
-	await Promise.allSettled([...running.values()]);
+/** Stops the processing of every capture of a workspace being deleted, and waits for it to end. */
+export async function stopWorkspaceProcessing(workspaceId: string): Promise<void> {
+	const stopping = [...running.values()].filter((r) => r.workspaceId === workspaceId);
+	for (const r of stopping) r.abort.abort();
+	await Promise.all(stopping.map((r) => r.work));
+}
+
+/** Every processing still running (for shutdown). */
+export function allProcessingDone(): Promise<unknown> {
+	return Promise.all([...running.values()].map((r) => r.work));
 }
 
 export const INTERRUPTED_MESSAGE =
@@ -140,14 +84,26 @@ export const INTERRUPTED_MESSAGE =
 
 /**
  * At server start no worker of this process can be running, so a capture still marked
- * 'processing' was cut off by a restart: it is marked failed (and can be processed again).
+ * 'processing' was cut off by a restart: it is marked failed (and can be processed again), and the
+ * segments it had written are removed when the storage is given.
  */
-export async function failInterruptedProcessing(db: ProcessingServices['db']): Promise<number> {
+export async function failInterruptedProcessing(
+	db: ProcessingServices['db'],
+	storage?: BlobStorage
+): Promise<number> {
+	const cut = await db
+		.selectFrom('captures')
+		.select(['id', 'workspace_id'])
+		.where('status', '=', 'processing')
+		.execute();
 	const result = await db
 		.updateTable('captures')
 		.set({ status: 'failed', progress: 0, error: INTERRUPTED_MESSAGE, store_key: null })
 		.where('status', '=', 'processing')
 		.executeTakeFirst();
+	if (storage)
+		for (const c of cut)
+			await storage.deletePrefix(captureKeys(c.workspace_id, c.id).storeFolder).catch(() => 0);
 	return Number(result.numUpdatedRows);
 }
 
@@ -185,30 +141,56 @@ export async function startProcessing(
 		action: 'capture.process',
 		target: row.id
 	});
-	const work = runProcessing(services, row, input.layout).finally(() => running.delete(row.id));
-	running.set(row.id, work);
+	const abort = new AbortController();
+	const work = runProcessing(services, row, input.layout, abort.signal).finally(() =>
+		running.delete(row.id)
+	);
+	running.set(row.id, { work, workspaceId: row.workspace_id, abort });
 	return requireCaptureSummary(services.db, input.workspaceId, row.id);
 }
 
-/** Stores the frame store, then marks the row ready with its report (the row never points at a missing store). */
+/**
+ * Marks the row ready with its report once its store is complete; when the row is gone or no longer
+ * processing (deleted meanwhile), the store is removed instead and false returned.
+ */
 async function saveOutcome(
 	services: ProcessingServices,
-	captureId: string,
-	storeKey: string,
-	outcome: Omit<ParseOutcome, 'threadId'>
+	row: Pick<CaptureRow, 'id' | 'workspace_id'>,
+	outcome: Extract<ProcessOutcome, { ok: true }>
+): Promise<boolean> {
+	const updated = await services.db
+		.updateTable('captures')
+		.set({
+			status: 'ready',
+			progress: 1,
+			report_json: JSON.stringify(outcome.report),
+			frame_count: outcome.frameCount,
+			duration_s: outcome.durationS,
+			store_key: outcome.indexKey,
+			error: null,
+			processed_at: new Date().toISOString()
+		})
+		.where('id', '=', row.id)
+		.where('status', '=', 'processing')
+		.executeTakeFirst();
+	if (Number(updated.numUpdatedRows) === 1) return true;
+	await discardOutput(services, row);
+	return false;
+}
+
+/** What processing wrote for a capture that is gone (its whole folder if the row is gone too). */
+async function discardOutput(
+	services: ProcessingServices,
+	row: Pick<CaptureRow, 'id' | 'workspace_id'>
 ): Promise<void> {
-	await services.storage.put(storeKey, single(outcome.store));
-	forgetFrameStore(storeKey);
-	await updateCapture(services.db, captureId, {
-		status: 'ready',
-		progress: 1,
-		report_json: JSON.stringify(outcome.report),
-		frame_count: outcome.frameCount,
-		duration_s: outcome.durationS,
-		store_key: storeKey,
-		error: null,
-		processed_at: new Date().toISOString()
-	});
+	const keys = captureKeys(row.workspace_id, row.id);
+	const exists = await services.db
+		.selectFrom('captures')
+		.select('id')
+		.where('id', '=', row.id)
+		.executeTakeFirst();
+	await services.storage.deletePrefix(exists ? keys.storeFolder : keys.folder);
+	forgetCaptureStore(row.id);
 }
 
 /**
@@ -237,15 +219,14 @@ export async function importCaptureInProcess(
 		detected,
 		layout: detected.layout
 	});
-	const { store, ...report } = await ingestCapture(input.text, { layout: detected.layout });
-	let durationS = 0;
-	for (const t of store.time) if (t > durationS) durationS = t;
-	await saveOutcome(services, id, keys.store, {
-		report: reportOf(report),
-		frameCount: report.frameCount,
-		durationS,
-		store: store.toBytes()
+	const outcome = await runProcess(services.storage, {
+		rawKey: keys.raw,
+		layout: detected.layout,
+		storeFolder: keys.storeFolder
 	});
+	if (!outcome.ok)
+		throw new Error(`The demo capture ${input.fileName} does not parse: ${outcome.message}`);
+	await saveOutcome(services, { id, workspace_id: input.workspaceId }, outcome);
 	return id;
 }
 
@@ -253,9 +234,10 @@ export async function importCaptureInProcess(
 async function runProcessing(
 	services: ProcessingServices,
 	row: CaptureRow,
-	layout: CaptureLayout
+	layout: CaptureLayout,
+	signal: AbortSignal
 ): Promise<void> {
-	const storeKey = captureKeys(row.workspace_id, row.id).store;
+	const keys = captureKeys(row.workspace_id, row.id);
 	let lastWrite = 0;
 	let writing: Promise<void> = Promise.resolve();
 	const onProgress = (bytes: number) => {
@@ -266,23 +248,34 @@ async function runProcessing(
 		const progress = Math.min(0.99, row.size_bytes > 0 ? bytes / row.size_bytes : 0);
 		writing = writing.then(() => updateCapture(services.db, row.id, { progress })).catch(() => {});
 	};
+	let message: string;
 	try {
-		const source = byteChunks(await services.storage.get(row.raw_key));
-		const outcome = await parseInWorker(source, layout, onProgress);
+		// What an earlier, failed attempt may have left.
+		await services.storage.deletePrefix(keys.storeFolder);
+		const outcome = await processInWorker(
+			services.storage,
+			{ rawKey: row.raw_key, layout, storeFolder: keys.storeFolder },
+			onProgress,
+			signal
+		);
 		await writing;
-		await saveOutcome(services, row.id, storeKey, outcome);
+		if (outcome.ok) {
+			await saveOutcome(services, row, outcome);
+			return;
+		}
+		message = outcome.formatError
+			? outcome.message
+			: `Processing failed: ${outcome.message}. The uploaded file is kept; try again or upload it again.`;
 	} catch (error) {
 		await writing;
-		await services.storage.delete(storeKey).catch(() => {});
-		const message =
-			error instanceof CaptureProcessingError
-				? error.message
-				: `Processing failed: ${error instanceof Error ? error.message : String(error)}. The uploaded file is kept; try again or upload it again.`;
-		await updateCapture(services.db, row.id, {
-			status: 'failed',
-			progress: 0,
-			error: message,
-			store_key: null
-		}).catch(() => {});
+		message = `Processing failed: ${error instanceof Error ? error.message : String(error)}. The uploaded file is kept; try again or upload it again.`;
 	}
+	await discardOutput(services, row).catch(() => {});
+	await services.db
+		.updateTable('captures')
+		.set({ status: 'failed', progress: 0, error: message, store_key: null })
+		.where('id', '=', row.id)
+		.where('status', '=', 'processing')
+		.execute()
+		.catch(() => {});
 }

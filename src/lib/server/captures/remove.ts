@@ -1,12 +1,16 @@
-/** Deleting a capture: owners delete any, others only their own uploads; its blobs go with it. */
+/**
+ * Deleting a capture (owners delete any, others only their own uploads) or every capture of a
+ * workspace being deleted: the rows go first, then every object under the capture's (or the
+ * workspace's) storage folder — upload, chunked store, stored decodes — so nothing is left orphaned.
+ */
 import { appendAudit } from '../workspaces/audit';
 import { Problem } from '../problem';
 import type { Role } from '../../roles';
 import type { Services } from '../services';
 import { deleteCaptureRow, requireCaptureRow } from './captures-db';
+import { captureKeys, workspaceCaptureFolder } from './capture-store';
 import { forgetCaptureDecodes } from './decoding';
-import { processingDone } from './processing';
-import { captureKeys, forgetFrameStore } from './store';
+import { processingDone, stopWorkspaceProcessing } from './processing';
 
 export async function deleteCapture(
 	services: Pick<Services, 'db' | 'storage'>,
@@ -33,9 +37,20 @@ export async function deleteCapture(
 			details: { name: row.name }
 		});
 	});
-	const keys = captureKeys(row.workspace_id, row.id);
-	forgetFrameStore(row.store_key);
-	forgetCaptureDecodes(services, row.id);
-	for (const key of new Set([row.raw_key, keys.store, ...(row.store_key ? [row.store_key] : [])]))
-		await services.storage.delete(key);
+	forgetCaptureDecodes(row.id);
+	await services.storage.deletePrefix(captureKeys(row.workspace_id, row.id).folder);
+	// An upload stored outside the capture's folder (none today) goes too.
+	await services.storage.delete(row.raw_key);
+}
+
+/**
+ * The storage side of deleting a workspace, after its rows are gone: processing of its captures is
+ * stopped (what it wrote is discarded) and every object under the workspace's folder is removed.
+ */
+export async function deleteWorkspaceCaptures(
+	services: Pick<Services, 'storage'>,
+	workspaceId: string
+): Promise<void> {
+	await stopWorkspaceProcessing(workspaceId);
+	await services.storage.deletePrefix(workspaceCaptureFolder(workspaceId));
 }

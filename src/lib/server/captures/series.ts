@@ -1,13 +1,15 @@
 /**
  * One decoded channel over [from, to] (the whole capture by default), min/max-decimated to `points`
  * buckets, so a plot gets at most 2 × points values whatever the channel's length (plus one
- * neighbour each side).
+ * neighbour each side). Answered in the interactive worker pool (work/series.ts): exactly from the
+ * channel's chunks for a window with few samples, from its stored pyramid for a wide one.
  */
 import type { SeriesQuery, SeriesResponse } from '../../api/capture-views';
-import { decimateMinMax } from '../../can/capture/decimate';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { getDecoded } from './decoding';
+import { openDecode } from './decoding';
+import { runCaptureTask } from './pool';
+import type { SeriesOutcome } from './work/tasks';
 
 export async function channelSeries(
 	services: Services,
@@ -15,19 +17,34 @@ export async function channelSeries(
 	captureId: string,
 	q: SeriesQuery
 ): Promise<SeriesResponse> {
-	const { result } = await getDecoded(services, workspaceId, captureId, q.decode);
-	const channel = result.channels.find((c) => c.info.index === q.channel);
-	if (!channel) {
+	const open = await openDecode(services, workspaceId, captureId, q.decode);
+	const { summary, channels } = open.stored;
+	const info = summary.channels.find((c) => c.index === q.channel);
+	if (!info) {
 		throw new Problem(
 			404,
-			`This decode has ${result.channels.length} channels (0–${result.channels.length - 1}); there is no channel ${q.channel}.`,
+			`This decode has ${summary.channels.length} channels (0–${summary.channels.length - 1}); there is no channel ${q.channel}.`,
 			[{ path: 'channel', message: 'no such channel in this decode' }]
 		);
 	}
 	const from = q.from ?? Math.min(0, q.to ?? 0);
-	const to = q.to ?? Math.max(result.duration, from);
-	const d = decimateMinMax(channel.time, channel.value, from, to, q.points);
-	const { info } = channel;
+	const to = q.to ?? Math.max(summary.durationS, from);
+	const outcome = await runCaptureTask<SeriesOutcome>(
+		{
+			kind: 'series',
+			storage: services.storage.settings,
+			indexKey: open.indexKey,
+			map: open.map,
+			folder: open.folder,
+			channel: q.channel,
+			from,
+			to,
+			points: q.points,
+			pyramidOffset: channels[q.channel].pyramidOffset,
+			pyramidBytes: channels[q.channel].pyramidBytes
+		},
+		{ interactive: true }
+	);
 	return {
 		channel: {
 			index: info.index,
@@ -35,10 +52,6 @@ export async function channelSeries(
 			signalName: info.signalName,
 			unit: info.unit
 		},
-		time: Array.from(d.time),
-		// ±Infinity (a float field can carry it) has no JSON form
-		value: Array.from(d.value, (v) => (Number.isFinite(v) ? v : null)),
-		decimated: !d.raw,
-		samplesInRange: d.inRange
+		...outcome
 	};
 }

@@ -18,7 +18,13 @@ function declarableLength(bytes: number): number {
 	return PAYLOAD_LENGTHS.find((n) => n >= bytes) ?? 64;
 }
 
-export function undocumentedFrame(seen: IdStatistics, captureName: string): Frame {
+export function undocumentedFrame(
+	seen: Pick<
+		IdStatistics,
+		'id' | 'extended' | 'count' | 'meanPeriodMs' | 'minLength' | 'maxLength'
+	>,
+	captureName: string
+): Frame {
 	// A period under 1 ms rounds to 0, which is no cycle time; such a frame is left without one.
 	const cycle = seen.meanPeriodMs === null ? null : Math.round(seen.meanPeriodMs);
 	return frameSchema.parse({

@@ -13,7 +13,7 @@ import type { Services } from '../services';
 import { byteChunks, formatBytes, StorageLimitError } from '../storage/storage';
 import { appendAudit } from '../workspaces/audit';
 import { insertCapture, requireCaptureSummary } from './captures-db';
-import { captureKeys } from './store';
+import { captureKeys } from './capture-store';
 
 /** Bytes kept aside for the layout guess. */
 export const DETECTION_BYTES = 64 * 1024;

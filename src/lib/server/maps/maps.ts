@@ -2,12 +2,12 @@
  * Repository of maps: list, find, create, delete. Draft changes are in `drafts.ts`, revisions in
  * `revisions.ts`. A map of another workspace is as unknown as a missing one.
  */
-import { sql } from 'kysely';
 import type { MapSummary } from '../../api/maps';
 import type { PersonRef } from '../../api/shapes';
 import type { CanMap } from '../../can/map';
 import { parseMap, serializeMap } from '../../can/map-json';
 import type { DB } from '../db/connection';
+import { jsonArrayLength } from '../db/dialect';
 import { personRef } from '../people';
 import { Problem } from '../problem';
 import { appendAudit } from '../workspaces/audit';
@@ -50,7 +50,7 @@ export async function listMaps(db: DB, workspaceId: string): Promise<MapSummary[
 				.select((r) => r.fn.max('map_revisions.number').as('n'))
 				.whereRef('map_revisions.map_id', '=', 'maps.id')
 				.as('latestRevision'),
-			sql<number>`json_array_length(maps.draft_json, '$.frames')`.as('frameCount')
+			jsonArrayLength(db, 'maps.draft_json', 'frames').as('frameCount')
 		])
 		.where('maps.workspace_id', '=', workspaceId)
 		.orderBy('maps.updated_at', 'desc')

@@ -6,23 +6,42 @@
 import type { RevisionRef } from '../../api/maps';
 import type { CheckResponse } from '../../api/receivers';
 import { UnknownRuleError, type AlertReplay } from '../../can/alerts/replay';
-import type { CaptureDecoding } from '../../can/capture/decode-capture';
-import type { CanMap } from '../../can/map';
-import { checkOnCapture } from '../../can/receivers/check';
+import type { CaptureCheck } from '../../can/receivers/check';
 import { replayDeviceAlerts } from '../../can/receivers/device-alerts';
-import { decodeWithRevision } from '../captures/decoding';
-import type { CaptureRow } from '../db/schema';
+import { openRevisionDecode, type OpenDecode } from '../captures/decoding';
+import { runCaptureTask } from '../captures/pool';
+import type { ReceiverTask } from '../captures/work/tasks';
 import { Problem } from '../problem';
 import type { Services } from '../services';
 import { loadProfileSnapshot, type ProfileSnapshot } from './revisions';
 
 interface Checked {
 	snapshot: ProfileSnapshot;
-	capture: CaptureRow;
 	mapId: string;
 	revision: number;
-	map: CanMap;
-	result: CaptureDecoding;
+	open: Omit<OpenDecode, 'decode'>;
+}
+
+/** The profile's work on the capture, in a capture worker (captures/work/receivers.ts). */
+function runOnCapture<T>(
+	services: Services,
+	c: Checked,
+	what: ReceiverTask['what'],
+	acknowledgements: ReceiverTask['acknowledgements'] = []
+): Promise<T> {
+	const { profile, links } = c.snapshot.draft;
+	return runCaptureTask<T>({
+		kind: 'receiver',
+		what,
+		storage: services.storage.settings,
+		indexKey: c.open.indexKey,
+		map: c.open.map,
+		folder: c.open.folder,
+		profile,
+		links,
+		duration: c.open.stored.summary.durationS,
+		acknowledgements
+	} satisfies ReceiverTask);
 }
 
 async function decodeForProfile(
@@ -40,14 +59,14 @@ async function decodeForProfile(
 				? `The map ${snapshot.label} of this profile was linked to has been deleted; link the profile to another map first.`
 				: `The ${snapshot.label} of this profile is not linked to a map revision; link it first, then check it on a capture.`
 		);
-	const { capture, map, result } = await decodeWithRevision(
+	const open = await openRevisionDecode(
 		services,
 		workspaceId,
 		input.capture,
 		target.mapId,
 		target.revision
 	);
-	return { snapshot, capture, mapId: target.mapId, revision: target.revision, map, result };
+	return { snapshot, mapId: target.mapId, revision: target.revision, open };
 }
 
 /** The installer's checklist: each wanted channel on the capture, in sentences. */
@@ -58,12 +77,11 @@ export async function checkProfileOnCapture(
 	input: { capture: string; rev: RevisionRef }
 ): Promise<CheckResponse> {
 	const c = await decodeForProfile(services, workspaceId, profileId, input);
-	const { profile, links } = c.snapshot.draft;
 	return {
-		capture: { id: c.capture.id, name: c.capture.name },
-		map: { id: c.mapId, name: c.map.name, revision: c.revision },
+		capture: { id: c.open.capture.id, name: c.open.capture.name },
+		map: { id: c.mapId, name: c.open.map.name, revision: c.revision },
 		profile: c.snapshot.label,
-		check: checkOnCapture(profile, c.map, links, c.result.channels)
+		check: await runOnCapture<CaptureCheck>(services, c, 'check')
 	};
 }
 
@@ -81,13 +99,8 @@ export async function replayProfileAlerts(
 	const c = await decodeForProfile(services, workspaceId, profileId, input);
 	const { profile, links } = c.snapshot.draft;
 	try {
-		return replayDeviceAlerts(
-			profile,
-			links,
-			c.result.channels,
-			c.result.duration,
-			input.acknowledgements
-		);
+		// Checks the acknowledgements against the rules here (no channel needed), for a 400 with the path.
+		replayDeviceAlerts(profile, links, [], 0, input.acknowledgements);
 	} catch (error) {
 		if (error instanceof UnknownRuleError)
 			throw new Problem(400, 'An acknowledgement names a rule this profile does not have.', [
@@ -95,4 +108,5 @@ export async function replayProfileAlerts(
 			]);
 		throw error;
 	}
+	return runOnCapture<AlertReplay>(services, c, 'alerts', input.acknowledgements);
 }

@@ -8,3 +8,4 @@ export {
 } from './local';
 export { createS3Storage, type S3StorageOptions } from './s3';
 export { storageFromEnv, storageSettingsFromEnv } from './config';
+export { storageFromSettings } from './settings';

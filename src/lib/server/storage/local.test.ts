@@ -9,6 +9,7 @@ import {
 	StorageNotFoundError,
 	type BlobStorage
 } from './storage';
+import { storageFromSettings } from './settings';
 
 let root: string;
 let storage: BlobStorage;
@@ -141,5 +142,49 @@ describe('local storage', () => {
 		await expect(storage.exists(key)).rejects.toBeInstanceOf(StorageKeyError);
 		await expect(storage.delete(key)).rejects.toBeInstanceOf(StorageKeyError);
 		expect(await filesUnder(root)).toEqual([]);
+	});
+	it('reads byte ranges, lists and deletes by folder, and reopens from its settings', async () => {
+		const data = bytes(5000, 3);
+		async function* one(b: Uint8Array) {
+			yield b;
+		}
+		await storage.put('w1/c1/raw.csv', one(data));
+		await storage.put('w1/c1/store/a.bin', one(bytes(10)));
+		await storage.put('w1/c2/raw.csv', one(bytes(10)));
+		await storage.put('w2/c3/raw.csv', one(bytes(10)));
+		expect(Array.from(await storage.getRange('w1/c1/raw.csv', 100, 50))).toEqual(
+			Array.from(data.subarray(100, 150))
+		);
+		expect((await storage.getRange('w1/c1/raw.csv', 4990, 50)).length).toBe(10); // cut at the end
+		await expect(storage.getRange('w1/none', 0, 5)).rejects.toBeInstanceOf(StorageNotFoundError);
+		expect(await storage.list('w1/')).toEqual([
+			'w1/c1/raw.csv',
+			'w1/c1/store/a.bin',
+			'w1/c2/raw.csv'
+		]);
+		expect(await storage.list('w9/')).toEqual([]);
+		expect(await storage.deletePrefix('w1/c1/')).toBe(2);
+		expect(await storage.list('w1/')).toEqual(['w1/c2/raw.csv']);
+		expect(await storage.list('w2/')).toEqual(['w2/c3/raw.csv']);
+		await expect(storage.deletePrefix('')).rejects.toThrow(/whole store/);
+		await expect(storage.list('w1')).rejects.toBeInstanceOf(StorageKeyError);
+		const again = await storageFromSettings(structuredClone(storage.settings));
+		expect(Array.from(await again.getBytes('w2/c3/raw.csv'))).toEqual(Array.from(bytes(10)));
+	});
+});
+
+describe('sweeping interrupted puts', () => {
+	it('removes temporary files idle for longer than asked, keeps fresh ones', async () => {
+		const { utimes, writeFile, mkdir } = await import('node:fs/promises');
+		const incoming = join(root, 'store', '.incoming');
+		await mkdir(incoming, { recursive: true });
+		await writeFile(join(incoming, 'old.part'), 'x');
+		await writeFile(join(incoming, 'new.part'), 'x');
+		const anHourAgo = new Date(Date.now() - 3600_000);
+		await utimes(join(incoming, 'old.part'), anHourAgo, anHourAgo);
+		expect(await storage.sweepIncomplete(60_000)).toBe(1);
+		expect(await readdir(incoming)).toEqual(['new.part']);
+		expect(await storage.list('')).toEqual([]); // temporary files are never keys
+		expect(await storage.sweepIncomplete(0)).toBe(1);
 	});
 });

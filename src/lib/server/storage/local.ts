@@ -4,10 +4,11 @@
  * place, so a key holds either its old content or the complete new one — never a partial upload.
  */
 import { randomUUID } from 'node:crypto';
-import { mkdir, open, readFile, rename, rm, stat } from 'node:fs/promises';
+import { mkdir, open, readdir, readFile, rename, rm, stat } from 'node:fs/promises';
 import { dirname, join, resolve, sep } from 'node:path';
 import {
 	byteChunks,
+	checkPrefix,
 	checkStorageKey,
 	StorageLimitError,
 	StorageNotFoundError,
@@ -48,7 +49,25 @@ export function createLocalStorage(options: LocalStorageOptions = {}): BlobStora
 
 	const notFound = (key: string) => new StorageNotFoundError(`nothing is stored under "${key}"`);
 
+	/** Files under a folder of the root, as keys (the temporary folder is not part of any key). */
+	async function walk(folder: string, prefix: string, out: string[]): Promise<void> {
+		let entries;
+		try {
+			entries = await readdir(folder, { withFileTypes: true });
+		} catch (error) {
+			if (isNotFound(error)) return;
+			throw error;
+		}
+		for (const entry of entries) {
+			if (entry.name === INCOMING && prefix === '') continue;
+			if (entry.isDirectory()) await walk(join(folder, entry.name), `${prefix}${entry.name}/`, out);
+			else if (entry.isFile()) out.push(prefix + entry.name);
+		}
+	}
+
 	return {
+		settings: { driver: 'local', root, maxBytes: storeMax },
+
 		async put(key: string, source: ByteSource, putOptions: PutOptions = {}) {
 			const target = pathOf(key);
 			const maxBytes = Math.min(putOptions.maxBytes ?? storeMax, storeMax);
@@ -113,8 +132,66 @@ export function createLocalStorage(options: LocalStorageOptions = {}): BlobStora
 			}
 		},
 
+		async getRange(key: string, offset: number, length: number) {
+			const file = await open(pathOf(key), 'r').catch((error: unknown) => {
+				throw isNotFound(error) ? notFound(key) : error;
+			});
+			try {
+				const buffer = new Uint8Array(length);
+				let read = 0;
+				while (read < length) {
+					const { bytesRead } = await file.read(buffer, read, length - read, offset + read);
+					if (bytesRead === 0) break;
+					read += bytesRead;
+				}
+				return buffer.subarray(0, read);
+			} finally {
+				await file.close();
+			}
+		},
+
 		async delete(key: string) {
 			await rm(pathOf(key), { force: true });
+		},
+
+		async list(prefix: string) {
+			checkPrefix(prefix);
+			const out: string[] = [];
+			await walk(prefix ? pathOf(prefix.slice(0, -1)) : root, prefix, out);
+			return out.sort();
+		},
+
+		async deletePrefix(prefix: string) {
+			if (checkPrefix(prefix) === '') throw new Error('refusing to delete the whole store');
+			const keys: string[] = [];
+			const folder = pathOf(prefix.slice(0, -1));
+			await walk(folder, prefix, keys);
+			await rm(folder, { recursive: true, force: true });
+			return keys.length;
+		},
+
+		async sweepIncomplete(idleMs: number) {
+			const incoming = join(root, INCOMING);
+			let names: string[];
+			try {
+				names = await readdir(incoming);
+			} catch (error) {
+				if (isNotFound(error)) return 0;
+				throw error;
+			}
+			let removed = 0;
+			for (const name of names) {
+				if (!name.endsWith('.part')) continue;
+				const path = join(incoming, name);
+				try {
+					if (Date.now() - (await stat(path)).mtimeMs < idleMs) continue;
+					await rm(path, { force: true });
+					removed++;
+				} catch (error) {
+					if (!isNotFound(error)) throw error; // finished (renamed) meanwhile: not ours to count
+				}
+			}
+			return removed;
 		},
 
 		async exists(key: string) {

@@ -13,6 +13,7 @@ import {
 	StorageNotFoundError,
 	type BlobStorage
 } from './storage';
+import { storageFromSettings } from './settings';
 
 let dir: string;
 let server: S3rver;
@@ -118,5 +119,33 @@ describe('S3 storage (against the s3rver stand-in)', () => {
 		expect(() => storageFromEnv({ ...env, S3_ENDPOINT: 'not a url' })).toThrow(
 			/S3_ENDPOINT must be a URL/
 		);
+	});
+	it('reads byte ranges, lists and deletes by folder, and reopens from its settings', async () => {
+		const data = bytes(5000, 3);
+		async function* one(b: Uint8Array) {
+			yield b;
+		}
+		await storage.put('w1/c1/raw.csv', one(data));
+		await storage.put('w1/c1/store/a.bin', one(bytes(10)));
+		await storage.put('w1/c2/raw.csv', one(bytes(10)));
+		await storage.put('w2/c3/raw.csv', one(bytes(10)));
+		expect(Array.from(await storage.getRange('w1/c1/raw.csv', 100, 50))).toEqual(
+			Array.from(data.subarray(100, 150))
+		);
+		expect((await storage.getRange('w1/c1/raw.csv', 4990, 50)).length).toBe(10); // cut at the end
+		await expect(storage.getRange('w1/none', 0, 5)).rejects.toBeInstanceOf(StorageNotFoundError);
+		expect(await storage.list('w1/')).toEqual([
+			'w1/c1/raw.csv',
+			'w1/c1/store/a.bin',
+			'w1/c2/raw.csv'
+		]);
+		expect(await storage.list('w9/')).toEqual([]);
+		expect(await storage.deletePrefix('w1/c1/')).toBe(2);
+		expect(await storage.list('w1/')).toEqual(['w1/c2/raw.csv']);
+		expect(await storage.list('w2/')).toEqual(['w2/c3/raw.csv']);
+		await expect(storage.deletePrefix('')).rejects.toThrow(/whole store/);
+		await expect(storage.list('w1')).rejects.toBeInstanceOf(StorageKeyError);
+		const again = await storageFromSettings(structuredClone(storage.settings));
+		expect(Array.from(await again.getBytes('w2/c3/raw.csv'))).toEqual(Array.from(bytes(10)));
 	});
 });

@@ -9,8 +9,11 @@ import {
 	CompleteMultipartUploadCommand,
 	CreateMultipartUploadCommand,
 	DeleteObjectCommand,
+	DeleteObjectsCommand,
 	GetObjectCommand,
 	HeadObjectCommand,
+	ListMultipartUploadsCommand,
+	ListObjectsV2Command,
 	PutObjectCommand,
 	S3Client,
 	UploadPartCommand,
@@ -18,6 +21,7 @@ import {
 } from '@aws-sdk/client-s3';
 import {
 	byteChunks,
+	checkPrefix,
 	checkStorageKey,
 	StorageLimitError,
 	StorageNotFoundError,
@@ -100,7 +104,34 @@ export function createS3Storage(options: S3StorageOptions): BlobStorage {
 		}
 	}
 
+	/** Every object key under `prefix` (inside our own prefix), as storage keys. */
+	async function listKeys(prefix: string): Promise<string[]> {
+		const keys: string[] = [];
+		let ContinuationToken: string | undefined;
+		do {
+			const page = await client.send(
+				new ListObjectsV2Command({ Bucket, Prefix: prefix_ + prefix, ContinuationToken })
+			);
+			for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key.slice(prefix_.length));
+			ContinuationToken = page.IsTruncated ? page.NextContinuationToken : undefined;
+		} while (ContinuationToken);
+		return keys.sort();
+	}
+	const prefix_ = prefix;
+
 	return {
+		settings: {
+			driver: 's3',
+			bucket: options.bucket,
+			region: options.region,
+			endpoint: options.endpoint,
+			accessKeyId: options.accessKeyId,
+			secretAccessKey: options.secretAccessKey,
+			forcePathStyle: options.forcePathStyle,
+			prefix,
+			maxBytes: storeMax
+		},
+
 		async put(key: string, source: ByteSource, putOptions: PutOptions = {}) {
 			const Key = objectKey(key);
 			const maxBytes = Math.min(putOptions.maxBytes ?? storeMax, storeMax);
@@ -168,8 +199,67 @@ export function createS3Storage(options: S3StorageOptions): BlobStorage {
 			return (await getBody(key)).transformToByteArray();
 		},
 
+		async getRange(key: string, offset: number, length: number) {
+			if (length === 0) return new Uint8Array(0);
+			try {
+				const out = await client.send(
+					new GetObjectCommand({
+						Bucket,
+						Key: objectKey(key),
+						Range: `bytes=${offset}-${offset + length - 1}`
+					})
+				);
+				if (!out.Body) throw notFound(key);
+				return await out.Body.transformToByteArray();
+			} catch (error) {
+				throw isNotFound(error) ? notFound(key) : error;
+			}
+		},
+
 		async delete(key: string) {
 			await client.send(new DeleteObjectCommand({ Bucket, Key: objectKey(key) }));
+		},
+
+		async list(prefix: string) {
+			return listKeys(checkPrefix(prefix));
+		},
+
+		async deletePrefix(prefix: string) {
+			if (checkPrefix(prefix) === '') throw new Error('refusing to delete the whole store');
+			const keys = await listKeys(prefix);
+			// DeleteObjects takes at most 1000 keys a request (S3 API reference).
+			for (let at = 0; at < keys.length; at += 1000) {
+				await client.send(
+					new DeleteObjectsCommand({
+						Bucket,
+						Delete: { Objects: keys.slice(at, at + 1000).map((k) => ({ Key: prefix_ + k })) }
+					})
+				);
+			}
+			return keys.length;
+		},
+
+		async sweepIncomplete(idleMs: number) {
+			// Multipart uploads left open by a stopped server hold their parts (and cost) until aborted.
+			let removed = 0;
+			let KeyMarker: string | undefined;
+			let UploadIdMarker: string | undefined;
+			for (;;) {
+				const page = await client.send(
+					new ListMultipartUploadsCommand({ Bucket, Prefix: prefix_, KeyMarker, UploadIdMarker })
+				);
+				for (const u of page.Uploads ?? []) {
+					if (!u.Key || !u.UploadId) continue;
+					if (u.Initiated && Date.now() - u.Initiated.getTime() < idleMs) continue;
+					await client
+						.send(new AbortMultipartUploadCommand({ Bucket, Key: u.Key, UploadId: u.UploadId }))
+						.then(() => removed++)
+						.catch(() => {});
+				}
+				if (!page.IsTruncated) return removed;
+				KeyMarker = page.NextKeyMarker;
+				UploadIdMarker = page.NextUploadIdMarker;
+			}
 		},
 
 		async exists(key: string) {

@@ -27,15 +27,54 @@ export interface PutOptions {
 	onProgress?: (bytesWritten: number) => void;
 }
 
+/**
+ * How to open the same store again in another thread (a capture worker) or process: plain data,
+ * passed through structured clone; `storageFromSettings` (settings.ts) turns it back into a store.
+ */
+export type StorageSettings =
+	| { driver: 'local'; root: string; maxBytes: number }
+	| {
+			driver: 's3';
+			bucket: string;
+			region: string;
+			endpoint?: string;
+			accessKeyId?: string;
+			secretAccessKey?: string;
+			forcePathStyle?: boolean;
+			prefix?: string;
+			maxBytes?: number;
+	  };
+
 export interface BlobStorage {
+	readonly settings: StorageSettings;
 	/** Streams `source` to `key`; the key appears only when the whole stream arrived (nothing on failure). */
 	put(key: string, source: ByteSource, options?: PutOptions): Promise<{ size: number }>;
 	/** The stored bytes as a stream; StorageNotFoundError when there is no such key. */
 	get(key: string): Promise<ReadableStream<Uint8Array>>;
 	getBytes(key: string): Promise<Uint8Array>;
+	/** `length` bytes from `offset` (fewer at the end of the blob); StorageNotFoundError when missing. */
+	getRange(key: string, offset: number, length: number): Promise<Uint8Array>;
 	/** Removes the key; removing a missing key is not an error. */
 	delete(key: string): Promise<void>;
 	exists(key: string): Promise<boolean>;
+	/** Every key under `prefix` (a folder ending in "/", or "" for all), sorted. */
+	list(prefix: string): Promise<string[]>;
+	/** Removes every key under `prefix` (a folder ending in "/"); returns how many. */
+	deletePrefix(prefix: string): Promise<number>;
+	/**
+	 * Removes what interrupted puts left behind (local temporary files, S3 multipart uploads) that
+	 * saw no write for `idleMs`; returns how many.
+	 */
+	sweepIncomplete(idleMs: number): Promise<number>;
+}
+
+/** A folder prefix for list/deletePrefix: empty, or key parts ending in "/". */
+export function checkPrefix(prefix: string): string {
+	if (prefix === '') return prefix;
+	if (!prefix.endsWith('/'))
+		throw new StorageKeyError(`a storage prefix must end in "/": ${prefix}`);
+	checkStorageKey(prefix.slice(0, -1));
+	return prefix;
 }
 
 export class StorageKeyError extends Error {

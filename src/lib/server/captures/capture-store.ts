@@ -1,0 +1,171 @@
+/**
+ * Where a capture's blobs live and how its chunked frame store is read back, in the server and in
+ * the capture workers alike. Everything of a capture sits under one folder, so deleting the folder
+ * deletes the capture's every object:
+ *
+ *   captures/<workspace>/<capture>/raw.csv                       the upload
+ *   captures/<workspace>/<capture>/store/index.fwci              the chunk index (the row's store_key)
+ *   captures/<workspace>/<capture>/store/segment-000000.fwcg     segments (chunk-store.ts)
+ *   captures/<workspace>/<capture>/decodes/<map>.r<n>/…          a decode's statistics and pyramids
+ *   captures/<workspace>/<capture>/frames.fwcs                   the single-blob store of earlier versions
+ *
+ * Reads go through caches bounded by bytes (lru-cache), one set per thread.
+ */
+import { LRUCache } from 'lru-cache';
+import { ChunkIndex, Segment, type Chunk } from '../../can/capture/chunk-store';
+import { chunkSource, type ChunkSource } from '../../can/capture/chunked-decode';
+import { FrameStore } from '../../can/capture/frame-store';
+import type { BlobStorage } from '../storage/storage';
+
+/** Storage keys of a capture's blobs. */
+export function captureKeys(workspaceId: string, captureId: string) {
+	const folder = `captures/${workspaceId}/${captureId}/`;
+	return {
+		folder,
+		raw: `${folder}raw.csv`,
+		storeFolder: `${folder}store/`,
+		index: `${folder}store/index.fwci`,
+		decodes: `${folder}decodes/`,
+		/** The single-blob FrameStore that versions before the chunked store wrote. */
+		legacyStore: `${folder}frames.fwcs`
+	};
+}
+
+export const workspaceCaptureFolder = (workspaceId: string) => `captures/${workspaceId}/`;
+
+/** A legacy single-blob store (converted to the chunked store on first use). */
+export const isLegacyStoreKey = (key: string) => key.endsWith('.fwcs');
+
+/** The folder of a store from its index key. */
+export const storeFolderOf = (indexKey: string) => indexKey.slice(0, indexKey.lastIndexOf('/') + 1);
+
+export const segmentKey = (storeFolder: string, s: number) =>
+	`${storeFolder}segment-${String(s).padStart(6, '0')}.fwcg`;
+
+/** The decode folder of a capture folder for (map, revision or draft version). */
+export function decodeFolder(
+	captureFolder: string,
+	mapId: string,
+	revision: number | null,
+	draftVersion: number | null
+): string {
+	return `${captureFolder}decodes/${mapId}.${revision !== null ? `r${revision}` : `d${draftVersion}`}/`;
+}
+
+/** The capture folder of a store's index key (…/<capture>/store/index.fwci → …/<capture>/). */
+export const captureFolderOfIndex = (indexKey: string) =>
+	storeFolderOf(storeFolderOf(indexKey).slice(0, -1));
+
+// ---------------------------------------------------------------- caches
+
+/** Each store's name in cache keys: two test stores may hold the same key. */
+function storeId(storage: BlobStorage): string {
+	const s = storage.settings;
+	return s.driver === 'local' ? `local:${s.root}` : `s3:${s.bucket}/${s.prefix ?? ''}`;
+}
+
+/** A byte-bounded LRU that also shares a load in flight between callers. */
+export function byteCache<T extends object>(maxBytes: number, sizeOf: (value: T) => number) {
+	const cache = new LRUCache<string, T>({
+		maxSize: maxBytes,
+		sizeCalculation: (v) => Math.max(1, sizeOf(v))
+	});
+	const loading = new Map<string, Promise<T>>();
+	return {
+		async get(key: string, load: () => Promise<T>): Promise<T> {
+			const hit = cache.get(key);
+			if (hit) return hit;
+			let pending = loading.get(key);
+			if (!pending) {
+				pending = load()
+					.then((value) => {
+						// Larger than the whole cache: served, not kept.
+						if (sizeOf(value) <= maxBytes) cache.set(key, value);
+						return value;
+					})
+					.finally(() => loading.delete(key));
+				loading.set(key, pending);
+			}
+			return pending;
+		},
+		/** Drops every entry whose key contains `part`. */
+		forget(part: string): void {
+			for (const key of [...cache.keys()]) if (key.includes(part)) cache.delete(key);
+		},
+		clear(): void {
+			cache.clear();
+		}
+	};
+}
+
+const MiB = 1024 * 1024;
+const indexes = byteCache<ChunkIndex>(32 * MiB, (i) => i.byteLength);
+// A segment's bytes, and its capture-order columns once built (about as large again).
+const segments = byteCache<Segment>(96 * MiB, (s) => s.count * 40 + 4096);
+const chunks = byteCache<Chunk>(32 * MiB, (c) => c.count * 20 + c.data.byteLength);
+
+export async function loadChunkIndex(storage: BlobStorage, indexKey: string): Promise<ChunkIndex> {
+	return indexes.get(`${storeId(storage)}|${indexKey}`, async () =>
+		ChunkIndex.fromBytes(await storage.getBytes(indexKey))
+	);
+}
+
+/**
+ * The capture's frames as a ChunkSource, reading segments and chunks through the caches (or around
+ * them, `cache: false`, for one pass over everything: a first decode or an export).
+ */
+export async function openChunkSource(
+	storage: BlobStorage,
+	indexKey: string,
+	options: { cache?: boolean } = {}
+): Promise<ChunkSource> {
+	const index = await loadChunkIndex(storage, indexKey);
+	const folder = storeFolderOf(indexKey);
+	const id = storeId(storage);
+	const raw = chunkSource(index, {
+		segment: (s) => storage.getBytes(segmentKey(folder, s)),
+		range: (s, offset, length) => storage.getRange(segmentKey(folder, s), offset, length)
+	});
+	if (options.cache === false) return raw;
+	return {
+		index,
+		segment: (s) => segments.get(`${id}|${folder}${s}`, () => raw.segment(s)),
+		chunk: (c) => chunks.get(`${id}|${folder}c${c}`, () => raw.chunk(c))
+	};
+}
+
+/** Forgets a capture's cached store (deleted, or as after a restart). */
+export function forgetCaptureStore(captureId: string): void {
+	indexes.forget(`/${captureId}/`);
+	segments.forget(`/${captureId}/`);
+	chunks.forget(`/${captureId}/`);
+}
+
+/** Drops every cached store (as after a restart; the benchmark and tests use it). */
+export function clearCaptureStoreCaches(): void {
+	indexes.clear();
+	segments.clear();
+	chunks.clear();
+}
+
+/** The whole capture as one FrameStore: for tests and small captures only (memory grows with the capture). */
+export async function loadWholeCapture(
+	storage: BlobStorage,
+	indexKey: string
+): Promise<FrameStore> {
+	const source = await openChunkSource(storage, indexKey);
+	const store = new FrameStore();
+	store.origin = source.index.header.origin;
+	for (let s = 0; s < source.index.segmentCount; s++) {
+		const c = (await source.segment(s)).columns();
+		for (let i = 0; i < c.count; i++)
+			store.add(
+				c.time[i],
+				c.id[i],
+				(c.flags[i] & 1) === 1,
+				c.data.subarray(c.dataOffset[i], c.dataOffset[i] + c.length[i]),
+				c.length[i]
+			);
+	}
+	return store;
+}

@@ -1,0 +1,111 @@
+/**
+ * Processing a stored capture CSV into the chunked frame store: the file is read from storage and
+ * parsed chunk by chunk, and each finished segment is written while parsing goes on. Reading waits
+ * for the segment writes, so memory holds one segment and one piece of text whatever the file's size.
+ * Runs in a capture worker (and in-process for the small demo captures of the seed).
+ */
+import { threadId } from 'node:worker_threads';
+import { ChunkStoreWriter } from '../../../can/capture/chunk-store';
+import { CaptureFormatError } from '../../../can/capture/detect-layout';
+import { FrameStore } from '../../../can/capture/frame-store';
+import { ingestCaptureInto } from '../../../can/capture/ingest';
+import type { CaptureLayout } from '../../../can/capture/layout';
+import { byteChunks, type BlobStorage } from '../../storage/storage';
+import { segmentKey } from '../capture-store';
+import type { ProcessOutcome } from './tasks';
+
+async function* single(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
+	yield bytes;
+}
+
+/** A ChunkStoreWriter that stores each segment; `drain()` waits for the writes so far. */
+function storingWriter(storage: BlobStorage, storeFolder: string, segmentFrames?: number) {
+	let writes: Promise<unknown>[] = [];
+	const writer = new ChunkStoreWriter({
+		segmentFrames,
+		onSegment: (s, bytes) => writes.push(storage.put(segmentKey(storeFolder, s), single(bytes)))
+	});
+	const drain = async () => {
+		const now = writes;
+		writes = [];
+		await Promise.all(now);
+	};
+	const finish = async (
+		origin: { timeOrigin: number; epoch: boolean },
+		names?: { buses?: string[]; tags?: string[] }
+	) => {
+		const index = writer.finish(origin, names);
+		await drain();
+		const indexKey = `${storeFolder}index.fwci`;
+		// The index last: its presence means every segment is stored.
+		await storage.put(indexKey, single(index.toBytes()));
+		return { index, indexKey };
+	};
+	return { writer, drain, finish };
+}
+
+export async function runProcess(
+	storage: BlobStorage,
+	task: { rawKey: string; layout: CaptureLayout; storeFolder: string; segmentFrames?: number },
+	onProgress: (bytesRead: number) => void = () => {}
+): Promise<ProcessOutcome> {
+	const { writer, drain, finish } = storingWriter(storage, task.storeFolder, task.segmentFrames);
+	let read = 0;
+	async function* source(): AsyncGenerator<Uint8Array> {
+		for await (const chunk of byteChunks(await storage.get(task.rawKey))) {
+			await drain(); // back-pressure: no more text until the finished segments are stored
+			yield chunk;
+			read += chunk.byteLength;
+			onProgress(read);
+		}
+	}
+	try {
+		const report = await ingestCaptureInto(source(), writer, { layout: task.layout });
+		const { index, indexKey } = await finish(
+			{
+				timeOrigin: report.timeOrigin ?? 0,
+				epoch: report.layout.epochTime || report.layout.timeFormat === 'date-time'
+			},
+			// Without a bus column every frame is on the one unnamed bus (index 0).
+			{ buses: report.buses.length > 0 ? report.buses : undefined, tags: report.tags }
+		);
+		return {
+			ok: true,
+			report: {
+				frameCount: report.frameCount,
+				lineCount: report.lineCount,
+				badRows: report.badRows,
+				badRowCount: report.badRowCount,
+				warnings: report.warnings,
+				layoutNotes: report.layoutNotes
+			},
+			frameCount: report.frameCount,
+			// The latest frame time (times start at 0 with the first frame).
+			durationS: Math.max(0, index.header.maxTime),
+			indexKey,
+			threadId
+		};
+	} catch (error) {
+		await drain().catch(() => {});
+		return {
+			ok: false,
+			formatError: error instanceof CaptureFormatError,
+			message: error instanceof Error ? error.message : String(error),
+			threadId
+		};
+	}
+}
+
+/** Rewrites a store of earlier versions (one FrameStore blob) as a chunked store; returns the index key. */
+export async function runConvert(
+	storage: BlobStorage,
+	task: { legacyKey: string; storeFolder: string }
+): Promise<string> {
+	const store = FrameStore.fromBytes(await storage.getBytes(task.legacyKey));
+	const { writer, drain, finish } = storingWriter(storage, task.storeFolder);
+	for (let i = 0; i < store.count; i++) {
+		writer.add(store.time[i], store.id[i], store.isExtended(i), store.payload(i), store.length[i]);
+		if (i % 65536 === 65535) await drain();
+	}
+	return (await finish(store.origin)).indexKey;
+}
