@@ -49,11 +49,23 @@ describe('precisionOf and formatValue, one case per kind of scale', () => {
 		['tenths (a 0.1-scaled signal prints one decimal)', '0.1', '0', 1, [0, 1, 123, 998, 65535]],
 		['hundredths', '0.01', '0', 2, [0, 7, 3524, 9980]],
 		['millionths (the 0.0035240000000000002 case)', '0.000001', '0', 6, [3524, 1, 999999]],
-		['eighths, SAE J1939-71 engine speed 0.125 rpm/bit (from memory)', '0.125', '0', 3, [0, 1, 6000]],
+		[
+			'eighths, SAE J1939-71 engine speed 0.125 rpm/bit (from memory)',
+			'0.125',
+			'0',
+			3,
+			[0, 1, 6000]
+		],
 		['a half', '0.5', '0', 1, [0, 1, 3, 255]],
 		['2^-10 (binary fraction)', '0.0009765625', '0', 10, [1, 1023, 4096]],
 		['a twentieth', '0.05', '0', 2, [0, 1, 7, 1999]],
-		['J1939 coolant: 1 °C/bit, offset −40 (SAE J1939-71, from memory)', '1', '-40', 0, [0, 40, 255]],
+		[
+			'J1939 coolant: 1 °C/bit, offset −40 (SAE J1939-71, from memory)',
+			'1',
+			'-40',
+			0,
+			[0, 40, 255]
+		],
 		['kelvin offset −273.15 with a whole scale', '1', '-273.15', 2, [0, 273, 300]],
 		['0.1 scale with a 0.05 offset', '0.1', '0.05', 2, [0, 1, 19]],
 		['negative scale', '-0.1', '0', 1, [0, 1, 55]]
