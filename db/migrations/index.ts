@@ -6,6 +6,7 @@ import * as signinRequests from './2026-12-01-004-signin-requests';
 import * as mailbox from './2026-12-01-005-mailbox';
 import * as maps from './2026-12-01-006-maps';
 import * as captures from './2026-12-01-007-captures';
+import * as captureViews from './2026-12-02-050-capture-views';
 
 // An explicit, ordered list instead of reading the folder: it works the same under Vite, the
 // production bundle, vitest and tsx. Append new migrations at the end; never rename or edit old ones.
@@ -16,7 +17,8 @@ export const migrations: Record<string, Migration> = {
 	'2026-12-01-004-signin-requests': signinRequests,
 	'2026-12-01-005-mailbox': mailbox,
 	'2026-12-01-006-maps': maps,
-	'2026-12-01-007-captures': captures
+	'2026-12-01-007-captures': captures,
+	'2026-12-02-050-capture-views': captureViews
 };
 
 export const migrationProvider: MigrationProvider = {

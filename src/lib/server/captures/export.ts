@@ -18,13 +18,13 @@ import { getDecoded, requireReadyCapture, revisionLabel } from './decoding';
 import { loadFrameStore } from './store';
 
 /** The capture's own name without its file extension, for the download's name. */
-const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
+export const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
 
 /**
  * Pulls the first chunk before the response starts, so a refusal (a wide export with far too many
  * rows) becomes a 400 instead of a download that breaks off.
  */
-function primed(chunks: Generator<string>): Iterable<string> {
+export function primed(chunks: Generator<string>): Iterable<string> {
 	let first: IteratorResult<string>;
 	try {
 		first = chunks.next();

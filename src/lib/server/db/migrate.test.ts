@@ -26,6 +26,7 @@ describe('migrations', () => {
 				'VerificationToken',
 				'audit_log',
 				'capture_decodes',
+				'capture_views',
 				'captures',
 				'invitations',
 				'mailbox_messages',

@@ -177,6 +177,17 @@ export interface CaptureDecodeTable {
 	decoded_at: string;
 }
 
+/** A saved view of a capture's workbench (its state as JSON, `src/lib/api/workbench.ts`). */
+export interface CaptureViewTable {
+	id: string;
+	capture_id: string;
+	name: string;
+	state_json: string;
+	/** null once the author's account is gone. */
+	saved_by: string | null;
+	saved_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -193,6 +204,7 @@ export interface Database {
 	share_links: ShareLinkTable;
 	captures: CaptureTable;
 	capture_decodes: CaptureDecodeTable;
+	capture_views: CaptureViewTable;
 }
 
 export type User = Selectable<UserTable>;
