@@ -61,7 +61,9 @@ import {
 	derivedSeriesResponseSchema,
 	savedViewListSchema,
 	savedViewSchema,
-	saveViewInputSchema
+	saveViewInputSchema,
+	spanQuerySchema,
+	spanResponseSchema
 } from './workbench';
 import {
 	createdWorkspaceResponseSchema,
@@ -584,6 +586,24 @@ export const endpoints = {
 		},
 		{
 			400: 'The formula does not read (the issue’s column says where), or a parameter is invalid.',
+			404: noCapture,
+			409: notReady,
+			410: mapGone
+		}
+	),
+	'captures.span': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/span`,
+			summary:
+				'Statistics, time above a threshold and a histogram of a channel over a span, and XY pairs with a second channel.',
+			access: 'viewer',
+			query: spanQuerySchema,
+			status: 200,
+			response: spanResponseSchema
+		},
+		{
+			400: 'A formula does not read (the issue’s column says where), or a parameter is invalid.',
 			404: noCapture,
 			409: notReady,
 			410: mapGone

@@ -153,6 +153,52 @@ export const derivedSeriesResponseSchema = z.object({
 });
 export type DerivedSeriesResponse = z.infer<typeof derivedSeriesResponseSchema>;
 
+export const spanQuerySchema = z
+	.object({
+		decode: recordId,
+		/** The channel measured, as a formula (a decoded channel is `{Frame.Signal}`). */
+		formula: derivedDefinitionSchema.shape.formula,
+		/** A second channel for the XY plot (its values on the y axis). */
+		versus: derivedDefinitionSchema.shape.formula.optional(),
+		from: decimal('from').optional(),
+		to: decimal('to').optional(),
+		above: decimal('above').optional(),
+		bins: z
+			.string()
+			.trim()
+			.regex(/^\d{1,3}$/, 'bins must be a whole number')
+			.transform(Number)
+			.pipe(z.number().int().min(1).max(200))
+			.default(20)
+	})
+	.refine((q) => q.from === undefined || q.to === undefined || q.from <= q.to, {
+		path: ['to'],
+		message: 'to must not be before from'
+	});
+export type SpanQuery = z.output<typeof spanQuerySchema>;
+
+/** Most pairs an XY answer carries (thinned by an even stride beyond). */
+export const MAX_XY_POINTS = 4000;
+
+export const spanResponseSchema = z.object({
+	from: z.number(),
+	to: z.number(),
+	statistics: z.object({
+		count: z.number().int(),
+		min: z.number().nullable(),
+		max: z.number().nullable(),
+		mean: z.number().nullable(),
+		standardDeviation: z.number().nullable(),
+		secondsAbove: z.number().nullable(),
+		secondsCovered: z.number()
+	}),
+	histogram: z.object({ edges: z.array(z.number()), counts: z.array(z.number().int()) }),
+	xy: z
+		.object({ x: z.array(z.number()), y: z.array(z.number()), total: z.number().int() })
+		.nullable()
+});
+export type SpanResponse = z.infer<typeof spanResponseSchema>;
+
 export const derivedExportQuerySchema = z.object({
 	decode: recordId,
 	kind: z.enum(['long', 'wide'], { error: 'kind must be long or wide' }),

@@ -358,6 +358,18 @@ describe('every endpoint answers as the contract says', () => {
 		});
 		expect(badFormula.status).toBe(400);
 		expect((badFormula.body as { issues: { column: number }[] }).issues[0].column).toBe(15);
+		const span = await call(services, viewer, 'captures.span', {
+			params: { ws, id },
+			query: {
+				decode: decode.id,
+				formula: '{Pressures.OilPressure}',
+				versus: 'FuelPressure',
+				from: 1,
+				to: 3,
+				above: 300
+			}
+		});
+		expect((span.body as { statistics: { count: number } }).statistics.count).toBeGreaterThan(10);
 		const withDerived = await call(services, viewer, 'captures.exportDerived', {
 			params: { ws, id },
 			query: {

@@ -4,11 +4,15 @@
  * The evaluation itself is the pure `src/lib/can/derived/` module.
  */
 import type { z } from 'zod';
-import type {
-	DerivedSeriesQuery,
-	DerivedSeriesResponse,
-	derivedExportQuerySchema
+import {
+	MAX_XY_POINTS,
+	type DerivedSeriesQuery,
+	type DerivedSeriesResponse,
+	type derivedExportQuerySchema,
+	type SpanQuery,
+	type SpanResponse
 } from '../../api/workbench';
+import { histogram, spanStatistics, xyPairs } from '../../can/derived/span';
 import type { Channel } from '../../can/capture/channels';
 import { decimateMinMax } from '../../can/capture/decimate';
 import {
@@ -75,6 +79,27 @@ export async function derivedSeries(
 		decimated: !d.raw,
 		samplesInRange: d.inRange,
 		count: series.time.length
+	};
+}
+
+/** Statistics, histogram and (with `versus`) XY pairs of a channel over a span. */
+export async function measureSpan(
+	services: Services,
+	workspaceId: string,
+	captureId: string,
+	q: SpanQuery
+): Promise<SpanResponse> {
+	const { result } = await getDecoded(services, workspaceId, captureId, q.decode);
+	const series = evaluate(services, q.decode, result.channels, q.formula);
+	const from = q.from ?? 0;
+	const to = q.to ?? Math.max(result.duration, from);
+	const versus = q.versus ? evaluate(services, q.decode, result.channels, q.versus) : null;
+	return {
+		from,
+		to,
+		statistics: spanStatistics(series, from, to, q.above),
+		histogram: histogram(series, from, to, q.bins),
+		xy: versus ? xyPairs(series, versus, from, to, MAX_XY_POINTS) : null
 	};
 }
 
