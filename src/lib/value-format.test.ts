@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import {
 	decimalPlaces,
+	formatAverage,
 	formatComputed,
 	formatValue,
 	precisionOf,
@@ -143,6 +144,17 @@ describe('decimalPlaces', () => {
 		expect(decimalPlaces(1 / 3)).toBeNull();
 		expect(decimalPlaces(Math.PI)).toBeNull();
 		expect(decimalPlaces(NaN)).toBeNull();
+	});
+});
+
+describe('formatAverage', () => {
+	it('gives a mean two decimals more than its samples carry', () => {
+		// (341 + 342 + 341) / 3 tenths = 34.1333…: the samples have one decimal, the mean three.
+		expect(formatAverage((34.1 + 34.2 + 34.1) / 3, { kind: 'decimals', decimals: 1 })).toBe(
+			'34.133'
+		);
+		expect(formatAverage(6106.6135, { kind: 'decimals', decimals: 0 })).toBe('6106.61');
+		expect(formatAverage(1 / 3, { kind: 'float32' })).toBe('0.333333333333');
 	});
 });
 

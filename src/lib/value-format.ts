@@ -86,6 +86,18 @@ export function formatValue(v: number, precision?: ValuePrecision): string {
 	return /^-0(\.0*)?$/.test(text) ? text.slice(1) : text;
 }
 
+/**
+ * A mean or spread of a signal's values: two decimals more than the samples carry (a 0.1-scaled
+ * signal's mean prints 34.138), or the computed-value rule when the samples have no fixed decimals.
+ */
+export function formatAverage(v: number, precision?: ValuePrecision): string {
+	if (!Number.isFinite(v) || precision?.kind !== 'decimals') return formatComputed(v);
+	return formatValue(v, {
+		kind: 'decimals',
+		decimals: Math.min(MAX_DECIMALS, precision.decimals + 2)
+	});
+}
+
 /** A formatter for one signal, for loops over many samples. */
 export function valueFormatter(precision?: ValuePrecision): (v: number) => string {
 	return (v) => formatValue(v, precision);

@@ -33,6 +33,7 @@ export const derivedDefinitionSchema = z.strictObject({
 export type DerivedDefinition = z.infer<typeof derivedDefinitionSchema>;
 
 export const WORKBENCH_PANELS = [
+	'decodes',
 	'channels',
 	'derived',
 	'frames',
