@@ -244,5 +244,4 @@ describe('labels and colours', () => {
 		expect(model.signals[1].hue).toBe(25);
 		expect(model.signals[0].hue).toBe(205);
 	});
-
 });

@@ -76,7 +76,10 @@ const gcd = (a: number, b: number): number => (b === 0 ? a : gcd(b, a % b));
  * 360°/count), visited with a stride near count × 0.382 (the golden section) so signals next to
  * each other in the layout land far apart on the circle. `order[k]` is the signal drawn k-th from bit 0 upwards.
  */
-export function signalHues(count: number, order: readonly number[] = [...Array(count).keys()]): number[] {
+export function signalHues(
+	count: number,
+	order: readonly number[] = [...Array(count).keys()]
+): number[] {
 	const hues = new Array<number>(count).fill(0);
 	if (count === 0) return hues;
 	const stride = Math.max(1, Math.round(count * 0.382));
