@@ -40,6 +40,7 @@ export class MapDraft<V extends DraftView = DraftView> {
 	#savedJson = $state('');
 	#saving = $state(false);
 	#lastEdit = $state.raw<{ what: string; before: CanMap } | null>(null);
+	#savedHereAt = $state<string | null>(null);
 
 	/** A line for the person after a save, reload or other server-side change; cleared by the next edit. */
 	notice = $state<string | null>(null);
@@ -70,6 +71,13 @@ export class MapDraft<V extends DraftView = DraftView> {
 	}
 	get saving(): boolean {
 		return this.#saving;
+	}
+	/**
+	 * When this page last saved the draft (ISO time), so "last saved" follows a save without a
+	 * reload; null until it saves, and again when newer server data is adopted (which says itself).
+	 */
+	get savedHereAt(): string | null {
+		return this.#savedHereAt;
 	}
 	/** What the last edit changed, while it can still be undone. */
 	get undoable(): string | null {
@@ -114,6 +122,9 @@ export class MapDraft<V extends DraftView = DraftView> {
 			const { version } = await this.#io.save(this.#version, sent);
 			this.#version = version;
 			this.#savedJson = JSON.stringify(sent);
+			// An ISO stamp, not a kept Date object: nothing mutates it.
+			// eslint-disable-next-line svelte/prefer-svelte-reactivity
+			this.#savedHereAt = new Date().toISOString();
 			// Edits made while the save was on its way stay unsaved, and stay undoable.
 			if (this.#draft === sent) this.#lastEdit = null;
 			this.notice = 'Draft saved.';
@@ -185,6 +196,7 @@ export class MapDraft<V extends DraftView = DraftView> {
 		this.#version = next.map.version;
 		this.#savedJson = JSON.stringify(next.map.draft);
 		this.#lastEdit = null;
+		this.#savedHereAt = null;
 		this.failure = null;
 		this.notice = null;
 	}

@@ -11,8 +11,6 @@ export const load = (async (event) => {
 		...(await captureDetail(db, workspace.id, event.params.id)),
 		maps: await mapsWithRevisions(db, workspace.id),
 		role,
-		userEmail: user.email,
-		/** The workbench uses the whole width of the window. */
-		wide: true
+		userEmail: user.email
 	}));
 }) satisfies PageServerLoad;
