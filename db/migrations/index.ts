@@ -9,6 +9,7 @@ import * as captures from './2026-12-01-007-captures';
 import * as revisionDraftVersion from './2026-12-02-010-revision-draft-version';
 import * as receivers from './2026-12-02-030-receivers';
 import * as accessTokens from './2026-12-02-040-access-tokens';
+import * as captureViews from './2026-12-02-050-capture-views';
 
 // An explicit, ordered list instead of reading the folder: it works the same under Vite, the
 // production bundle, vitest and tsx. Append new migrations at the end; never rename or edit old ones.
@@ -22,7 +23,8 @@ export const migrations: Record<string, Migration> = {
 	'2026-12-01-007-captures': captures,
 	'2026-12-02-010-revision-draft-version': revisionDraftVersion,
 	'2026-12-02-030-receivers': receivers,
-	'2026-12-02-040-access-tokens': accessTokens
+	'2026-12-02-040-access-tokens': accessTokens,
+	'2026-12-02-050-capture-views': captureViews
 };
 
 export const migrationProvider: MigrationProvider = {

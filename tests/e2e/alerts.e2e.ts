@@ -193,6 +193,8 @@ test('an editor publishes two alert rules; a viewer replays them over the demo c
 		timeout: 30_000
 	});
 
+	// Alerts are a panel of the workbench.
+	await page.getByRole('tab', { name: 'Alerts' }).click();
 	const alerts = page.getByRole('region', { name: 'Alert events' });
 	await expect(alerts.getByRole('table', { name: 'Alert events' })).toBeVisible({
 		timeout: 30_000

@@ -4,14 +4,13 @@
  * load chart and the J1939 panel. Every expected figure is computed here from the fixture's bytes
  * (DataView, BigInt), independently of the app's importer and decoder.
  */
-import { readFileSync } from 'node:fs';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
+import { decodeWithLatest, plotChannel, uploadAndProcess } from './capture-helpers';
 import { readFixtureRows } from './fixture-rows';
 import { signIn } from './helpers';
 
 const slug = 'quillmoor-club-racing';
 const capturePath = 'fixtures/genset-idle.csv';
-const mapName = 'Generator set engine (J1939)';
 
 // ---- The reference reading of the fixture (canonical layout, docs/capture-csv.md: time,id,extended,dlc,data) ----
 const rows = readFixtureRows(capturePath);
@@ -94,49 +93,6 @@ function dm1Codes(data: number[]) {
 const hex = (bytes: ArrayLike<number>) =>
 	Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
 
-// ---- Getting the capture decoded (upload and processing are K1's routes; the journey test drives their UI) ----
-
-async function uploadAndProcess(page: Page): Promise<string> {
-	const api = `/api/workspaces/${slug}/captures`;
-	const upload = await page.request.post(`${api}?name=genset-idle.csv`, {
-		data: readFileSync(capturePath),
-		headers: { 'content-type': 'text/csv' }
-	});
-	expect(upload.status()).toBe(201);
-	const { capture, detected } = (await upload.json()) as {
-		capture: { id: string };
-		detected: { layout: unknown };
-	};
-	const process = await page.request.post(`${api}/${capture.id}/process`, {
-		data: { layout: detected.layout }
-	});
-	expect(process.status()).toBe(202);
-	await expect
-		.poll(
-			async () =>
-				(
-					(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
-						status: string;
-					}
-				).status,
-			{ timeout: 60_000 }
-		)
-		.toBe('ready');
-	return capture.id;
-}
-
-async function decodeWithLatest(page: Page) {
-	const panel = page.getByRole('region', { name: 'Decode', exact: true });
-	await panel.getByLabel('Map').selectOption({ label: mapName });
-	const revision = panel.getByLabel('Revision');
-	const latest = (await revision.locator('option', { hasText: '(latest)' }).innerText()).trim();
-	await revision.selectOption({ label: latest });
-	await panel.getByRole('button', { name: 'Decode' }).click();
-	await expect(page.getByText(`Showing the decode with ${mapName}`)).toBeVisible({
-		timeout: 30_000
-	});
-}
-
 test('the capture views show the genset capture as the fixture bytes say', async ({ page }) => {
 	test.setTimeout(150_000);
 	await signIn(page, 'tuner@framewright.test');
@@ -144,20 +100,27 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	await page.goto(`/w/${slug}/captures/${captureId}`);
 	await decodeWithLatest(page);
 
-	// ---- Plot: two channels, their full-range extent equals the reference, zoom and pan move the window. ----
+	// ---- Plot: two channels on strips of their own; their full-range extent equals the reference. ----
 	const plot = page.getByRole('region', { name: 'Plot' });
-	await plot.getByLabel('Add a channel').selectOption({ label: 'EngineSpeed (rpm)' });
-	await plot.getByLabel('Add a channel').selectOption({ label: 'CoolantTemp (°C)' });
+	await plotChannel(page, 'EEC1 · EngineSpeed');
+	await page.getByLabel('Plot on').selectOption({ label: 'A new strip' });
+	await plotChannel(page, 'ET1 · CoolantTemp');
 	await expect(plot.locator('.uplot')).toHaveCount(2, { timeout: 20_000 });
 	const speed = channelReference(EEC1, engineSpeed);
 	const coolant = channelReference(ET1, coolantTemp);
 	const from = Math.min(speed.first, coolant.first);
 	const to = Math.max(speed.last, coolant.last);
-	const summary = plot.locator('[aria-roledescription="plot"] p.sr-only');
+	const summary = plot.locator('p.sr-only[aria-live="polite"]');
 	// Min/max decimation keeps each bucket's extremes, so the whole-capture window shows the true extent.
-	await expect(summary).toContainText(`Showing 2 channels from ${from} s to ${to} s.`);
-	await expect(summary).toContainText(`EEC1 · EngineSpeed: ${speed.min} to ${speed.max} rpm`);
-	await expect(summary).toContainText(`ET1 · CoolantTemp: ${coolant.min} to ${coolant.max} °C`);
+	await expect(summary).toContainText(`2 strips, 2 channels, from ${from} s to ${to} s.`);
+	const extent = async (label: string, unit: string) => {
+		const text = await summary.innerText();
+		const m = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`).exec(text);
+		expect(m, `${label} in "${text}"`).not.toBeNull();
+		return { min: Number(m![1]), max: Number(m![2]) };
+	};
+	expect(await extent('EEC1 · EngineSpeed', 'rpm')).toEqual({ min: speed.min, max: speed.max });
+	expect(await extent('ET1 · CoolantTemp', '°C')).toEqual({ min: coolant.min, max: coolant.max });
 
 	// Zoom in halves the window around its middle and asks the server for that window only.
 	const zoomed = page.waitForRequest(
@@ -196,6 +159,7 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	await expect(summary).toContainText(`from ${from} s to ${to} s.`);
 
 	// ---- Frames table: length, filter by ID, a frame's decoded signals, the far end of the list. ----
+	await page.getByRole('tab', { name: 'Frames' }).click();
 	const frames = page.getByRole('region', { name: 'Frames' });
 	await expect(frames.getByRole('status').first()).toHaveText(
 		`${rows.length.toLocaleString('en')} frames`
@@ -224,6 +188,7 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	);
 
 	// ---- Unknown IDs: a proprietary PGN's bit activity equals the BigInt reference. ----
+	await page.getByRole('tab', { name: 'Unknown IDs' }).click();
 	const unknown = page.getByRole('region', { name: 'Unknown IDs' });
 	const proprietary = 0x18ff1027;
 	await unknown.getByRole('button', { name: 'Bit activity of 0x18FF1027' }).click();
@@ -247,11 +212,13 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	await expect(unknown.getByRole('button', { name: 'Define this frame' })).toHaveCount(0);
 
 	// ---- Bus load: the configured bit rate and a drawn line. ----
+	await page.getByRole('tab', { name: 'Bus load' }).click();
 	const load = page.getByRole('region', { name: 'Bus load' });
 	await expect(load).toContainText('250 kbit/s');
 	await expect(load.getByRole('img', { name: /^Bus load at 250 kbit\/s: mean/ })).toBeVisible();
 
 	// ---- J1939: the DM1 codes and the reassembled BAM messages read by hand from the fixture. ----
+	await page.getByRole('tab', { name: 'J1939' }).click();
 	const j1939 = page.getByRole('region', { name: 'J1939' });
 	const bam = referenceBam();
 	expect(bam.length).toBeGreaterThan(0);
@@ -288,11 +255,14 @@ test('an editor defines an unknown ID into the map draft, once', async ({ page }
 	const captureId = await uploadAndProcess(page);
 	await page.goto(`/w/${slug}/captures/${captureId}`);
 	await decodeWithLatest(page);
+	await page.getByRole('tab', { name: 'Unknown IDs' }).click();
 	const unknown = page.getByRole('region', { name: 'Unknown IDs' });
 	await unknown.getByRole('button', { name: 'Bit activity of 0x18FF1127' }).click();
 	await unknown.getByRole('button', { name: 'Define this frame' }).click();
+	// The confirmation says where the frame went, without the draft's internal version number.
+	await expect(unknown.getByRole('status')).not.toContainText('version');
 	await expect(unknown.getByRole('status')).toContainText(
-		"0x18FF1127 was added to the map's draft"
+		'0x18FF1127 was added to the map’s draft as a new frame without signals'
 	);
 	// The draft now defines it, so a second try is refused with the server's reason (409).
 	const refused = page.waitForResponse((r) => r.url().includes('/define-frame'));

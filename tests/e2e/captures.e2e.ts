@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { expect, test, type Locator } from '@playwright/test';
+import { plotChannel } from './capture-helpers';
 import { readFixtureRows } from './fixture-rows';
 import { signIn } from './helpers';
 
@@ -87,11 +88,10 @@ function referenceSampleCount(): number {
 /** Min and max cells of a channel row in the Channels tables. */
 async function shownRange(row: Locator) {
 	const cells = row.getByRole('cell');
-	// Columns after the signal name: unit, count, min, max, mean, last, map range, out of range.
+	// Columns after the signal name in the Channels panel: unit, min, max, mean, last, out of range.
 	return {
-		count: Number(await cells.nth(1).innerText()),
-		min: Number(await cells.nth(2).innerText()),
-		max: Number(await cells.nth(3).innerText())
+		min: Number(await cells.nth(1).innerText()),
+		max: Number(await cells.nth(2).innerText())
 	};
 }
 
@@ -136,9 +136,16 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 	await expect(page.getByText(`Showing the decode with ${map.name} ${latest}`)).toBeVisible({
 		timeout: 30_000
 	});
+	// The decode is listed under Decodes; the workbench has moved on to its channels.
+	await expect(page.getByRole('tab', { name: 'Channels' })).toHaveAttribute(
+		'aria-selected',
+		'true'
+	);
+	await page.getByRole('tab', { name: 'Decodes' }).click();
 	await expect(
 		decodePanel.getByRole('row', { name: new RegExp(`${map.name}.*${latest}`) })
 	).toBeVisible();
+	await page.getByRole('tab', { name: 'Channels' }).click();
 
 	// Channel statistics equal the reference computed from the fixture bytes with DataView.
 	for (const [frameName, signalName] of [
@@ -151,25 +158,25 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 		const shown = await shownRange(
 			table.getByRole('row', { name: new RegExp(`^${signalName}\\b`) })
 		);
-		expect(shown.count).toBe(expected.count);
 		// Six significant digits are shown; scale 0.1 values compare to that precision.
 		expect(shown.min).toBeCloseTo(expected.min, 6);
 		expect(shown.max).toBeCloseTo(expected.max, 6);
 	}
 
-	// Plot two channels on one time axis.
-	const picker = page.getByLabel('Add a channel');
-	await picker.selectOption({ label: 'EngineSpeed (rpm)' });
-	await picker.selectOption({ label: 'OilPressure (kPa)' });
+	// Plot two channels on one time axis (the second joins the first one's strip).
+	await plotChannel(page, 'EngineCore · EngineSpeed');
+	await plotChannel(page, 'Pressures · OilPressure');
 	await expect(
-		page.getByRole('list', { name: 'Plotted channels' }).getByRole('listitem')
+		page.getByRole('list', { name: 'Channels on strip 1' }).getByRole('listitem')
 	).toHaveCount(2);
-	await expect(page.locator('canvas').first()).toBeVisible({ timeout: 20_000 });
-	expect(await page.locator('canvas').count()).toBeGreaterThanOrEqual(2);
+	await expect(page.getByTestId('plot-area').locator('canvas').first()).toBeVisible({
+		timeout: 20_000
+	});
 
 	// An ID the map does not define: its frame count matches the fixture, and its bit activity opens.
 	const unknownId = 0x5f8;
 	expect(map.frames.some((f) => Number(f.id) === unknownId)).toBe(false);
+	await page.getByRole('tab', { name: 'Unknown IDs' }).click();
 	const unknownRow = page
 		.getByRole('region', { name: 'Unknown IDs' })
 		.getByRole('row', { name: /^0x5F8\b/ });
@@ -180,6 +187,7 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 	await expect(page.getByRole('table', { name: /^Bit activity of 0x5F8/ })).toBeVisible();
 
 	// Download the decoded channels (long form): its header, and one row per decoded sample.
+	await page.getByRole('tab', { name: 'Export' }).click();
 	const [download] = await Promise.all([
 		page.waitForEvent('download'),
 		page.getByRole('link', { name: 'Decoded channels, long form (CSV)' }).click()
@@ -190,18 +198,30 @@ test('a viewer takes the demo capture from upload to checked, plotted and export
 		.split(/\r?\n/);
 	expect(csv[0]).toBe('time,frame,signal,value,unit');
 	expect(csv.length - 1).toBe(referenceSampleCount());
+	for (const [frameName, signalName] of [
+		['EngineCore', 'EngineSpeed'],
+		['Pressures', 'OilPressure']
+	] as const) {
+		const samples = csv.filter((line) => line.split(',')[2] === signalName).length;
+		expect(samples, `${frameName}.${signalName} samples`).toBe(
+			referenceRange(frameName, signalName).count
+		);
+	}
 
 	// Switch revision and compare: the seeded draft raises CoolantTemp's max above r1's (the fixture's 105 °C),
 	// and changes nothing about EngineSpeed.
 	expect(frameOf('EngineTemperatures').signals.find((s) => s.name === 'CoolantTemp')).toMatchObject(
 		{ max: 105 }
 	);
+	await page.getByRole('tab', { name: 'Decodes' }).click();
 	await revision.selectOption('1');
 	await decodePanel.getByRole('button', { name: 'Decode' }).click();
 	await expect(page.getByText(`Showing the decode with ${map.name} r1`)).toBeVisible();
+	await page.getByRole('tab', { name: 'Decodes' }).click();
 	await revision.selectOption('draft');
 	await decodePanel.getByRole('button', { name: 'Decode' }).click();
 	await expect(page.getByText(`Showing the decode with ${map.name} draft`)).toBeVisible();
+	await page.getByRole('tab', { name: 'Decodes' }).click();
 	await decodePanel
 		.getByRole('button', { name: `Compare with ${map.name} r1` })
 		.first()

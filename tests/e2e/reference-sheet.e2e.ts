@@ -14,7 +14,7 @@ test('a viewer opens the printable reference sheet of r1: every frame and the al
 }) => {
 	await signIn(page, 'tuner@framewright.test');
 	await page.goto('/w/quillmoor-club-racing/maps');
-	await page.getByRole('link', { name: fixture.name }).click();
+	await page.getByRole('link', { name: fixture.name, exact: true }).click();
 	await page
 		.getByRole('list', { name: 'Revision history' })
 		.getByRole('link', { name: 'Reference sheet' })

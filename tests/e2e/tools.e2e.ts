@@ -16,6 +16,12 @@ test('a viewer computes a bit timing, sees a map revision’s bus load and opens
 	await signIn(page, VIEWER);
 	await page.goto(`/w/${WORKSPACE}/tools`);
 	await expect(page.getByRole('heading', { level: 1, name: 'Tools' })).toBeVisible();
+	// Sources and how far to trust them are on a notes page of their own, not in the tools' wording.
+	await expect(page.getByRole('main')).not.toContainText('from memory');
+	await page.getByRole('link', { name: 'notes on sources and caveats' }).click();
+	await expect(page.getByRole('heading', { level: 1, name: 'Sources and caveats' })).toBeVisible();
+	await expect(page.getByRole('main')).toContainText('ISO 11898-1');
+	await page.goto(`/w/${WORKSPACE}/tools`);
 
 	// Bit timing, by keyboard and presets: 16 MHz, 500 kbit/s, 87.5 %.
 	const calculator = page.getByRole('region', { name: 'Bit-timing calculator' });
@@ -82,7 +88,7 @@ test('a viewer computes a bit timing, sees a map revision’s bus load and opens
 	const checks = page.getByRole('list', { name: 'Checks' });
 	await expect(checks.getByText('About 60 Ω across CAN-H and CAN-L, power off')).toBeVisible();
 	await expect(checks.getByText('common practice').first()).toBeVisible();
-	await expect(page.getByRole('complementary', { name: 'Safety' })).toContainText(
+	await expect(page.getByRole('complementary', { name: 'Caution' })).toContainText(
 		'Disconnect the battery'
 	);
 	await page.getByLabel('Termination at each of the two ends').check();

@@ -7,6 +7,7 @@ import { alertReplaySchema as libraryAlertReplaySchema } from '../can/alerts/rep
 import { dm1LampsSchema } from '../can/j1939';
 import { canIdSchema, MAX_EXTENDED_ID } from '../can/map';
 import { decodeRecordSchema } from './captures';
+import type { ValuePrecision } from '../value-format';
 import { named } from './shapes';
 
 const recordId = (what: string) =>
@@ -122,6 +123,13 @@ export type ExportKind = z.infer<typeof exportQuerySchema>['kind'];
 
 // ---- answers ----
 
+export const valuePrecisionSchema = z.discriminatedUnion('kind', [
+	z.object({ kind: z.literal('decimals'), decimals: z.number().int().min(0).max(20) }),
+	z.object({ kind: z.literal('float32') }),
+	z.object({ kind: z.literal('float64') }),
+	z.object({ kind: z.literal('computed') })
+]) satisfies z.ZodType<ValuePrecision>;
+
 /** Per channel of a decode: its statistics (samples are fetched through the series route). */
 export const channelSummarySchema = z.object({
 	index: z.number().int(),
@@ -139,7 +147,9 @@ export const channelSummarySchema = z.object({
 	limitMax: z.number().nullable(),
 	/** Samples a J1939 sender flagged as "not available" / "error" (SAE J1939-71 ranges). */
 	notAvailable: z.number().int(),
-	errors: z.number().int()
+	errors: z.number().int(),
+	/** How its values print: the decimals its scale allows (src/lib/value-format.ts). */
+	precision: valuePrecisionSchema.optional()
 });
 export type ChannelSummary = z.infer<typeof channelSummarySchema>;
 

@@ -83,6 +83,16 @@ import {
 } from './receivers';
 import { busLoadQuerySchema, busLoadResponseSchema } from './tools';
 import {
+	derivedExportQuerySchema,
+	derivedSeriesQuerySchema,
+	derivedSeriesResponseSchema,
+	savedViewListSchema,
+	savedViewSchema,
+	saveViewInputSchema,
+	spanQuerySchema,
+	spanResponseSchema
+} from './workbench';
+import {
 	createdWorkspaceResponseSchema,
 	invitationInputSchema,
 	invitationResponseSchema,
@@ -618,6 +628,92 @@ export const endpoints = {
 			download: csv
 		},
 		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.derivedSeries': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/derived-series`,
+			summary:
+				'A derived channel (a formula over the decode’s channels, docs/derived-channels.md), min/max-decimated.',
+			access: 'viewer',
+			query: derivedSeriesQuerySchema,
+			status: 200,
+			response: derivedSeriesResponseSchema
+		},
+		{
+			400: 'The formula does not read (the issue’s column says where), or a parameter is invalid.',
+			404: noCapture,
+			409: notReady,
+			410: mapGone
+		}
+	),
+	'captures.span': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/span`,
+			summary:
+				'Statistics, time above a threshold and a histogram of a channel over a span, and XY pairs with a second channel.',
+			access: 'viewer',
+			query: spanQuerySchema,
+			status: 200,
+			response: spanResponseSchema
+		},
+		{
+			400: 'A formula does not read (the issue’s column says where), or a parameter is invalid.',
+			404: noCapture,
+			409: notReady,
+			410: mapGone
+		}
+	),
+	'captures.exportDerived': endpoint(
+		{
+			method: 'GET',
+			path: '/w/{ws}/captures/{id}/export/derived',
+			summary:
+				'A streamed CSV of the decode’s channels followed by derived channels, in long or wide form.',
+			access: 'viewer',
+			query: derivedExportQuerySchema,
+			status: 200,
+			download: csv
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.views': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/views`,
+			summary: 'The saved views of a capture’s workbench.',
+			access: 'viewer',
+			status: 200,
+			response: savedViewListSchema
+		},
+		{ 404: noCapture }
+	),
+	'captures.saveView': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/views`,
+			summary:
+				'Saves the workbench view under a name (the same person saving the same name replaces it).',
+			access: 'viewer',
+			body: saveViewInputSchema,
+			status: 201,
+			response: savedViewSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: 'This capture has too many saved views.' }
+	),
+	'captures.deleteView': endpoint(
+		{
+			method: 'DELETE',
+			path: `${CAPTURE}/views/{viewId}`,
+			summary: 'Deletes a saved view (its author, or an owner).',
+			access: 'viewer',
+			status: 204
+		},
+		{
+			403: 'Only the person who saved this view, or a workspace owner, can delete it.',
+			404: 'That capture or saved view does not exist.'
+		}
 	),
 
 	// ---- the API itself ----

@@ -39,7 +39,9 @@ export const createMapInputSchema = z
 		signalTableCsv: z
 			.string()
 			.max(MAX_IMPORT_CHARS, 'The signal table is larger than 5 MB.')
-			.optional()
+			.optional(),
+		/** Bit rate of a blank map or a signal-table import (a map file carries its own). */
+		bitrate: canMapSchema.shape.bitrate.unwrap().optional()
 	})
 	.superRefine((body, ctx) => {
 		if (body.mapJson !== undefined && body.signalTableCsv !== undefined) {
@@ -47,6 +49,13 @@ export const createMapInputSchema = z
 				code: 'custom',
 				path: ['signalTableCsv'],
 				message: 'Send either mapJson or signalTableCsv, not both.'
+			});
+		}
+		if (body.mapJson !== undefined && body.bitrate !== undefined) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['bitrate'],
+				message: 'A map file carries its own bit rate; change it in the file or after importing.'
 			});
 		}
 		if (

@@ -46,6 +46,23 @@ export function capturePaths(slug: string) {
 					decode: decodeId ?? undefined,
 					...(kind === 'wide' && wide ? { interval: wide.interval, mode: wide.mode } : {})
 				}
+			}),
+		/** The decode's channels followed by derived channels (docs/derived-channels.md) as one CSV. */
+		exportDerived: (
+			id: string,
+			kind: 'long' | 'wide',
+			decodeId: string,
+			derived: { name: string; unit: string; formula: string }[],
+			wide?: { interval: number; mode: 'last' | 'mean' }
+		) =>
+			endpointUrl('captures.exportDerived', {
+				params: { ws: slug, id },
+				query: {
+					kind,
+					decode: decodeId,
+					derived: JSON.stringify(derived),
+					...(kind === 'wide' && wide ? { interval: wide.interval, mode: wide.mode } : {})
+				}
 			})
 	};
 }

@@ -7,6 +7,7 @@ import { fieldLayout, readFloatNumber, readIntegerNumber, type FieldLayout } fro
 import { multiplexerIndex } from './codec';
 import { j1939Pgn, j1939ValueStatus } from './j1939';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID, type CanMap, type Frame, type Signal } from './map';
+import { precisionOf, type ValuePrecision } from '../value-format';
 
 export interface ChannelInfo {
 	index: number;
@@ -16,6 +17,8 @@ export interface ChannelInfo {
 	unit: string;
 	min: number | null;
 	max: number | null;
+	/** How many decimals the signal's scale and offset allow when its values are printed. */
+	precision?: ValuePrecision;
 }
 
 /** Per-signal outcome written to the optional status array. */
@@ -424,7 +427,8 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 				signalName: s.name,
 				unit: s.unit,
 				min: s.min,
-				max: s.max
+				max: s.max,
+				precision: precisionOf(s)
 			});
 		}
 		// First definition wins on duplicates; lintMap reports them.

@@ -44,6 +44,7 @@ export class DraftCopy<D extends object, V extends DraftRecordView> {
 	#savedJson = $state('');
 	#saving = $state(false);
 	#lastEdit = $state.raw<{ what: string; before: D } | null>(null);
+	#savedHereAt = $state<string | null>(null);
 
 	/** A line for the person after a save, reload or other server-side change; cleared by the next edit. */
 	notice = $state<string | null>(null);
@@ -73,6 +74,13 @@ export class DraftCopy<D extends object, V extends DraftRecordView> {
 	}
 	get saving(): boolean {
 		return this.#saving;
+	}
+	/**
+	 * When this page last saved the draft (ISO time), so "last saved" follows a save without a
+	 * reload; null until it saves, and again when newer server data is adopted (which says itself).
+	 */
+	get savedHereAt(): string | null {
+		return this.#savedHereAt;
 	}
 	/** What the last edit changed, while it can still be undone. */
 	get undoable(): string | null {
@@ -117,6 +125,9 @@ export class DraftCopy<D extends object, V extends DraftRecordView> {
 			const { version } = await this.#io.save(this.#version, sent);
 			this.#version = version;
 			this.#savedJson = JSON.stringify(sent);
+			// An ISO stamp, not a kept Date object: nothing mutates it.
+			// eslint-disable-next-line svelte/prefer-svelte-reactivity
+			this.#savedHereAt = new Date().toISOString();
 			// Edits made while the save was on its way stay unsaved, and stay undoable.
 			if (this.#draft === sent) this.#lastEdit = null;
 			this.notice = 'Draft saved.';
@@ -194,6 +205,7 @@ export class DraftCopy<D extends object, V extends DraftRecordView> {
 		this.#version = version;
 		this.#savedJson = JSON.stringify(draft);
 		this.#lastEdit = null;
+		this.#savedHereAt = null;
 		this.failure = null;
 		this.notice = null;
 	}

@@ -107,6 +107,8 @@ describe('MapDraft', () => {
 
 	it('saves under the loaded version, takes the new version and clears dirty', async () => {
 		const { server, editor } = setUp();
+		const before = Date.now();
+		expect(editor.savedHereAt).toBeNull();
 		editor.change(renameSignal(editor.draft, 'EngineCoolant'), 'signal name');
 		expect(await editor.save()).toBe(true);
 		expect(server.saves.map((s) => s.version)).toEqual([7]);
@@ -114,6 +116,8 @@ describe('MapDraft', () => {
 		expect(editor.version).toBe(8);
 		expect(editor.dirty).toBe(false);
 		expect(editor.notice).toBe('Draft saved.');
+		// "Last saved" follows the save: the time it succeeded, not the time the page was loaded.
+		expect(Date.parse(editor.savedHereAt!)).toBeGreaterThanOrEqual(before);
 		expect(editor.failure).toBeNull();
 		// The next save claims the new version, so the server accepts it too.
 		editor.change({ bitrate: 125_000 }, 'bit rate');

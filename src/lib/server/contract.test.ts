@@ -480,6 +480,53 @@ describe('every endpoint answers as the contract says', () => {
 			).status
 		).toBe(404);
 
+		// The workbench: derived channels and saved views.
+		const derived = await call(services, viewer, 'captures.derivedSeries', {
+			params: { ws, id },
+			query: { decode: decode.id, formula: 'OilPressure * 2', points: 50 }
+		});
+		expect((derived.body as { count: number }).count).toBeGreaterThan(0);
+		const badFormula = await call(services, viewer, 'captures.derivedSeries', {
+			params: { ws, id },
+			query: { decode: decode.id, formula: 'OilPressure * * 2' }
+		});
+		expect(badFormula.status).toBe(400);
+		expect((badFormula.body as { issues: { column: number }[] }).issues[0].column).toBe(15);
+		const span = await call(services, viewer, 'captures.span', {
+			params: { ws, id },
+			query: {
+				decode: decode.id,
+				formula: '{Pressures.OilPressure}',
+				versus: 'FuelPressure',
+				from: 1,
+				to: 3,
+				above: 300
+			}
+		});
+		expect((span.body as { statistics: { count: number } }).statistics.count).toBeGreaterThan(10);
+		const withDerived = await call(services, viewer, 'captures.exportDerived', {
+			params: { ws, id },
+			query: {
+				kind: 'wide',
+				decode: decode.id,
+				derived: JSON.stringify([{ name: 'Twice', unit: 'kPa', formula: 'OilPressure * 2' }])
+			}
+		});
+		expect(await withDerived.response.text()).toMatch(/^time,.*Derived\.Twice \[kPa\]\n/);
+		const saved = await call(services, viewer, 'captures.saveView', {
+			params: { ws, id },
+			body: {
+				name: 'Oil',
+				state: { strips: [['c0', 'd0']], derived: [{ name: 'Twice', formula: 'OilPressure * 2' }] }
+			}
+		});
+		const viewId = (saved.body as { id: string }).id;
+		await call(services, viewer, 'captures.views', { params: { ws, id } });
+		expect(
+			(await call(services, editor, 'captures.deleteView', { params: { ws, id, viewId } })).status
+		).toBe(403);
+		await call(services, viewer, 'captures.deleteView', { params: { ws, id, viewId } });
+
 		await call(services, viewer, 'captures.delete', { params: { ws, id } });
 	});
 });

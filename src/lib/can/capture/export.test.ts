@@ -1,6 +1,7 @@
 // Node-only test for the fixture round trips: it reads the demo files from disk (demo data, used only
 // as input to round trips, never as check values).
 import { readFile } from 'node:fs/promises';
+import { precisionOf } from '../../value-format';
 import { describe, expect, it } from 'vitest';
 import { readCsvRecords } from '../csv-records';
 import { compileMap } from '../decoder';
@@ -95,7 +96,7 @@ describe('canonicalCaptureCsv', () => {
 });
 
 describe('longFormCsv', () => {
-	it('holds every decoded sample with its exact value, in time order across channels', async () => {
+	it('holds every decoded sample at its signal’s precision, in time order across channels', async () => {
 		const parsed = parseMap(await fixture('club-racer-ecu.map.json'));
 		if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
 		const { store } = await ingestCapture(await fixture('club-racer-session.csv'));
@@ -115,10 +116,26 @@ describe('longFormCsv', () => {
 		}
 		for (const c of channels) {
 			const mine = byChannel.get(`${c.info.frameName}/${c.info.signalName}`) ?? [];
-			expect(mine.map((r) => Number(r[3]))).toEqual([...c.value]);
+			// Printed with the decimals the scale allows: the same number up to the double's own noise,
+			// and never the noise itself (at most 15 significant digits).
+			mine.forEach((r, j) => {
+				expect(Math.abs(Number(r[3]) - c.value[j])).toBeLessThanOrEqual(
+					1e-12 * Math.max(1, Math.abs(c.value[j]))
+				);
+				expect(r[3].replace(/^-|\.|e.*$/g, '').replace(/^0+/, '').length).toBeLessThanOrEqual(15);
+			});
 			expect(mine.map((r) => Number(r[0]))).toEqual([...c.time]);
 			expect(mine.every((r) => r[4] === c.info.unit)).toBe(true);
 		}
+	});
+
+	it('prints values with the decimals their scale allows, without binary noise', () => {
+		const c = channel('Fuel', 'Flow', 'l/s', [0, 0.1], [3524 * 0.000001, 998 * 0.1]);
+		c.info.precision = precisionOf({ scale: 0.000001, offset: 0, valueType: 'unsigned' });
+		// 3524 × 0.000001 is 0.0035240000000000002 as a double; the 1e-6 scale allows six decimals.
+		expect(text(longFormCsv([c]))).toBe(
+			'time,frame,signal,value,unit\n0,Fuel,Flow,0.003524,l/s\n0.1,Fuel,Flow,99.800000,l/s\n'
+		);
 	});
 
 	it('quotes names per RFC 4180 (comma, double quote, line break) and they read back intact', () => {

@@ -3,9 +3,10 @@
  * samples never becomes one giant string: decoded channels in long form (one row per sample) or
  * wide form (one column per channel, resampled on a fixed interval), and the raw frames in the
  * canonical capture layout of docs/capture-csv.md, which the importer reads back unchanged.
- * Numbers are written with `String(n)`, the shortest text that reads back to the same double
- * (ECMAScript Number::toString), so nothing is lost; names are written by `csvText` (src/lib/can/csv-cell.ts):
- * quoted per RFC 4180 when needed, neutralised when a spreadsheet would run them as formulas.
+ * Values are written with the decimals their signal's scale allows (`src/lib/value-format.ts`:
+ * exact, without binary noise such as 99.80000000000001), means with 12 significant digits, times
+ * with `String(n)`; names are written by `csvText` (src/lib/can/csv-cell.ts): quoted per RFC 4180
+ * when needed, neutralised when a spreadsheet would run them as formulas.
  */
 import { csvText } from '../csv-cell';
 import { lengthToDlc } from '../dlc';
@@ -15,6 +16,7 @@ import type { FrameColumns } from './frame-columns';
 import { FLAG_EXTENDED } from './frame-store';
 import { CANONICAL_HEADER } from './layout';
 import { slugPart } from '../../slug';
+import { formatComputed, valueFormatter } from '../../value-format';
 
 /** What an export needs of a channel (a decoded `Channel` fits). Times must be non-decreasing. */
 export type ExportChannel = Pick<Channel, 'info' | 'time' | 'value'>;
@@ -49,6 +51,7 @@ export function* longFormCsv(
 		(c) => `,${csvText(c.info.frameName)},${csvText(c.info.signalName)},`
 	);
 	const tail = channels.map((c) => `,${csvText(c.info.unit)}\n`);
+	const format = channels.map((c) => valueFormatter(c.info.precision));
 	const next = new Uint32Array(channels.length); // each channel's next sample
 	// Heap of channel indices ordered by (next sample's time, channel index).
 	const heap: number[] = [];
@@ -80,7 +83,7 @@ export function* longFormCsv(
 			const k = heap[0];
 			const c = channels[k];
 			const i = next[k]++;
-			yield String(c.time[i]) + middle[k] + String(c.value[i]) + tail[k];
+			yield String(c.time[i]) + middle[k] + format[k](c.value[i]) + tail[k];
 			if (next[k] === c.time.length) {
 				const last = heap.pop()!;
 				if (heap.length > 0) heap[0] = last;
@@ -148,6 +151,7 @@ export function* wideFormCsv(
 	const from = options.from ?? Math.min(...withSamples.map((c) => c.time[0]));
 	const to = options.to ?? Math.max(...withSamples.map((c) => c.time[c.time.length - 1]));
 	const header = ['time', ...channels.map((c) => wideColumnName(c.info))].join(',') + '\n';
+	const format = channels.map((c) => valueFormatter(c.info.precision));
 	if (!Number.isFinite(from) || !Number.isFinite(to) || to < from) {
 		yield header; // no samples (or an empty range): the header alone
 		return;
@@ -162,18 +166,18 @@ export function* wideFormCsv(
 			// the rounded tick is both the one compared and the one written, so the row stays exact.
 			const tick = Number((from + k * interval).toPrecision(15));
 			let row = String(tick);
-			for (const c of channels) {
+			for (const [k, c] of channels.entries()) {
 				row += ',';
 				if (mode === 'last') {
 					const i = upperBound(c.time, tick) - 1;
-					if (i >= 0) row += String(c.value[i]);
+					if (i >= 0) row += format[k](c.value[i]);
 				} else {
 					// Samples in (previous tick, tick]: consecutive rows share their boundary, so each sample counts once.
 					const start = upperBound(c.time, k === 0 ? tick - interval : previousTick);
 					const end = upperBound(c.time, tick);
 					let sum = 0;
 					for (let i = start; i < end; i++) sum += c.value[i];
-					if (end > start) row += String(sum / (end - start));
+					if (end > start) row += formatComputed(sum / (end - start));
 				}
 			}
 			previousTick = tick;

@@ -79,7 +79,8 @@ export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
 			limitMin: c.info.min,
 			limitMax: c.info.max,
 			notAvailable: c.notAvailableCount,
-			errors: c.errorCount
+			errors: c.errorCount,
+			...(c.info.precision ? { precision: c.info.precision } : {})
 		})),
 		ids: result.ids.map((s) => ({
 			id: s.id,

@@ -15,7 +15,26 @@ import { runCaptureTask } from './pool';
 import type { ExportTask } from './work/tasks';
 
 /** The capture's own name without its file extension, for the download's name. */
-const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
+export const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
+
+/**
+ * Pulls the first chunk before the response starts, so a refusal (a wide export with far too many
+ * rows) becomes a 400 instead of a download that breaks off.
+ */
+export function primed(chunks: Generator<string>): Iterable<string> {
+	let first: IteratorResult<string>;
+	try {
+		first = chunks.next();
+	} catch (thrown) {
+		if (thrown instanceof RangeError)
+			throw new Problem(400, thrown.message, [{ path: 'interval', message: thrown.message }]);
+		throw thrown;
+	}
+	return (function* () {
+		if (!first.done) yield first.value;
+		yield* { [Symbol.iterator]: () => chunks };
+	})();
+}
 
 export async function exportCapture(
 	services: Services,

@@ -27,6 +27,7 @@ describe('migrations', () => {
 				'VerificationToken',
 				'audit_log',
 				'capture_decodes',
+				'capture_views',
 				'captures',
 				'invitations',
 				'mailbox_messages',

@@ -244,6 +244,17 @@ export interface ReceiverSynonymsTable {
 	updated_at: string;
 }
 
+/** A saved view of a capture's workbench (its state as JSON, `src/lib/api/workbench.ts`). */
+export interface CaptureViewTable {
+	id: string;
+	capture_id: string;
+	name: string;
+	state_json: string;
+	/** null once the author's account is gone. */
+	saved_by: string | null;
+	saved_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -264,6 +275,7 @@ export interface Database {
 	receiver_profiles: ReceiverProfileTable;
 	receiver_profile_revisions: ReceiverProfileRevisionTable;
 	receiver_synonyms: ReceiverSynonymsTable;
+	capture_views: CaptureViewTable;
 }
 
 export type User = Selectable<UserTable>;

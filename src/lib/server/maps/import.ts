@@ -4,12 +4,15 @@
  */
 import type { CreateMapInput, CreatedMapResponse } from '../../api/maps';
 import type { Issue } from '../../api/problem';
-import { MAP_FORMAT, type CanMap } from '../../can/map';
+import { canMapSchema, MAP_FORMAT, type CanMap } from '../../can/map';
 import { parseMap } from '../../can/map-json';
 import { parseSignalTable } from '../../can/signal-table-csv';
 import type { DB } from '../db/connection';
 import { Problem } from '../problem';
 import { createMap, type MapSource } from './maps';
+
+/** What the map format itself defaults to when a file gives no bit rate. */
+const DEFAULT_BITRATE = canMapSchema.shape.bitrate.parse(undefined);
 
 function refused(kind: string, issues: Issue[]): Problem {
 	return new Problem(
@@ -31,7 +34,10 @@ function mapFromInput(input: CreateMapInput): { map: CanMap; source: MapSource }
 		return { map: input.name ? { ...parsed.map, name: input.name } : parsed.map, source: 'json' };
 	}
 	if (input.signalTableCsv !== undefined) {
-		const parsed = parseSignalTable(input.signalTableCsv, { name: input.name });
+		const parsed = parseSignalTable(input.signalTableCsv, {
+			name: input.name,
+			bitrate: input.bitrate
+		});
 		if (!parsed.ok) {
 			throw refused(
 				'signal table',
@@ -48,7 +54,13 @@ function mapFromInput(input: CreateMapInput): { map: CanMap; source: MapSource }
 	// createMapInputSchema refuses a request with neither a file nor a name.
 	const name = input.name!;
 	return {
-		map: { format: MAP_FORMAT, name, bitrate: 500_000, frames: [], alertRules: [] },
+		map: {
+			format: MAP_FORMAT,
+			name,
+			bitrate: input.bitrate ?? DEFAULT_BITRATE,
+			frames: [],
+			alertRules: []
+		},
 		source: 'blank'
 	};
 }

@@ -554,6 +554,35 @@ describe('bad input to the map API', () => {
 	});
 });
 
+describe('the bit rate of a new map', () => {
+	it('a blank map and a signal table take the chosen rate; a map file keeps its own', async () => {
+		const w = await buildWorld();
+		const create = (body: Record<string, unknown>) =>
+			call(w, mapsRoute.POST, '/api/workspaces/[ws]/maps', 'editor', { method: 'POST', body });
+		const draftOf = async (response: Response) => {
+			expect(response.status).toBe(201);
+			const { map } = (await response.json()) as { map: { id: string } };
+			return (await getMap({ ...w, mapId: map.id })).map.draft;
+		};
+		expect((await draftOf(await create({ name: 'Slow bus', bitrate: 250_000 }))).bitrate).toBe(
+			250_000
+		);
+		const csv = ['frame_name,frame_id,signal_name,start_bit,bit_length', 'A,0x100,B,0,8'].join(
+			'\n'
+		);
+		expect(
+			(await draftOf(await create({ name: 'Table', signalTableCsv: csv, bitrate: 125_000 })))
+				.bitrate
+		).toBe(125_000);
+		// A file that names its rate is not overridden behind the person's back.
+		const refused = await create({ mapJson: clubRacerJson, bitrate: 125_000 });
+		expect(refused.status).toBe(400);
+		expect(((await refused.json()) as { issues: { path: string }[] }).issues[0].path).toBe(
+			'bitrate'
+		);
+	});
+});
+
 // ------------------------------------------------------------------ drafts, publishing, revisions
 
 describe('drafts and revisions', () => {

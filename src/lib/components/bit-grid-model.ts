@@ -68,14 +68,29 @@ type GridFrame = Pick<Frame, 'length'> & { signals: Signal[] };
 
 const byteOf = (bit: number) => Math.floor(bit / 8);
 
-/** FNV-1a (32-bit) of the name: the same signal keeps its colour when others are added or reordered. */
-export function signalHue(name: string): number {
-	let hash = 0x811c9dc5;
-	for (let i = 0; i < name.length; i++) {
-		hash ^= name.charCodeAt(i);
-		hash = Math.imul(hash, 0x01000193) >>> 0;
-	}
-	return hash % 360;
+/** Greatest common divisor, for choosing a stride that visits every hue slot once. */
+const gcd = (a: number, b: number): number => (b === 0 ? a : gcd(b, a % b));
+
+/**
+ * Hues for `count` signals: evenly spaced around the circle (so any two differ by at least
+ * 360°/count), visited with a stride near count × 0.382 (the golden section) so signals next to
+ * each other in the layout land far apart on the circle. `order[k]` is the signal drawn k-th from bit 0 upwards.
+ */
+export function signalHues(
+	count: number,
+	order: readonly number[] = [...Array(count).keys()]
+): number[] {
+	const hues = new Array<number>(count).fill(0);
+	if (count === 0) return hues;
+	const stride = Math.max(1, Math.round(count * 0.382));
+	// When the stride shares a factor with count it comes back to slot 0 early: step one slot on.
+	const cycle = count / gcd(stride, count);
+	// Start at 25° so a lone signal is an orange-ish tone rather than pure red.
+	order.forEach((signal, k) => {
+		const slot = (k * stride + Math.floor(k / cycle)) % count;
+		hues[signal] = 25 + slot * (360 / count);
+	});
+	return hues;
 }
 
 function words(name: string): string[] {
@@ -178,11 +193,17 @@ export function buildBitGrid(frame: GridFrame): BitGridModel {
 		.sort((x, y) => x.a - y.a || x.b - y.b);
 
 	const abbreviations = abbreviate(frame.signals.map((s) => s.name));
+	// Neighbours in the grid are signals next to each other by their lowest bit.
+	const lowest = positions.map((list) => (list.length ? Math.min(...list) : Infinity));
+	const hues = signalHues(
+		frame.signals.length,
+		frame.signals.map((_, i) => i).sort((a, b) => lowest[a] - lowest[b] || a - b)
+	);
 	const signals = frame.signals.map((s, index) => ({
 		index,
 		name: s.name,
 		abbreviation: abbreviations[index],
-		hue: signalHue(s.name),
+		hue: hues[index],
 		byteOrder: s.byteOrder,
 		outsideBits: positions[index].filter((bit) => !inPayload(bit))
 	}));

@@ -7,7 +7,7 @@ import {
 	buildBitGrid,
 	dragToField,
 	nudgeField,
-	signalHue,
+	signalHues,
 	type GridCell
 } from './bit-grid-model';
 
@@ -209,11 +209,39 @@ describe('labels and colours', () => {
 		]);
 	});
 
-	it('gives a signal the same hue whatever else is in the frame', () => {
-		const hue = signalHue('OilPressure');
-		expect(hue).toBeGreaterThanOrEqual(0);
-		expect(hue).toBeLessThan(360);
-		expect(signalHue('OilPressure')).toBe(hue);
-		expect(signalHue('OilPressure2')).not.toBe(hue);
+	/** Shortest way round the hue circle between two hues, in degrees. */
+	const hueDistance = (a: number, b: number) => {
+		const d = Math.abs(a - b) % 360;
+		return Math.min(d, 360 - d);
+	};
+
+	it.each([1, 2, 3, 4, 5, 6, 8, 12, 16, 24, 64])(
+		'gives %i signals hues at least 360°/n apart, neighbours in the layout never closest',
+		(n) => {
+			const hues = signalHues(n);
+			expect(new Set(hues).size).toBe(n);
+			let closest = Infinity;
+			for (let i = 0; i < n; i++)
+				for (let j = i + 1; j < n; j++) closest = Math.min(closest, hueDistance(hues[i], hues[j]));
+			if (n > 1) expect(closest).toBeGreaterThanOrEqual(360 / n - 1e-9);
+			// Signals drawn one after the other are at least two slots apart once there are 5 or more.
+			for (let k = 1; k < n; k++)
+				expect(hueDistance(hues[k], hues[k - 1])).toBeGreaterThanOrEqual(
+					(n >= 5 ? 2 : 1) * (360 / n) - 1e-9
+				);
+		}
+	);
+
+	it('orders hues by where signals sit in the payload', () => {
+		const model = buildBitGrid({
+			length: 2,
+			signals: [
+				signal({ name: 'High', startBit: 8, length: 8 }),
+				signal({ name: 'Low', startBit: 0, length: 8 })
+			]
+		});
+		// Low (bit 0) is drawn first: it gets the first hue, High the next slot, 180° away.
+		expect(model.signals[1].hue).toBe(25);
+		expect(model.signals[0].hue).toBe(205);
 	});
 });

@@ -1,0 +1,62 @@
+import { readFileSync } from 'node:fs';
+import { expect, type Page } from '@playwright/test';
+
+export const DEMO_SLUG = 'quillmoor-club-racing';
+export const GENSET_CSV = 'fixtures/genset-idle.csv';
+export const GENSET_MAP = 'Generator set engine (J1939)';
+
+/** Uploads a fixture capture of the journey's own through the API and waits until it is processed. */
+export async function uploadAndProcess(page: Page, path = GENSET_CSV): Promise<string> {
+	const api = `/api/workspaces/${DEMO_SLUG}/captures`;
+	const name = path.split('/').at(-1)!;
+	const upload = await page.request.post(`${api}?name=${encodeURIComponent(name)}`, {
+		data: readFileSync(path),
+		headers: { 'content-type': 'text/csv' }
+	});
+	expect(upload.status()).toBe(201);
+	const { capture, detected } = (await upload.json()) as {
+		capture: { id: string };
+		detected: { layout: unknown };
+	};
+	const process = await page.request.post(`${api}/${capture.id}/process`, {
+		data: { layout: detected.layout }
+	});
+	expect(process.status()).toBe(202);
+	await expect
+		.poll(
+			async () =>
+				(
+					(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
+						status: string;
+					}
+				).status,
+			{ timeout: 60_000 }
+		)
+		.toBe('ready');
+	return capture.id;
+}
+
+/** On the capture page: decodes with the map's latest revision from the Decodes panel. */
+export async function decodeWithLatest(page: Page, mapName = GENSET_MAP): Promise<void> {
+	await page.getByRole('tab', { name: 'Decodes' }).click();
+	const panel = page.getByRole('region', { name: 'Decode', exact: true });
+	await panel.getByLabel('Map').selectOption({ label: mapName });
+	const revision = panel.getByLabel('Revision');
+	const latest = (await revision.locator('option', { hasText: '(latest)' }).innerText()).trim();
+	await revision.selectOption({ label: latest });
+	await panel.getByRole('button', { name: 'Decode' }).click();
+	await expect(page.getByText(`Showing the decode with ${mapName}`)).toBeVisible({
+		timeout: 30_000
+	});
+}
+
+/** Plots a decoded channel from the Channels panel (`Frame · Signal`). */
+export async function plotChannel(page: Page, frameAndSignal: string): Promise<void> {
+	await page.getByRole('tab', { name: 'Channels' }).click();
+	await page.getByRole('button', { name: `Plot ${frameAndSignal}`, exact: true }).click();
+	await expect(
+		page.getByRole('list', { name: /^Channels on strip/ }).filter({
+			hasText: frameAndSignal.split(' · ')[1]
+		})
+	).toBeVisible({ timeout: 20_000 });
+}
