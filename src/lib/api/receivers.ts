@@ -6,7 +6,7 @@
  * module with the client (docs/receivers.md).
  */
 import { z } from 'zod';
-import type { LinkReport } from '../can/receivers/linking';
+import { linkReportSchema as libraryLinkReportSchema } from '../can/receivers/link-report-schema';
 import { linkSchema } from '../can/receivers/link-schema';
 import {
 	PROFILE_FORMAT,
@@ -14,13 +14,13 @@ import {
 	receiverProfileSchema,
 	wantedChannelSchema
 } from '../can/receivers/profile';
-import type { ProfileDiff } from '../can/receivers/profile-diff';
-import type { CaptureCheck } from '../can/receivers/check';
-import type { RelinkResult } from '../can/receivers/relink';
+import { profileDiffSchema as libraryProfileDiffSchema } from '../can/receivers/profile-diff';
+import { captureCheckSchema as libraryCaptureCheckSchema } from '../can/receivers/capture-check-schema';
+import { relinkResultSchema as libraryRelinkResultSchema } from '../can/receivers/relink-result-schema';
 import { roleSchema } from '../roles';
 import { alertReplaySchema } from './capture-views';
 import { revisionRefSchema, revisionSummarySchema } from './maps';
-import { libraryShape, personRefSchema, timestampSchema } from './shapes';
+import { named, personRefSchema, timestampSchema } from './shapes';
 
 // ---- the draft ----
 
@@ -198,19 +198,23 @@ export const checkPageQuerySchema = z.object({
 
 // ---- answers ----
 
-const linkReportSchema = libraryShape<LinkReport>(
+const linkReportSchema = named(
+	libraryLinkReportSchema,
 	'LinkReport',
 	'Links, unlinked wanted channels with their best candidates (score and reason) and links made by hand that cannot be made (src/lib/can/receivers/linking.ts).'
 );
-const relinkResultSchema = libraryShape<RelinkResult>(
+const relinkResultSchema = named(
+	libraryRelinkResultSchema,
 	'RelinkResult',
 	'Each link kept, changed or broken on the new map revision, with details and suggestions (src/lib/can/receivers/relink.ts).'
 );
-const captureCheckSchema = libraryShape<CaptureCheck>(
+const captureCheckSchema = named(
+	libraryCaptureCheckSchema,
 	'CaptureCheck',
 	"Per wanted channel the installer's checklist on a capture: samples, update interval, display range, stuck value (src/lib/can/receivers/check.ts)."
 );
-const profileDiffSchema = libraryShape<ProfileDiff>(
+const profileDiffSchema = named(
+	libraryProfileDiffSchema,
 	'ProfileDiff',
 	'Field-by-field differences between two snapshots of a profile (src/lib/can/receivers/profile-diff.ts).'
 );

@@ -19,14 +19,3 @@ export const timestampSchema = z.string();
 export function named<S extends z.ZodType>(schema: S, id: string, description: string): S {
 	return schema.meta({ id, description }) as S;
 }
-
-/**
- * A result of the pure library that a receiver route passes through untouched, typed from the
- * library's own declaration and named for the OpenAPI document, where it shows as an open object:
- * its shape is not yet written as a zod schema (docs/architecture.md, the API contract).
- */
-export function libraryShape<T>(id: string, description: string) {
-	return z
-		.custom<T>((value) => typeof value === 'object' && value !== null)
-		.meta({ id, description });
-}

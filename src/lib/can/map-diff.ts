@@ -165,13 +165,14 @@ function diffSignals(a: readonly Signal[], b: readonly Signal[]): SignalDiff[] {
 }
 
 /** An item of a list matched by identity: added, removed, or changed in some fields. */
-export interface ItemDiff {
-	key: string;
+export const itemDiffSchema = z.object({
+	key: z.string(),
 	/** The item's name (the new one when it changed). */
-	name: string;
-	status: 'added' | 'removed' | 'changed';
-	changes: FieldChange[];
-}
+	name: z.string(),
+	status: changeStatus,
+	changes: z.array(fieldChangeSchema)
+});
+export type ItemDiff = z.infer<typeof itemDiffSchema>;
 
 /**
  * Differences between two lists whose items are matched by `identity` (repeats numbered), in the

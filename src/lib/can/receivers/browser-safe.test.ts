@@ -1,6 +1,7 @@
-// The modules the browser and the API contract load (profile schema, unit table, link shape and
-// scaling) must not pull in mathjs: only units.ts may, and pages never import it. This walks the
-// relative imports of each source file, as a bundler would, and fails naming the path to mathjs.
+// The modules the browser and the API contract load (profile schema, unit table, link shape,
+// scaling and the result shapes) must not pull in mathjs: only units.ts may, and pages never
+// import it. This walks the relative imports of each source file, as a bundler would, and fails
+// naming the path to mathjs.
 import { readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -39,12 +40,20 @@ function pathTo(entry: string, banned: string): string[] | null {
 }
 
 describe('modules the browser loads stay without mathjs', () => {
-	it.each(['profile.ts', 'unit-table.ts', 'scaling.ts', 'link-schema.ts', 'quantities.ts'])(
-		'%s',
-		(file) => {
-			expect(pathTo(resolve(here, file), 'mathjs')).toBeNull();
-		}
-	);
+	it.each([
+		'profile.ts',
+		'unit-table.ts',
+		'scaling.ts',
+		'link-schema.ts',
+		'quantities.ts',
+		// The result shapes the API contract names (src/lib/api/receivers.ts).
+		'link-report-schema.ts',
+		'relink-result-schema.ts',
+		'capture-check-schema.ts',
+		'profile-diff.ts'
+	])('%s', (file) => {
+		expect(pathTo(resolve(here, file), 'mathjs')).toBeNull();
+	});
 
 	it('finds mathjs where it is (the walk itself works)', () => {
 		expect(pathTo(resolve(here, 'linking.ts'), 'mathjs')?.at(-1)).toBe('mathjs');

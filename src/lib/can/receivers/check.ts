@@ -5,37 +5,12 @@
  */
 import type { CanMap } from '../map';
 import { formatAlertNumber } from '../alerts/rule';
+import type { CaptureCheck, ChannelCheck, CheckLine, CheckStatus } from './capture-check-schema';
 import { channelOf, deviceChannels, type CaptureChannel } from './device-alerts';
 import { channelText, findMapSignal, type Link } from './linking';
 import type { ReceiverProfile, WantedChannel } from './profile';
 
-export type CheckStatus = 'pass' | 'warning' | 'fail';
-export type CheckKind = 'link' | 'samples' | 'interval' | 'range' | 'stuck';
-
-export interface CheckLine {
-	check: CheckKind;
-	status: CheckStatus;
-	sentence: string;
-}
-
-export interface ChannelCheck {
-	wanted: string;
-	required: boolean;
-	/** The worst status of its lines. */
-	status: CheckStatus;
-	lines: CheckLine[];
-	samples: number;
-	/** Median time between samples, in milliseconds; null below two samples. */
-	medianIntervalMs: number | null;
-	maxGapMs: number | null;
-	/** Share (0…1) of samples outside the display range; null without samples or range. */
-	outsideShare: number | null;
-}
-
-export interface CaptureCheck {
-	channels: ChannelCheck[];
-	counts: Record<CheckStatus, number>;
-}
+export * from './capture-check-schema';
 
 export interface CheckOptions {
 	/** An update interval above cycle time × this is "slower than the map says" (default 1.5). */

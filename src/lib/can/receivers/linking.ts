@@ -5,7 +5,14 @@
  */
 import type { CanMap, Frame, Signal } from '../map';
 import { formatJsonPath } from '../map-json';
-import { describeConversion, makeConversion, type Conversion } from './conversion';
+import { describeConversion, makeConversion } from './conversion';
+import type {
+	Candidate,
+	LinkedChannel,
+	LinkProblem,
+	LinkReport,
+	UnlinkedChannel
+} from './link-report-schema';
 import { channelText, type Link } from './link-schema';
 import {
 	createNameMatcher,
@@ -19,6 +26,7 @@ import {
 import type { ManualLink, ReceiverProfile, WantedChannel } from './profile';
 
 export * from './link-schema';
+export * from './link-report-schema';
 
 /** Lowest score an automatic link needs. */
 export const LINK_THRESHOLD = 0.6;
@@ -33,23 +41,6 @@ const UNIT_FACTOR = {
 	reciprocal: 0.9
 } as const;
 
-export interface Candidate {
-	frame: string;
-	id: number;
-	extended: boolean;
-	signal: string;
-	frameIndex: number;
-	signalIndex: number;
-	/** 0…1: name score × unit factor; 0 when the units do not convert. */
-	score: number;
-	nameScore: number;
-	/** For people: why the name matches and how the unit converts. */
-	reason: string;
-	conversion: Conversion | null;
-	/** Why this signal cannot be linked (units that do not convert); null when it can. */
-	problem: string | null;
-}
-
 export interface LinkOptions {
 	/** A workspace's additions to the built-in synonyms. */
 	synonyms?: SynonymTableInput;
@@ -61,38 +52,6 @@ export interface LinkOptions {
 	manualLinks?: readonly ManualLink[];
 	/** Candidates listed per channel (default 5). */
 	maxCandidates?: number;
-}
-
-export interface LinkedChannel {
-	wanted: string;
-	required: boolean;
-	link: Link;
-	reason: string;
-	/** The runners-up (and the chosen one), best first, for a person to compare. */
-	candidates: Candidate[];
-}
-
-export interface UnlinkedChannel {
-	wanted: string;
-	required: boolean;
-	reason: string;
-	candidates: Candidate[];
-}
-
-export interface LinkProblem {
-	wanted: string;
-	/** Where in the profile file, e.g. `manualLinks[0].signal`. */
-	path: string;
-	message: string;
-}
-
-export interface LinkReport {
-	profile: string;
-	map: string;
-	links: LinkedChannel[];
-	unlinked: UnlinkedChannel[];
-	/** Links fixed by hand that cannot be made; nothing of them is in `links`. */
-	problems: LinkProblem[];
 }
 
 interface MapSignal {

@@ -4,8 +4,16 @@
  * case, as names are unique that way), links matched by their wanted channel, and device alert
  * rules matched by id. mathjs-free: only data is compared.
  */
-import { diffAlertRules, diffItems, fieldChanges, type AlertRuleDiff } from '../map-diff';
-import type { FieldChange, ItemDiff } from '../map-diff';
+import { z } from 'zod';
+import {
+	alertRuleDiffSchema,
+	diffAlertRules,
+	diffItems,
+	fieldChanges,
+	fieldChangeSchema,
+	itemDiffSchema,
+	type ItemDiff
+} from '../map-diff';
 import type { Link } from './link-schema';
 import type { ReceiverProfile } from './profile';
 
@@ -17,14 +25,18 @@ export interface ProfileSnapshot {
 	linkedTo: string | null;
 }
 
-export interface ProfileDiff {
+export const profileDiffSchema = z.object({
 	/** Profile-level fields (name, kind, notes) and `linkedTo`. */
-	changes: FieldChange[];
-	wanted: ItemDiff[];
-	links: ItemDiff[];
-	alertRules: AlertRuleDiff[];
-	identical: boolean;
-}
+	changes: z.array(fieldChangeSchema),
+	/** Wanted channels matched by name; only those that differ. */
+	wanted: z.array(itemDiffSchema),
+	/** Links matched by their wanted channel; only those that differ. */
+	links: z.array(itemDiffSchema),
+	alertRules: z.array(alertRuleDiffSchema),
+	/** True when nothing at all differs. */
+	identical: z.boolean()
+});
+export type ProfileDiff = z.infer<typeof profileDiffSchema>;
 
 const WANTED_FIELDS = [
 	'quantity',

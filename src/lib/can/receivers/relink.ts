@@ -6,7 +6,7 @@
  */
 import type { CanMap, Signal } from '../map';
 import type { FieldChange } from '../map-diff';
-import { composeScaling, describeConversion, type ComposedScaling } from './conversion';
+import { composeScaling, describeConversion } from './conversion';
 import {
 	channelText,
 	conversionFor,
@@ -17,30 +17,11 @@ import {
 	type Candidate,
 	type Link
 } from './linking';
+import type { RelinkItem, RelinkResult } from './relink-result-schema';
 import { createNameMatcher, mergeSynonyms, type SynonymTableInput } from './names';
 import { findWanted, type ReceiverProfile } from './profile';
 
-export type RelinkStatus = 'kept' | 'changed' | 'broken';
-
-export interface RelinkItem {
-	wanted: string;
-	status: RelinkStatus;
-	before: Link;
-	/** The link as it would be on revision B; null when broken. */
-	after: Link | null;
-	/** Decoding fields of the signal that differ between A and B. */
-	changes: FieldChange[];
-	/** How the device turns raw into its value, on A and on B (null where there is no signal). */
-	scaling: { before: ComposedScaling | null; after: ComposedScaling | null };
-	/** For a broken link: the signal of B most likely to be the old one under a new name. */
-	suggestion: (Candidate & { evidence: string }) | null;
-	message: string;
-}
-
-export interface RelinkResult {
-	items: RelinkItem[];
-	counts: Record<RelinkStatus, number>;
-}
+export * from './relink-result-schema';
 
 /** The fields that change what a device decodes. */
 const DECODING_FIELDS = [

@@ -50,12 +50,13 @@ export function applyConversion(conversion: Conversion, x: number): number {
 }
 
 /** A signal's scale/offset composed with a conversion: how a device turns raw into its value. */
-export interface ComposedScaling {
+export const composedScalingSchema = z.object({
 	/** linear: value = raw × scale + offset; reciprocal: value = 1 / (raw × scale + offset). */
-	form: ConversionForm;
-	scale: number;
-	offset: number;
-}
+	form: conversionFormSchema,
+	scale: z.number(),
+	offset: z.number()
+});
+export type ComposedScaling = z.infer<typeof composedScalingSchema>;
 
 export function composeScaling(
 	signal: { scale: number; offset: number },
