@@ -22,7 +22,7 @@ test('a new map and a CSV signal table take the chosen bit rate; "last saved" fo
 	await page.goto(mapsPath);
 	const name = `Slow body bus ${unique()}`;
 	await page.getByLabel('Map name').fill(name);
-	await page.getByLabel('Bit rate').selectOption({ label: '250 kbit/s' });
+	await page.getByLabel('Bit rate', { exact: true }).selectOption({ label: '250 kbit/s' });
 	await page.getByRole('button', { name: 'Create blank map' }).click();
 	await expect(page.getByRole('heading', { level: 1, name })).toBeVisible();
 	const status = page.getByText(/· last saved/);
@@ -36,8 +36,7 @@ test('a new map and a CSV signal table take the chosen bit rate; "last saved" fo
 
 	// The table has no bit rate of its own: the panel says which the new map gets.
 	await page.goto(mapsPath);
-	await page.getByLabel('Bit rate').selectOption({ label: '125 kbit/s' });
-	await expect(page.getByText(/the new map gets the one chosen above, 125 kbit\/s/)).toBeVisible();
+	await page.getByLabel('Bit rate of the new map').selectOption({ label: '125 kbit/s' });
 	await page.getByLabel('Import a CSV signal table').setInputFiles({
 		name: 'table.csv',
 		mimeType: 'text/csv',
@@ -48,7 +47,7 @@ test('a new map and a CSV signal table take the chosen bit rate; "last saved" fo
 	await expect(page.getByText(/· last saved/)).toContainText('125 kbit/s');
 });
 
-test('importing a map file under a name in use asks: cancel, import as a copy, or replace the draft', async ({
+test('importing a map file under a name in use asks first, then imports a copy or replaces the draft', async ({
 	page
 }) => {
 	await signIn(page, 'calibrator@framewright.test');
@@ -58,6 +57,7 @@ test('importing a map file under a name in use asks: cancel, import as a copy, o
 		buffer: Buffer.from(JSON.stringify(map))
 	});
 	const input = () => page.getByLabel('Import a map JSON file');
+	const choice = () => page.getByLabel('If a map of that name exists');
 	// A map of this journey's own, so the demo maps keep their names for other journeys.
 	const own = `Body controller ${unique()}`;
 	await page.goto(mapsPath);
@@ -65,27 +65,24 @@ test('importing a map file under a name in use asks: cancel, import as a copy, o
 	await page.getByRole('button', { name: 'Create blank map' }).click();
 	await expect(page.getByRole('heading', { level: 1, name: own })).toBeVisible();
 	const ownPath = new URL(page.url()).pathname;
-	const question = page.getByRole('dialog', { name: `A map called “${own}” exists` });
 
-	// Cancel: nothing is created.
+	// Asked first (the default): nothing is created and the page says what to choose.
 	await page.goto(mapsPath);
 	await input().setInputFiles(file({ ...clubRacer, name: own }));
-	await expect(question).toBeVisible();
-	await question.getByRole('button', { name: 'Cancel' }).click();
-	await expect(question).toBeHidden();
-	await page.reload();
+	await expect(page.getByText(`A map called “${own}” exists already.`).first()).toBeVisible();
+	await page.goto(mapsPath);
 	await expect(page.getByRole('link', { name: new RegExp(`^${own}`) })).toHaveCount(1);
 
 	// As a copy: a new map under the first free "(copy)" name.
+	await choice().selectOption({ label: 'Import as a new map named “… (copy)”' });
 	await input().setInputFiles(file({ ...clubRacer, name: own }));
-	await question.getByRole('button', { name: `Import as a new map named “${own} (copy)”` }).click();
 	await expect(page.getByRole('heading', { level: 1, name: `${own} (copy)` })).toBeVisible();
 
 	// Replace (the name in other letter case is the same name): the existing map keeps its page and
 	// revisions; its draft becomes the file.
 	await page.goto(mapsPath);
+	await choice().selectOption({ label: 'Replace the draft of that map (its revisions stay)' });
 	await input().setInputFiles(file({ ...clubRacer, name: own.toUpperCase() }));
-	await question.getByRole('button', { name: 'Replace the draft of the existing map' }).click();
 	await expect(page).toHaveURL(new RegExp(`${ownPath}$`));
 	await expect(page.getByRole('heading', { level: 1, name: own, exact: true })).toBeVisible();
 	const frames = page.getByRole('grid', { name: 'Frames' });
