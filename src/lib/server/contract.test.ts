@@ -480,22 +480,28 @@ describe('every endpoint answers as the contract says', () => {
 			).status
 		).toBe(404);
 
-		// The workbench: derived channels and saved views.
+		// The workbench: derived channels and saved views, on a decode of the draft as defineFrame
+		// left it (a draft decode names the draft version it read).
+		const again = await call(services, viewer, 'captures.decode', {
+			params: { ws, id },
+			body: { mapId, revision: 'draft' }
+		});
+		const workbenchDecode = (again.body as { decode: { id: string } }).decode;
 		const derived = await call(services, viewer, 'captures.derivedSeries', {
 			params: { ws, id },
-			query: { decode: decode.id, formula: 'OilPressure * 2', points: 50 }
+			query: { decode: workbenchDecode.id, formula: 'OilPressure * 2', points: 50 }
 		});
 		expect((derived.body as { count: number }).count).toBeGreaterThan(0);
 		const badFormula = await call(services, viewer, 'captures.derivedSeries', {
 			params: { ws, id },
-			query: { decode: decode.id, formula: 'OilPressure * * 2' }
+			query: { decode: workbenchDecode.id, formula: 'OilPressure * * 2' }
 		});
 		expect(badFormula.status).toBe(400);
 		expect((badFormula.body as { issues: { column: number }[] }).issues[0].column).toBe(15);
 		const span = await call(services, viewer, 'captures.span', {
 			params: { ws, id },
 			query: {
-				decode: decode.id,
+				decode: workbenchDecode.id,
 				formula: '{Pressures.OilPressure}',
 				versus: 'FuelPressure',
 				from: 1,
@@ -508,7 +514,7 @@ describe('every endpoint answers as the contract says', () => {
 			params: { ws, id },
 			query: {
 				kind: 'wide',
-				decode: decode.id,
+				decode: workbenchDecode.id,
 				derived: JSON.stringify([{ name: 'Twice', unit: 'kPa', formula: 'OilPressure * 2' }])
 			}
 		});

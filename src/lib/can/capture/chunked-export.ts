@@ -7,6 +7,7 @@
  * byte for byte what export.ts gives for the whole capture (the tests compare them). A capture
  * with backward times (kept in file order, reported at import) is exported segment by segment.
  */
+import { formatComputed, valueFormatter } from '../../value-format';
 import type { ChannelInfo, CompiledMap } from '../decoder';
 import type { ChunkSource } from './chunked-decode';
 import { decodedSegments } from './chunked-decode';
@@ -87,6 +88,8 @@ export async function* wideFormCsvChunked(
 	const { from, rowCount } = plan;
 	const { interval, mode } = options;
 	const n = infos.length;
+	// Values printed as the whole-capture export prints them (src/lib/value-format.ts).
+	const format = infos.map((info) => valueFormatter(info.precision));
 	// Each channel's samples not yet used up (time > the last row written), and its held value.
 	let time: Float64Array[] = infos.map(() => new Float64Array(0));
 	let value: Float64Array[] = infos.map(() => new Float64Array(0));
@@ -114,7 +117,7 @@ export async function* wideFormCsvChunked(
 						held[c] = v[i++];
 						holding[c] = 1;
 					}
-					if (holding[c]) row += String(held[c]);
+					if (holding[c]) row += format[c](held[c]);
 				} else {
 					const lower = k === 0 ? tick - interval : previousTick;
 					while (i < t.length && t[i] <= lower) i++;
@@ -124,7 +127,7 @@ export async function* wideFormCsvChunked(
 						sum += v[i++];
 						count++;
 					}
-					if (count > 0) row += String(sum / count);
+					if (count > 0) row += formatComputed(sum / count);
 				}
 				cursor[c] = i;
 			}

@@ -19,7 +19,7 @@ describe('referenceModel', () => {
 		expect(groups.find((g) => g.operations.includes(draft))?.name).toBe('Maps');
 		expect(draft.parameters.map((p) => p.name)).toEqual(['ws', 'mapId']);
 		expect(draft.success.status).toBe('200');
-		expect(draft.failures.map((f) => f.status)).toEqual(['400', '401', '403', '404', '409']);
+		expect(draft.failures.map((f) => f.status)).toEqual(['400', '401', '403', '404', '409', '413']);
 		expect(draft.body?.types).toEqual(['application/json']);
 		const upload = shown.find((o) => o.id === 'captures.upload')!;
 		expect(upload.body?.types).toContain('application/octet-stream');
