@@ -22,7 +22,9 @@ test('the API reference lists every route of the OpenAPI document and fits a pho
 	expect(listed.sort()).toEqual(operations.sort());
 	// Each operation has its own card, reached from the list.
 	await nav.getByRole('link', { name: 'PUT /api/workspaces/{ws}/maps/{mapId}/draft' }).click();
-	await expect(page.getByText('Replaces the draft if nobody changed it since')).toBeInViewport();
+	await expect(
+		page.getByText('Replaces the draft if nobody changed it since `version` (a draft may hold lint')
+	).toBeInViewport();
 	await expect(page.locator('#schema-LintProblem')).toBeAttached();
 
 	const overflow = await page.evaluate(

@@ -5,6 +5,7 @@
 // a framed page is refused, and signing in, decoding and plotting (uPlot, Svelte's inline styles)
 // log no policy violation.
 import { expect, test } from '@playwright/test';
+import { decodeWithLatest, DEMO_SLUG, plotChannel } from './capture-helpers';
 import { signIn } from './helpers';
 
 test('pages carry a nonce CSP that forbids framing, and the other security headers', async ({
@@ -49,7 +50,7 @@ test('signing in, decoding and plotting log no Content-Security-Policy violation
 			violations.push(message.text());
 	});
 	await signIn(page, 'tuner@framewright.test');
-	await page.goto('/w/quillmoor-club-racing/captures');
+	await page.goto(`/w/${DEMO_SLUG}/captures`);
 	// Other journeys upload files of the same name; the seeded one is already processed.
 	await page
 		.getByRole('row')
@@ -58,14 +59,15 @@ test('signing in, decoding and plotting log no Content-Security-Policy violation
 		.last()
 		.getByRole('link', { name: /genset-idle/ })
 		.click();
-	const panel = page.getByRole('region', { name: 'Decode', exact: true });
-	await panel.getByLabel('Map').selectOption({ label: 'Generator set engine (J1939)' });
-	await panel.getByRole('button', { name: 'Decode' }).click();
-	const plot = page.getByRole('region', { name: 'Plot' });
-	await plot.getByLabel('Add a channel').selectOption({ label: 'EngineSpeed (rpm)' });
+	await decodeWithLatest(page);
+	await plotChannel(page, 'EEC1 · EngineSpeed');
+	const plot = page.getByTestId('plot-area');
 	await expect(plot.locator('.uplot')).toHaveCount(1, { timeout: 20_000 });
 	// uPlot draws on a canvas it sizes with inline styles: a blocked style would leave it 0 px wide.
-	const box = await plot.locator('.uplot canvas').first().boundingBox();
-	expect(box?.width).toBeGreaterThan(100);
+	// Polled: the plot is rebuilt once the channel's samples arrive, replacing the canvas.
+	const canvas = plot.locator('.uplot canvas').first();
+	await expect
+		.poll(async () => (await canvas.boundingBox())?.width ?? 0, { timeout: 20_000 })
+		.toBeGreaterThan(100);
 	expect(violations).toEqual([]);
 });

@@ -186,7 +186,9 @@ test('an editor builds, lints, publishes and diffs a map; a viewer reads it; a s
 	await expect(viewer.getByText('Boost scale corrected')).toBeVisible();
 	await expect(viewer.getByRole('table', { name: 'Signals of EngineStatus' })).toContainText('0.5');
 	await expect(viewer.getByRole('main').getByRole('button')).toHaveCount(0); // nothing to edit or press
-	await expect(viewer.getByRole('main').getByRole('textbox')).toHaveCount(0);
+	// The one text box is the C code prefix: it names the downloaded files and edits nothing.
+	await expect(viewer.getByRole('main').getByRole('textbox')).toHaveCount(1);
+	await expect(viewer.getByRole('main').getByRole('textbox', { name: 'Prefix' })).toHaveValue('fw');
 	await viewer.goto(mapPath);
 	await expect(viewer.getByText('Read only: your role here is Viewer.')).toBeVisible();
 	await expect(viewer.getByRole('table', { name: 'Frames' })).toContainText('EngineStatus');

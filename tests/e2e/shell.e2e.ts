@@ -63,7 +63,7 @@ test('keyboard only: Tab reaches the skip link, switcher, navigation and user me
 	await page.locator('body').focus();
 	await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
 	const seen: string[] = [];
-	for (let i = 0; i < 10; i++) {
+	for (let i = 0; i < 14; i++) {
 		await page.keyboard.press('Tab');
 		seen.push(await focusedName(page));
 	}
@@ -77,6 +77,8 @@ test('keyboard only: Tab reaches the skip link, switcher, navigation and user me
 		'Captures',
 		'Tools',
 		'Members',
+		'Access tokens',
+		'Audit log',
 		'Account menu'
 	];
 	let at = -1;

@@ -65,7 +65,7 @@ describe('layout editing', () => {
 			'extended flag',
 			'DLC (code or bytes)',
 			'data (hex bytes)',
-			null
+			'ignored'
 		]);
 		const bytes = withDataColumns(CANONICAL_LAYOUT, 'bytes', 4, 2);
 		expect(bytes.dataColumn).toBeNull();

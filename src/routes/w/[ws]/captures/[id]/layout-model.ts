@@ -9,6 +9,7 @@ import { formatCanId } from '$lib/can/map-json';
 import {
 	captureLayoutSchema,
 	secondsPerTimeUnit,
+	unusedColumns,
 	type CaptureLayout
 } from '$lib/can/capture/layout';
 import { createParsedRow, createRowParser } from '$lib/can/capture/row-parser';
@@ -42,7 +43,12 @@ export function columnRoles(layout: CaptureLayout, count: number): (string | nul
 		if (column === null || column >= count) return;
 		roles[column] = roles[column] ? `${roles[column]} + ${role}` : role;
 	};
-	put(layout.timeColumn, `time (${layout.timeUnit}${layout.epochTime ? ', epoch' : ''})`);
+	put(
+		layout.timeColumn,
+		layout.timeFormat === 'number'
+			? `time (${layout.timeUnit}${layout.epochTime ? ', epoch' : ''})`
+			: `time (${layout.timeFormat})`
+	);
 	put(layout.idColumn, `ID (${layout.idFormat})`);
 	put(layout.extendedColumn, 'extended flag');
 	put(
@@ -51,6 +57,11 @@ export function columnRoles(layout: CaptureLayout, count: number): (string | nul
 	);
 	put(layout.dataColumn, 'data (hex bytes)');
 	layout.byteColumns.forEach((c, k) => put(c, `byte ${k}`));
+	put(layout.busColumn, 'bus');
+	put(layout.directionColumn, 'direction');
+	put(layout.kindColumn, 'frame kind');
+	if (typeof layout.tagColumn === 'number') put(layout.tagColumn, 'tag');
+	for (const c of unusedColumns(layout, count)) roles[c] ??= 'ignored';
 	return roles;
 }
 
