@@ -43,11 +43,22 @@ const cell = (page: Page, byte: number, bit: number): Locator =>
 		.getByRole('grid', { name: 'Bit layout' })
 		.getByRole('gridcell', { name: new RegExp(`^Byte ${byte} bit ${bit}:`) });
 
+/**
+ * Drags like a person: both ends on screen. A pointer moved past the viewport's edge reaches no
+ * element, so the grid would see the drag end on the last bit still on screen; scroll the target
+ * into view first and refuse a drag whose end is still off screen.
+ */
 async function dragAcross(page: Page, from: Locator, to: Locator): Promise<void> {
+	await to.scrollIntoViewIfNeeded();
 	await from.hover();
+	const [fromBox, box] = [await from.boundingBox(), await to.boundingBox()];
+	const viewport = page.viewportSize();
+	if (!fromBox || !box || !viewport) throw new Error('drag ends are not visible');
+	for (const end of [fromBox, box]) {
+		if (end.y < 0 || end.y + end.height > viewport.height)
+			throw new Error('drag ends do not fit on screen together');
+	}
 	await page.mouse.down();
-	const box = await to.boundingBox();
-	if (!box) throw new Error('drag target is not visible');
 	await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2, { steps: 8 });
 	await page.mouse.up();
 }
