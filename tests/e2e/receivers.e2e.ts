@@ -216,10 +216,13 @@ test('an editor links a dash profile, relinks it to a new map revision, checks i
 	await r2Entry.getByRole('link', { name: 'Install sheet' }).click();
 	await expect(page.getByRole('heading', { level: 1, name: /^Install sheet:/ })).toBeVisible();
 	await expect(page.getByText(`${clubMap.bitrate / 1000} kbit/s`).first()).toBeVisible();
-	const safety = page.getByRole('complementary', { name: 'Safety' });
-	await expect(safety).toContainText('Disconnect power');
-	await expect(safety).toContainText('120 Ω');
-	await expect(safety).toContainText("vehicle maker's documentation");
+	// The wiring cautions (SafetyNote) and the termination advice beside the bit rate.
+	const caution = page.getByRole('complementary', { name: 'Caution' });
+	await expect(caution).toContainText('Disconnect the battery');
+	await expect(caution).toContainText('vehicle maker’s documentation');
+	await expect(page.getByRole('region', { name: 'Before connecting' })).toContainText(
+		'120 Ω terminator at each end'
+	);
 	const channels = page.getByRole('table', { name: /^Channels of/ });
 	await expect(channels.getByRole('row', { name: /Oil pressure/ })).toContainText(
 		'EngineOilPressure'
