@@ -102,7 +102,7 @@ describe('time notations', () => {
 		// Reference: ECMAScript Date.UTC for the whole seconds.
 		expect(parseDateTime('2026-03-14T09:26:53Z')).toBe(Date.UTC(2026, 2, 14, 9, 26, 53) / 1000);
 		expect(parseDateTime('2026-03-14 09:26:53')).toBe(Date.UTC(2026, 2, 14, 9, 26, 53) / 1000);
-		// An offset of +02:00 is two hours ahead of UTC (ISO 8601:2004, 4.2.5.1).
+		// An offset of +02:00 is two hours ahead of UTC (ISO 8601:2004, 4.2.5.1; clause number from memory).
 		expect(parseDateTime('2026-03-14T11:26:53+02:00')).toBe(
 			Date.UTC(2026, 2, 14, 9, 26, 53) / 1000
 		);

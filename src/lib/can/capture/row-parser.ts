@@ -127,7 +127,7 @@ export function parseTimeOfDay(field: string): number {
 	const m = TIME_OF_DAY.exec(trimField(field));
 	if (!m) return NaN;
 	const [h, min, sec] = [Number(m[1]), Number(m[2]), Number(m[3])];
-	// 24:00:00 ends a day in ISO 8601; a leap second may read :60 (ISO 8601:2004, 4.2.1).
+	// 24:00:00 ends a day in ISO 8601; a leap second may read :60 (ISO 8601:2004, 4.2.1; clause number from memory).
 	if (h > 24 || min > 59 || sec > 60) return NaN;
 	return h * 3600 + min * 60 + sec + (m[4] ? Number(m[4]) / 10 ** m[4].length : 0);
 }
@@ -428,7 +428,7 @@ export function createRowParser(
 		}
 
 		if (kind === ROW_KIND.error) {
-			// An error frame has no ID or payload worth reading (ISO 11898-1, 10.4.4).
+			// An error frame has no ID or payload worth reading (ISO 11898-1, error frame; from memory).
 			out.time = time;
 			out.id = 0;
 			out.extended = false;
