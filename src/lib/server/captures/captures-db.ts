@@ -17,6 +17,7 @@ import type { DB } from '../db/connection';
 import type { CaptureRow, CaptureUpdate } from '../db/schema';
 import { personRef } from '../people';
 import { Problem } from '../problem';
+import { captureBitrate } from './bitrate';
 
 function summaryQuery(db: DB) {
 	return db
@@ -234,7 +235,8 @@ export async function captureDetail(
 		detected: readStored(detectedLayoutSchema, row.detected_json, 'detected layout'),
 		layout: readStored(captureLayoutSchema, row.layout_json, 'capture layout'),
 		report: readStored(captureReportSchema, row.report_json, 'import report'),
-		decodes: await listDecodes(db, captureId)
+		decodes: await listDecodes(db, captureId),
+		bitrate: await captureBitrate(db, row)
 	};
 }
 

@@ -24,6 +24,7 @@ import {
 	forgetCaptureStore,
 	isLegacyStoreKey
 } from './capture-store';
+import { guessBitrateFromMap } from './bitrate';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
 import { runCaptureTask } from './pool';
 import { summaryKey } from './work/decode';
@@ -162,6 +163,8 @@ export async function decodeWith(
 			draftVersion,
 			actorId
 		});
+		// The capture's bit rate, when nothing set it yet, is its first decode's map's.
+		await guessBitrateFromMap(trx, capture.id, { name: mapRecord.name, bitrate: map.bitrate });
 		await appendAudit(trx, {
 			workspaceId,
 			actorId,

@@ -4,7 +4,11 @@
  * server thread only passes keys, never frames.
  */
 import type { CaptureReport } from '../../../api/captures';
-import type { DecodeSummary, SeriesResponse } from '../../../api/capture-views';
+import type {
+	CaptureBusLoadResponse,
+	DecodeSummary,
+	SeriesResponse
+} from '../../../api/capture-views';
 import type { AlertReplay } from '../../../can/alerts/replay';
 import type { CaptureLayout } from '../../../can/capture/layout';
 import type { ResampleMode } from '../../../can/capture/export';
@@ -127,6 +131,16 @@ export interface ExportTask extends OnStore {
 	port: MessagePort;
 }
 
+/** A capture's bus load per bus at the given bit rates (work/bus-load.ts). */
+export interface BusLoadTask extends OnStore {
+	kind: 'bus-load';
+	indexKey: string;
+	bitrate: number;
+	dataBitrate: number | null;
+}
+
+export type BusLoadOutcome = Omit<CaptureBusLoadResponse, 'bitrate'>;
+
 export type CaptureTask =
 	| ProcessTask
 	| ConvertTask
@@ -135,4 +149,5 @@ export type CaptureTask =
 	| SamplesTask
 	| AlertsTask
 	| ReceiverTask
-	| ExportTask;
+	| ExportTask
+	| BusLoadTask;
