@@ -43,7 +43,15 @@ export const decodeInputSchema = z.strictObject({
 	mapId: recordId('map'),
 	revision: z.union([z.number().int().min(1), z.literal('draft')], {
 		error: 'revision must be a revision number (1, 2, …) or "draft"'
-	})
+	}),
+	/** Decode one bus of a capture of several (its index in the report's `buses`); absent or null: every bus. */
+	bus: z
+		.number({ error: 'bus must be a bus number (0, 1, …) or null for every bus' })
+		.int('bus must be a bus number (0, 1, …) or null for every bus')
+		.min(0, 'bus must be a bus number (0, 1, …) or null for every bus')
+		.max(255, 'a capture has at most 256 buses (0–255)')
+		.nullable()
+		.optional()
 });
 export type DecodeInput = z.infer<typeof decodeInputSchema>;
 /** What to decode with: a revision number, or the map's working draft. */

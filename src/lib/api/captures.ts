@@ -119,7 +119,9 @@ export const decodeRecordSchema = z.object({
 	revision: z.number().int().nullable(),
 	draftVersion: z.number().int().nullable(),
 	decodedAt: timestampSchema,
-	decodedBy: personRefSchema.nullable()
+	decodedBy: personRefSchema.nullable(),
+	/** The one bus decoded (index into the report's `buses`); null: every bus. */
+	bus: z.number().int().nullable().default(null)
 });
 export type DecodeRecord = z.infer<typeof decodeRecordSchema>;
 

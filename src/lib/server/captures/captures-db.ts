@@ -48,7 +48,8 @@ function toDecodeRecord(row: DecodeJoined): DecodeRecord {
 		revision: row.revision,
 		draftVersion: row.draft_version,
 		decodedAt: row.decoded_at,
-		decodedBy: personRef(row.decoderEmail, row.decoderName)
+		decodedBy: personRef(row.decoderEmail, row.decoderName),
+		bus: row.bus
 	};
 }
 
@@ -204,6 +205,8 @@ export interface NewDecode {
 	revision: number | null;
 	draftVersion: number | null;
 	actorId: string | null;
+	/** One bus of several, or null for every bus. */
+	bus?: number | null;
 }
 
 export async function insertDecode(db: DB, input: NewDecode): Promise<DecodeRecord> {
@@ -218,7 +221,8 @@ export async function insertDecode(db: DB, input: NewDecode): Promise<DecodeReco
 			revision: input.revision,
 			draft_version: input.draftVersion,
 			decoded_by: input.actorId,
-			decoded_at: new Date().toISOString()
+			decoded_at: new Date().toISOString(),
+			bus: input.bus ?? null
 		})
 		.execute();
 	return (await findDecode(db, input.captureId, id))!;

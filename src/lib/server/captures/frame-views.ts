@@ -18,7 +18,7 @@ import type {
 } from '../../api/capture-views';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { openChunkSource } from './capture-store';
+import { openChunkSource, splitBusKey } from './capture-store';
 import { captureIndexKey, compiledOf, openDecode, requireReadyCapture } from './decoding';
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
@@ -165,6 +165,7 @@ export async function decodedFrame(
 	query: { index: number; decode: string }
 ): Promise<FrameDetail> {
 	const open = await openDecode(services, workspaceId, captureId, query.decode);
-	const source = await openChunkSource(services.storage, open.indexKey);
+	// Frame numbers count every bus's frames, whichever bus the decode read.
+	const source = await openChunkSource(services.storage, splitBusKey(open.indexKey).indexKey);
 	return frameDetail(source, await compiledOf(open), query.index);
 }

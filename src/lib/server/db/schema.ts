@@ -185,6 +185,8 @@ export interface CaptureDecodeTable {
 	draft_version: number | null;
 	decoded_by: string | null;
 	decoded_at: string;
+	/** The one bus decoded (index into the capture's bus names); null: every bus. */
+	bus: number | null;
 }
 
 export interface AccessTokenTable {

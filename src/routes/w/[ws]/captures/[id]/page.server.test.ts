@@ -177,4 +177,28 @@ describe('a capture of two buses with a time of day', () => {
 		expect(before.bitrate).toMatchObject({ bitrate: 500_000, dataBitrate: 2_000_000 });
 		expect(await countRows(w.db, 'audit_log')).toBe(audit);
 	});
+
+	it('decodes one chosen bus: its figures only, recorded with the bus; a bus it does not have is refused', async () => {
+		const w = await world();
+		const post = async (body: unknown) =>
+			decodeRoute(w.api('/decode', w.users.editor, body) as never);
+		const one = (await (
+			await post({ mapId: w.mapId, revision: 1, bus: 1 })
+		).json()) as DecodeResponse;
+		expect(one.decode.bus).toBe(1);
+		expect(one.summary.ids.map((s) => [s.bus, s.id, s.count])).toEqual([
+			[1, 0x100, 10],
+			[1, 0x2a0, 5]
+		]);
+		const all = (await (await post({ mapId: w.mapId, revision: 1 })).json()) as DecodeResponse;
+		expect(all.decode.bus).toBeNull();
+		expect(all.summary.ids).toHaveLength(3);
+		const decodes = await countRows(w.db, 'capture_decodes');
+		const refused = await post({ mapId: w.mapId, revision: 1, bus: 2 });
+		expect(refused.status).toBe(400);
+		expect(((await refused.json()) as { error: string }).error).toBe(
+			'This capture has 2 buses (0–1: body, chassis); there is no bus 2.'
+		);
+		expect(await countRows(w.db, 'capture_decodes')).toBe(decodes);
+	});
 });
