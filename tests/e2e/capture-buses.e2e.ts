@@ -70,7 +70,7 @@ test('two buses: wall-clock times, a bus picked, per-bus load following the capt
 	// The layout confirmation screen: the guess is confirmed as it is.
 	await page.goto(`/w/${DEMO_SLUG}/captures/${capture.id}`);
 	await page.getByRole('button', { name: /^Process/ }).click();
-	await expect(page.getByText('Not decoded yet')).toBeVisible({ timeout: 60_000 });
+	await expect(page.getByText('Not decoded yet: choose a map')).toBeVisible({ timeout: 60_000 });
 	await decodeWithLatest(page);
 
 	// ---- Wall-clock times: the plot's window and the frames table read the recording's clock. ----
@@ -127,7 +127,7 @@ test('two buses: wall-clock times, a bus picked, per-bus load following the capt
 	).toBeVisible({ timeout: 20_000 });
 
 	// ---- Per-bus ID statistics: the chassis IDs only, then every (bus, ID) with its bus. ----
-	await page.getByRole('tab', { name: 'IDs' }).click();
+	await page.getByRole('tab', { name: 'IDs', exact: true }).click();
 	const ids = page.getByRole('table', { name: /Every CAN ID seen/ });
 	await expect(ids.getByRole('row')).toHaveCount(3);
 	await page.getByLabel('Bus', { exact: true }).selectOption({ label: 'All buses' });
