@@ -1,7 +1,7 @@
 // Wall-clock readings of frame times. References: Date.UTC (ECMAScript) for date-times, and the
 // plain arithmetic of a 24-hour clock (86 400 s a day) for times of day.
 import { describe, expect, it } from 'vitest';
-import { formatClock, hasClock, isoClock, originOf } from './clock';
+import { formatClock, hasClock, isoClock, originOf, withClockColumn } from './clock';
 
 describe('capture clock', () => {
 	it('reads a time of day as the clock did, marking the day after midnight', () => {
@@ -38,5 +38,24 @@ describe('capture clock', () => {
 		expect(hasClock(origin)).toBe(false);
 		expect(formatClock(origin, 1)).toBeNull();
 		expect(isoClock(origin, 1)).toBe('');
+	});
+});
+
+describe('exports with a clock column', () => {
+	it('adds the ISO 8601 clock to every record, whatever the pieces, quoted line breaks kept', async () => {
+		const origin = originOf('date-time', false, Date.UTC(2026, 2, 4, 14, 3, 7, 250) / 1000);
+		const csv = 'time,frame,signal,value,unit\n0,A,"two\nlines",1,V\n0.5,A,x,2,V\n';
+		async function* cut(size: number) {
+			for (let i = 0; i < csv.length; i += size) yield csv.slice(i, i + size);
+		}
+		const expected =
+			'time,frame,signal,value,unit,clock\n' +
+			'0,A,"two\nlines",1,V,2026-03-04T14:03:07.250000Z\n' +
+			'0.5,A,x,2,V,2026-03-04T14:03:07.750000Z\n';
+		for (const size of [1, 3, 7, csv.length]) {
+			let out = '';
+			for await (const piece of withClockColumn(cut(size), origin)) out += piece;
+			expect(out).toBe(expected);
+		}
 	});
 });

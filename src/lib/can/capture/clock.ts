@@ -97,3 +97,60 @@ export function isoClock(origin: CaptureOrigin, t: number): string {
 	const text = formatClock(origin, t, { digits: 6 })!;
 	return `${text.slice(0, 10)}T${text.slice(11, -4)}Z`;
 }
+
+/** Name of the column exports add for a capture with a clock. */
+export const CLOCK_COLUMN = 'clock';
+
+/**
+ * A CSV export (its text in pieces cut anywhere) with a `clock` column added to every record: the
+ * first field (time in seconds from the first frame) read as the capture's clock, ISO 8601. Quoted
+ * fields may hold line breaks (RFC 4180): a record ends at a line break outside quotes.
+ */
+export async function* withClockColumn(
+	pieces: AsyncIterable<string>,
+	origin: CaptureOrigin
+): AsyncGenerator<string> {
+	let carry = '';
+	let header = true;
+	let inQuotes = false;
+	let record = '';
+	const finishRecord = (text: string): string => {
+		if (header) {
+			header = false;
+			return `${text},${CLOCK_COLUMN}`;
+		}
+		const comma = text.indexOf(',');
+		const t = Number(comma < 0 ? text : text.slice(0, comma));
+		return `${text},${Number.isFinite(t) ? isoClock(origin, t) : ''}`;
+	};
+	const lines = (text: string, final: boolean): string => {
+		let out = '';
+		let start = 0;
+		for (;;) {
+			const end = text.indexOf('\n', start);
+			if (end < 0) break;
+			const line = text.slice(start, end);
+			start = end + 1;
+			for (let i = line.indexOf('"'); i >= 0; i = line.indexOf('"', i + 1)) inQuotes = !inQuotes;
+			record += line;
+			if (inQuotes) {
+				record += '\n';
+				continue;
+			}
+			out += record === '' ? '\n' : `${finishRecord(record)}\n`;
+			record = '';
+		}
+		carry = text.slice(start);
+		if (final && (carry !== '' || record !== '')) {
+			out += finishRecord(record + carry);
+			carry = '';
+		}
+		return out;
+	};
+	for await (const piece of pieces) {
+		const out = lines(carry + piece, false);
+		if (out) yield out;
+	}
+	const rest = lines(carry, true);
+	if (rest) yield rest;
+}

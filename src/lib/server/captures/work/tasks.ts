@@ -10,6 +10,7 @@ import type {
 	SeriesResponse
 } from '../../../api/capture-views';
 import type { AlertReplay } from '../../../can/alerts/replay';
+import type { CaptureOrigin } from '../../../can/capture/clock';
 import type { CaptureLayout } from '../../../can/capture/layout';
 import type { ResampleMode } from '../../../can/capture/export';
 import type { CanMap } from '../../../can/map';
@@ -127,6 +128,8 @@ export interface ExportTask extends OnStore {
 	interval: number;
 	mode: ResampleMode;
 	channelTimes: StoredDecode['channels'];
+	/** The capture's clock origin: with one, every export gets a `clock` column. */
+	origin?: CaptureOrigin;
 	/** Carries the stream (export-stream.ts). */
 	port: MessagePort;
 }

@@ -20,6 +20,7 @@ import {
 } from '$lib/server/test-support';
 import { GET as busLoadRoute } from '../../../../api/workspaces/[ws]/captures/[id]/bus-load/+server';
 import { POST as decodeRoute } from '../../../../api/workspaces/[ws]/captures/[id]/decode/+server';
+import { GET as exportRoute } from '../../../../w/[ws]/captures/[id]/export/+server';
 import { actions, load } from './+page.server';
 
 const rows: [string, string, string, string, string][] = [];
@@ -53,6 +54,7 @@ async function world() {
 	const team = await createTeamServices('Two-bus team', { editor: 'Alex' });
 	worlds.push(team.services);
 	const map = { ...fixtureMap('club-racer-ecu.map.json'), bitrate: 250_000 };
+	map.frames[0].id = 0x100; // so the map decodes the body bus's frames (demo data)
 	const mapId = await createPublishedMap(team.db, {
 		workspaceId: team.workspace.id,
 		actorId: team.users.owner.id,
@@ -193,6 +195,17 @@ describe('a capture of two buses with a time of day', () => {
 		const all = (await (await post({ mapId: w.mapId, revision: 1 })).json()) as DecodeResponse;
 		expect(all.decode.bus).toBeNull();
 		expect(all.summary.ids).toHaveLength(3);
+		// EngineCore (here on 0x100) from the body bus alone: its 10 frames; every bus: chassis's too.
+		const body = (await (
+			await post({ mapId: w.mapId, revision: 1, bus: 0 })
+		).json()) as DecodeResponse;
+		const speed = (d: DecodeResponse) =>
+			d.summary.channels.find(
+				(c) => c.frameName === 'EngineCore' && c.signalName === 'EngineSpeed'
+			)!;
+		expect(speed(body).count).toBe(10);
+		expect(speed(one).count + speed(body).count).toBe(speed(all).count);
+		expect(speed(one).count).toBeGreaterThan(0);
 		const decodes = await countRows(w.db, 'capture_decodes');
 		const refused = await post({ mapId: w.mapId, revision: 1, bus: 2 });
 		expect(refused.status).toBe(400);
@@ -200,5 +213,38 @@ describe('a capture of two buses with a time of day', () => {
 			'This capture has 2 buses (0–1: body, chassis); there is no bus 2.'
 		);
 		expect(await countRows(w.db, 'capture_decodes')).toBe(decodes);
+	});
+
+	it('decoded exports keep relative seconds and add the clock, past midnight; the frames export stays canonical', async () => {
+		const w = await world();
+		const decoded = (await (
+			await decodeRoute(
+				w.api('/decode', w.users.editor, { mapId: w.mapId, revision: 1, bus: 0 }) as never
+			)
+		).json()) as DecodeResponse;
+		const exported = async (query: string) =>
+			(
+				await (
+					await exportRoute(
+						makeEvent({
+							services: w.services,
+							user: w.users.viewer,
+							routeId: '/w/[ws]/captures/[id]/export',
+							params: { ws: w.workspace.slug, id: w.captureId },
+							query
+						}) as never
+					)
+				).text()
+			)
+				.trim()
+				.split('\n');
+		const frames = await exported('?kind=frames');
+		expect(frames[0]).toBe('time,id,extended,dlc,data');
+		expect(frames[1]).toBe('0,100,0,8,11 22 33 44 55 66 77 00');
+		// Wide rows every 0.1 s from the first sample: 0 s is 23:59:59.950 of a day the file does not name.
+		const wide = await exported(`?kind=wide&decode=${decoded.decode.id}&interval=0.05`);
+		expect(wide[0]).toMatch(/,clock$/);
+		expect(wide[1]).toMatch(/^0,.*,23:59:59\.950000$/);
+		expect(wide[2]).toMatch(/^0\.05,.*,00:00:00\.000000 \+1 d$/);
 	});
 });
