@@ -5,7 +5,8 @@ import { describe, expect, it } from 'vitest';
 import { compileMap } from '../decoder';
 import { canMapSchema } from '../map';
 import { referenceFrameBits } from '../testing/reference-frame-bits';
-import { columnsOfBus, createBusLoadCounters } from './bus-load-per-bus';
+import { createBusLoadCounters } from './bus-load-per-bus';
+import { framesOnBus } from './bus-source';
 import { FrameStore } from './frame-store';
 import { createIdSurvey } from './id-statistics';
 
@@ -37,7 +38,7 @@ function twoBuses() {
 describe('per-bus figures', () => {
 	it('splits frames by bus in capture order', () => {
 		const columns = twoBuses();
-		const one = columnsOfBus(columns, 1);
+		const one = framesOnBus(columns, 1);
 		expect(one.count).toBe(5);
 		expect(Array.from(one.time)).toEqual([0, 0.02, 0.04, 0.06, 0.08]);
 		expect(

@@ -3,47 +3,12 @@
  * bus's load, so every bus gets its own load-over-time series (same windows for all, so they line
  * up), counted with the capture's own bit rates (docs/capture-csv.md, "Several buses").
  */
+import { framesOnBus } from './bus-source';
 import type { FrameColumns } from './frame-columns';
 import { createLoadCounter, type LoadOverTime } from './load-over-time';
 
 /** Frame columns that may carry each frame's bus (a segment of the chunked store does). */
 export type BusColumns = FrameColumns & { readonly bus?: Uint8Array };
-
-/** The frames of `columns` on bus `bus`, in capture order (a copy; every frame when there is no bus column). */
-export function columnsOfBus(columns: BusColumns, bus: number): FrameColumns {
-	const buses = columns.bus;
-	if (!buses) return columns;
-	let n = 0;
-	let bytes = 0;
-	for (let i = 0; i < columns.count; i++)
-		if (buses[i] === bus) {
-			n++;
-			bytes += columns.length[i];
-		}
-	if (n === columns.count) return columns;
-	const out = {
-		count: n,
-		time: new Float64Array(n),
-		id: new Uint32Array(n),
-		flags: new Uint8Array(n),
-		length: new Uint8Array(n),
-		dataOffset: new Uint32Array(n),
-		data: new Uint8Array(bytes)
-	};
-	for (let i = 0, j = 0, at = 0; i < columns.count; i++) {
-		if (buses[i] !== bus) continue;
-		out.time[j] = columns.time[i];
-		out.id[j] = columns.id[i];
-		out.flags[j] = columns.flags[i];
-		const len = columns.length[i];
-		out.length[j] = len;
-		out.dataOffset[j] = at;
-		out.data.set(columns.data.subarray(columns.dataOffset[i], columns.dataOffset[i] + len), at);
-		at += len;
-		j++;
-	}
-	return out;
-}
 
 export interface BusLoadOfBus {
 	bus: number;
@@ -76,7 +41,7 @@ export function createBusLoadCounters(options: {
 		for (let i = 0; i < columns.count; i++) seen[columns.bus[i]] = 1;
 		for (let b = 0; b < count; b++) {
 			if (!seen[b]) continue;
-			const own = columnsOfBus(columns, b);
+			const own = framesOnBus({ ...columns, bus: columns.bus }, b);
 			counters[b].add(own);
 			frames[b] += own.count;
 		}

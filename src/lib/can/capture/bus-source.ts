@@ -5,13 +5,21 @@
  * all-bus decode. The index stays the capture's (times, identifiers and chunk table), so the time
  * axis of a one-bus decode is the capture's.
  */
-import type { Chunk } from './chunk-store';
 import type { ChunkSource } from './chunked-decode';
+import type { FrameColumns } from './frame-columns';
 
 type Columns = ReturnType<Awaited<ReturnType<ChunkSource['segment']>>['columns']>;
 
+/** Frame columns with each frame's bus, and the other small columns when the source has them. */
+export type BusFrameColumns = FrameColumns & {
+	readonly bus: Uint8Array;
+	readonly kind?: Uint8Array;
+	readonly direction?: Uint8Array;
+	readonly tag?: Uint16Array;
+};
+
 /** The frames of `c` on bus `bus`, every column kept, in capture order (c itself when all are). */
-export function framesOnBus<T extends Columns | Chunk>(c: T, bus: number): T {
+export function framesOnBus<T extends BusFrameColumns>(c: T, bus: number): T {
 	let n = 0;
 	let bytes = 0;
 	for (let i = 0; i < c.count; i++)
@@ -28,19 +36,19 @@ export function framesOnBus<T extends Columns | Chunk>(c: T, bus: number): T {
 		length: new Uint8Array(n),
 		dataOffset: new Uint32Array(n),
 		data: new Uint8Array(bytes),
-		kind: new Uint8Array(n),
-		direction: new Uint8Array(n),
 		bus: new Uint8Array(n).fill(bus),
-		tag: new Uint16Array(n)
+		...(c.kind ? { kind: new Uint8Array(n) } : {}),
+		...(c.direction ? { direction: new Uint8Array(n) } : {}),
+		...(c.tag ? { tag: new Uint16Array(n) } : {})
 	};
 	for (let i = 0, j = 0, at = 0; i < c.count; i++) {
 		if (c.bus[i] !== bus) continue;
 		out.time[j] = c.time[i];
 		out.id[j] = c.id[i];
 		out.flags[j] = c.flags[i];
-		out.kind[j] = c.kind[i];
-		out.direction[j] = c.direction[i];
-		out.tag[j] = c.tag[i];
+		if (out.kind) out.kind[j] = c.kind![i];
+		if (out.direction) out.direction[j] = c.direction![i];
+		if (out.tag) out.tag[j] = c.tag![i];
 		const len = c.length[i];
 		out.length[j] = len;
 		out.dataOffset[j] = at;
@@ -48,7 +56,7 @@ export function framesOnBus<T extends Columns | Chunk>(c: T, bus: number): T {
 		at += len;
 		j++;
 	}
-	return out as T;
+	return out as unknown as T;
 }
 
 /** `source` seen through bus `bus`: segments and chunks hold that bus's frames only. */
