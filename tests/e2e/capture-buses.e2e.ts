@@ -71,6 +71,10 @@ test('two buses: wall-clock times, a bus picked, per-bus load following the capt
 	await page.goto(`/w/${DEMO_SLUG}/captures/${capture.id}`);
 	await page.getByRole('button', { name: /^Process/ }).click();
 	await expect(page.getByText('Not decoded yet: choose a map')).toBeVisible({ timeout: 60_000 });
+	await expect(
+		page.getByText('Recorded on 2 buses (body, chassis), with the direction of each frame.')
+	).toBeVisible();
+	await expect(page.getByText('First frame at 23:59:59.950')).toBeVisible();
 	await decodeWithLatest(page);
 
 	// ---- Wall-clock times: the plot's window and the frames table read the recording's clock. ----
