@@ -138,3 +138,62 @@ test('two buses: wall-clock times, a bus picked, per-bus load following the capt
 	await expect(ids.getByRole('row')).toHaveCount(4);
 	await expect(ids.getByRole('row').nth(1)).toContainText('body');
 });
+
+test.describe('without JavaScript', () => {
+	test.use({ javaScriptEnabled: false });
+
+	test('the capture’s bit rate is set by a plain form, refusals tied to the field', async ({
+		page
+	}) => {
+		await signIn(page, 'calibrator@framewright.test');
+		const api = `/api/workspaces/${DEMO_SLUG}/captures`;
+		const upload = await page.request.post(`${api}?name=two-buses-noscript.csv`, {
+			data: csv,
+			headers: { 'content-type': 'text/csv' }
+		});
+		expect(upload.status()).toBe(201);
+		const { capture, detected } = (await upload.json()) as {
+			capture: { id: string };
+			detected: { layout: unknown };
+		};
+		expect(
+			(
+				await page.request.post(`${api}/${capture.id}/process`, {
+					data: { layout: detected.layout }
+				})
+			).status()
+		).toBe(202);
+		await expect
+			.poll(
+				async () =>
+					(
+						(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
+							status: string;
+						}
+					).status,
+				{ timeout: 60_000 }
+			)
+			.toBe('ready');
+
+		await page.goto(`/w/${DEMO_SLUG}/captures/${capture.id}?panel=bus`);
+		// Nothing decoded yet: the workspace's usual map bit rate, said to be a guess.
+		await expect(page.getByTestId('capture-bitrate')).toContainText(
+			'(guessed from the workspace’s maps'
+		);
+		const rate = page.getByLabel('Bit rate (bit/s)');
+		await rate.fill('12');
+		await page.getByRole('button', { name: 'Set bit rate' }).click();
+		await expect(page.getByLabel('Bit rate (bit/s)')).toHaveAttribute('aria-invalid', 'true');
+		await expect(page.getByText('A whole number of bit/s from 1000 to 8000000')).toBeVisible();
+		await expect(page.getByLabel('Bit rate (bit/s)')).toHaveValue('12');
+		await page.getByLabel('Bit rate (bit/s)').fill('125000');
+		await page.getByLabel('CAN FD data phase (bit/s, optional)').fill('1000000');
+		await page.getByRole('button', { name: 'Set bit rate' }).click();
+		await expect(
+			page.getByText('Bit rate set to 125 kbit/s, data phase 1000 kbit/s.')
+		).toBeVisible();
+		await expect(page.getByTestId('capture-bitrate')).toContainText(
+			'125 kbit/s, data phase 1000 kbit/s (set for this capture)'
+		);
+	});
+});

@@ -62,7 +62,8 @@ export async function captureBusLoad(
 		bitrate: bitrate.bitrate,
 		dataBitrate: bitrate.dataBitrate
 	};
-	const id = `${JSON.stringify(task.storage)}|${indexKey}|${task.bitrate}|${task.dataBitrate}`;
+	// Keyed by when the store was written too: a capture processed again has a new store at the same key.
+	const id = `${JSON.stringify(task.storage)}|${indexKey}|${capture.processed_at}|${task.bitrate}|${task.dataBitrate}`;
 	const outcome = await loads.get(id, () => runCaptureTask<BusLoadOutcome>(task));
 	return { bitrate, ...outcome };
 }
