@@ -25,6 +25,7 @@ import {
 	isLegacyStoreKey
 } from './capture-store';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
+import { forgetFieldProposals } from './field-proposal-cache';
 import { runCaptureTask } from './pool';
 import { summaryKey } from './work/decode';
 import type { SamplesTask, StoredDecode } from './work/tasks';
@@ -128,6 +129,7 @@ export function forgetCaptureDecodes(captureId: string): void {
 	storedDecodes.forget(`/${captureId}/`);
 	compiledMaps.forget(`/${captureId}/`);
 	forgetCaptureStore(captureId);
+	forgetFieldProposals(captureId);
 }
 
 /** Decodes a capture with a map revision or the current draft, records it, and returns the summary. */
