@@ -15,7 +15,7 @@
  * has answered costs one Map lookup.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
-import { homedir, tmpdir } from 'node:os';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { ChunkStoreWriter } from '../src/lib/can/capture/chunk-store';
 import { candidatesFromProposals, type IdProposals } from '../src/lib/can/fields';
@@ -36,8 +36,11 @@ const f3 = (s: number) => `${s.toFixed(3)} s`;
 
 async function main() {
 	const dir = mkdtempSync(join(tmpdir(), 'fw-fields-bench-'));
+	// Inside the project, so its package imports resolve (as build/capture-worker.mjs does).
 	const workerFile = join(
-		homedir(),
+		import.meta.dirname,
+		'..',
+		'node_modules',
 		'.cache',
 		'framewright',
 		`bench-fields-worker-${process.pid}.mjs`

@@ -94,7 +94,9 @@ test('an editor finds the field that follows a known channel, accepts the propos
 	await expect(grid.locator('[data-bit="8"]')).toHaveAttribute('data-field', /^V\d+$/);
 
 	// Which field follows ShaftSpeed? The planted one, with the planted scale and offset.
-	await unknown.getByLabel('Known channel').selectOption({ label: 'DriveStatus.ShaftSpeed (rpm)' });
+	await unknown
+		.getByLabel('Known channel', { exact: true })
+		.selectOption({ label: 'DriveStatus.ShaftSpeed (rpm)' });
 	await unknown.getByRole('button', { name: 'Rank fields' }).click();
 	const best = unknown.getByTestId('best-match');
 	await expect(best).toContainText(`${idText} bits 8+16 little`, { timeout: 30_000 });
