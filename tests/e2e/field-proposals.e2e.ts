@@ -109,6 +109,14 @@ test('an editor finds the field that follows a known channel, accepts the propos
 	// The value takes the correlation's name, scale and offset; rename it and accept.
 	await expect(value.getByLabel('Scale')).toHaveValue(String(FOLLOW.scale));
 	await expect(value.getByLabel('Offset')).toHaveValue(String(FOLLOW.offset));
+	// A 390 px phone: the open ID, its proposals and the ranking fit without sideways scrolling.
+	const desktop = page.viewportSize()!;
+	await page.setViewportSize({ width: 390, height: 844 });
+	await expect
+		.poll(() => page.evaluate(() => document.documentElement.scrollWidth))
+		.toBeLessThanOrEqual(390);
+	await page.setViewportSize(desktop);
+
 	await value.getByLabel('Signal name').fill('FollowerSpeed');
 	await counter.getByLabel('Signal name').fill('AliveCounter');
 	await unknown.getByRole('button', { name: new RegExp(`^Accept \\d+ into the draft of`) }).click();
