@@ -5,10 +5,11 @@
  * Workload: bench/fields.ts's capture (1,000,000 frames, 40 IDs, planted fields) written into the
  * chunked store in local blob storage in a temporary folder, as processing writes it (segments of
  * the default size, the index last). Timed:
- *  1. the `fields` task for every ID, as the capture page asks for all unknown IDs: the pool's
- *     dispatch, ranged reads of each ID's chunks, proposeFields and the answer's copy back — first on
- *     fresh worker threads (the first task also starts a thread), then again;
- *  2. the `fields` task for one ID (opening an unknown ID on the page);
+ *  1. the `fields` task for one ID (opening an unknown ID on the page) in the interactive pool, as
+ *     the server sends it: first on its thread (JIT still cold), then for another ID;
+ *  2. the `fields` task for every ID, as the correlation asks for all unknown IDs: the pool's
+ *     dispatch, ranged reads of each ID's chunks, proposeFields and the answer's copy back — first
+ *     time, then again; and the one-ID task again;
  *  3. the `correlate` task: ID 0x100's little-endian value (bits 8–23) decoded as a channel through a
  *     map (physical = raw × 0.5 + 10), against every value proposal of the capture.
  * The server's cache of answers (field-proposal-cache.ts) is not involved: reopening an ID the server
@@ -73,20 +74,26 @@ async function main() {
 				indexKey: keys.index,
 				ids
 			});
+		// One ID goes to the interactive pool, as the server sends it (field-proposals.ts).
+		const oneId = (k: number) =>
+			runCaptureTask<FieldsOutcome>(
+				{ kind: 'fields', storage: storage.settings, indexKey: keys.index, ids: [ids[k]] },
+				{ interactive: true }
+			);
+		t = performance.now();
+		await oneId(7);
+		console.log(
+			`  fields task, one ID (25,000 frames), interactive pool, first task of its thread: ${f3(seconds(t))}`
+		);
+		t = performance.now();
+		await oneId(8);
+		console.log(`  fields task, another ID, interactive pool: ${f3(seconds(t))}`);
 		t = performance.now();
 		const proposals: IdProposals[] = await fields();
-		console.log(`  fields task, every ID, fresh workers: ${f3(seconds(t))}`);
+		console.log(`  fields task, every ID, first time: ${f3(seconds(t))}`);
 		t = performance.now();
 		await fields();
 		console.log(`  fields task, every ID, again: ${f3(seconds(t))}`);
-		t = performance.now();
-		await runCaptureTask<FieldsOutcome>({
-			kind: 'fields',
-			storage: storage.settings,
-			indexKey: keys.index,
-			ids: [ids[7]]
-		});
-		console.log(`  fields task, one ID (25,000 frames): ${f3(seconds(t))}`);
 
 		const map = canMapSchema.parse({
 			format: 'framewright-map@1',

@@ -38,20 +38,30 @@ const idKey = (id: number, extended: boolean) => `${extended ? 'x' : 's'}${id}`;
 const idText = (id: number, extended: boolean) =>
 	undocumentedFrameName(id, extended).replace('Undocumented_', '');
 
+/**
+ * IDs with at most this many frames in all are proposed in the interactive pool (a thread kept
+ * ready, pool.ts): opening one unknown ID is a short answer a person waits for (tens of ms).
+ */
+const INTERACTIVE_FRAMES = 250_000;
+
 /** Proposals of these IDs: cached ones as they are, the others computed in one worker task. */
 async function proposalsOf(
 	services: Services,
 	indexKey: string,
-	ids: { id: number; extended: boolean }[]
+	ids: { id: number; extended: boolean; count: number }[]
 ): Promise<IdProposals[]> {
 	const missing = ids.filter((i) => !proposals.has(`${indexKey}|${idKey(i.id, i.extended)}`));
 	if (missing.length > 0) {
-		const computed = await runCaptureTask<FieldsOutcome>({
-			kind: 'fields',
-			storage: services.storage.settings,
-			indexKey,
-			ids: missing
-		});
+		const frames = missing.reduce((n, i) => n + i.count, 0);
+		const computed = await runCaptureTask<FieldsOutcome>(
+			{
+				kind: 'fields',
+				storage: services.storage.settings,
+				indexKey,
+				ids: missing.map(({ id, extended }) => ({ id, extended }))
+			},
+			{ interactive: frames <= INTERACTIVE_FRAMES }
+		);
 		for (const p of computed) proposals.set(`${indexKey}|${idKey(p.id, p.extended)}`, p);
 		// Larger than the cache: answered from this result, not kept.
 		if (missing.some((i) => !proposals.has(`${indexKey}|${idKey(i.id, i.extended)}`))) {
@@ -90,11 +100,7 @@ export async function fieldProposals(
 			);
 		}
 	}
-	const ids = await proposalsOf(
-		services,
-		open.indexKey,
-		unknown.map((u) => ({ id: u.id, extended: u.extended }))
-	);
+	const ids = await proposalsOf(services, open.indexKey, unknown);
 	const map = await requireMap(services.db, workspaceId, open.decode.mapId!);
 	return { draft: { mapId: map.id, mapName: map.name, version: map.version }, ids };
 }
@@ -118,11 +124,7 @@ export async function correlateChannel(
 	const cacheKey = `${open.indexKey}|${open.decode.id}|${q.channel}|${q.points}`;
 	const hit = correlations.get(cacheKey);
 	if (hit) return hit;
-	const ids = await proposalsOf(
-		services,
-		open.indexKey,
-		summary.unknownIds.map((u) => ({ id: u.id, extended: u.extended }))
-	);
+	const ids = await proposalsOf(services, open.indexKey, summary.unknownIds);
 	const candidates = ids.flatMap((p) => candidatesFromProposals(p, p.fields));
 	const outcome =
 		candidates.length === 0
