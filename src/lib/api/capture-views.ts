@@ -10,7 +10,7 @@ import { captureBitrateSchema, decodeRecordSchema } from './captures';
 import type { ValuePrecision } from '../value-format';
 import { named } from './shapes';
 
-const recordId = (what: string) =>
+export const recordId = (what: string) =>
 	z
 		.string({ error: `give the ${what} id` })
 		.trim()
@@ -26,7 +26,7 @@ const decimal = (name: string) =>
 		.transform(Number)
 		.pipe(z.number().refine(Number.isFinite, `${name} must be a finite number`));
 
-const wholeNumber = (name: string, min: number, max: number) =>
+export const wholeNumber = (name: string, min: number, max: number) =>
 	z
 		.string()
 		.trim()
@@ -76,7 +76,7 @@ export const seriesQuerySchema = z
 export const MAX_FRAMES_PAGE = 1000;
 
 /** An ID in hex as typed in a filter box: "0x5F0", "5f0" or "18FECA00". */
-const hexId = z
+export const hexId = z
 	.string()
 	.trim()
 	.regex(/^(0[xX])?[0-9a-fA-F]{1,8}$/, 'id must be a hex CAN ID like 5F0 or 0x18FECA00')

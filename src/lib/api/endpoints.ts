@@ -32,6 +32,15 @@ import {
 	uploadResponseSchema
 } from './captures';
 import { endpoint, fillPath, queryString, type PathParams } from './endpoint';
+import {
+	acceptConflictProblemSchema,
+	acceptedFieldsResponseSchema,
+	acceptFieldsInputSchema,
+	correlateQuerySchema,
+	correlateResponseSchema,
+	fieldsQuerySchema,
+	fieldsResponseSchema
+} from './field-proposals';
 import { openApiDocumentSchema } from './meta';
 import { problemBodySchema } from './problem';
 import {
@@ -626,6 +635,53 @@ export const endpoints = {
 			400: INVALID,
 			404: noCapture,
 			409: ['The map already defines this ID.', frameExistsProblemSchema],
+			410: mapGone
+		}
+	),
+	'captures.fields': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/fields`,
+			summary:
+				'Proposed fields (constants, counters, checksums, multiplexors, values) of the IDs the decode’s map does not define, or of one.',
+			access: 'viewer',
+			query: fieldsQuerySchema,
+			status: 200,
+			response: fieldsResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.fieldsCorrelate': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/fields/correlate`,
+			summary:
+				'Candidate value fields of the unknown IDs ranked by correlation with a decoded channel, with a least-squares scale and offset and a scatter of the best.',
+			access: 'viewer',
+			query: correlateQuerySchema,
+			status: 200,
+			response: correlateResponseSchema
+		},
+		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.fieldsAccept': endpoint(
+		{
+			method: 'POST',
+			path: `${CAPTURE}/fields/accept`,
+			summary:
+				'Adds a frame for an unknown ID with the accepted proposals as its signals to a map’s draft.',
+			access: 'editor',
+			body: acceptFieldsInputSchema,
+			status: 200,
+			response: acceptedFieldsResponseSchema
+		},
+		{
+			400: INVALID,
+			404: noCapture,
+			409: [
+				'The draft was changed since it was read (reload), or it already defines this ID.',
+				acceptConflictProblemSchema
+			],
 			410: mapGone
 		}
 	),

@@ -172,6 +172,18 @@ describe('lintMap', () => {
 			[frame([sig('a', 0, 8, { offset: -40, max: -50 })])],
 			'frames[0].signals[0].max',
 			0
+		],
+		[
+			'checksum-length',
+			[frame([sig('crc', 0, 16, { role: 'checksum' })])],
+			'frames[0].signals[0].length',
+			0
+		],
+		[
+			'role-scaled',
+			[frame([sig('count', 0, 4, { role: 'counter', scale: 0.5 })])],
+			'frames[0].signals[0].scale',
+			0
 		]
 	])('%s at %j', (code, frames, path, signalIndex) => {
 		const problems = lintMap(mapOf(frames));

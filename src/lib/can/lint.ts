@@ -29,7 +29,9 @@ const mapLintCodes = z.enum([
 	'nested-multiplexer',
 	'mux-value-out-of-range',
 	'label-out-of-range',
-	'limit-unreachable'
+	'limit-unreachable',
+	'checksum-length',
+	'role-scaled'
 ]);
 
 export const lintCodeSchema = z.union([
@@ -96,6 +98,35 @@ export function presentTogether(a: Signal, b: Signal): boolean {
 	return pageA === null || pageB === null || pageA === pageB;
 }
 
+/**
+ * Counters and checksums (docs/map-format.md, "Signal roles"): the checksums the field proposals
+ * recognise are one byte long, and neither role is a physical quantity, so a scale or offset on
+ * them is probably a slip. A counter without a checksum beside it is fine.
+ */
+function lintRole(signal: Signal, report: Report): void {
+	if (signal.role === 'value') return;
+	if (signal.role === 'checksum' && signal.length > 8) {
+		report(
+			{
+				severity: 'warning',
+				code: 'checksum-length',
+				message: `"${signal.name}" is marked as a checksum but is ${signal.length} bits long; the checksums Framewright recognises are 8 bits`
+			},
+			'length'
+		);
+	}
+	if (signal.scale !== 1 || signal.offset !== 0 || signal.valueType.startsWith('float')) {
+		report(
+			{
+				severity: 'warning',
+				code: 'role-scaled',
+				message: `"${signal.name}" is marked as a ${signal.role}, whose raw value is what counts, but has ${signal.valueType.startsWith('float') ? `type ${signal.valueType}` : `scale ${signal.scale} and offset ${signal.offset}`}`
+			},
+			signal.valueType.startsWith('float') ? 'valueType' : 'scale'
+		);
+	}
+}
+
 function lintSignal(frame: Frame, signal: Signal, report: Report): void {
 	const layout = fieldLayout(signal.startBit, signal.length, signal.byteOrder);
 	if (layout.lowByte < 0) {
@@ -149,6 +180,7 @@ function lintSignal(frame: Frame, signal: Signal, report: Report): void {
 			'length'
 		);
 	}
+	lintRole(signal, report);
 	if (floatLength === null) {
 		const { lo, hi } = rawBounds(signal);
 		const outside = Object.keys(signal.labels).filter(

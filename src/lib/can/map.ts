@@ -20,6 +20,13 @@ export const byteOrderSchema = z.enum(['little', 'big']);
 export type ByteOrder = z.infer<typeof byteOrderSchema>;
 
 export const valueTypeSchema = z.enum(['unsigned', 'signed', 'float32', 'float64']);
+
+/**
+ * What a signal carries: a measured or set `value` (the default, so older files stay valid), a
+ * rolling `counter` or a `checksum` over the frame (docs/map-format.md, "Signal roles").
+ */
+export const signalRoleSchema = z.enum(['value', 'counter', 'checksum']);
+export type SignalRole = z.infer<typeof signalRoleSchema>;
 export type ValueType = z.infer<typeof valueTypeSchema>;
 
 /** A CAN ID written as a hex string ("0x360") or a plain number; always a number once parsed. */
@@ -77,6 +84,9 @@ export const signalSchema = z.strictObject({
 		.max(0x7ffff, 'an SPN is a whole number 0…524287 (19 bits)')
 		.nullable()
 		.default(null),
+	role: signalRoleSchema
+		.default('value')
+		.describe('value (default), counter (a rolling counter) or checksum (over the frame)'),
 	comment: z.string().max(2000).default('')
 });
 export type Signal = z.output<typeof signalSchema>;

@@ -34,6 +34,31 @@ describe('the CSV signal table round trip', () => {
 		}
 	);
 
+	it('keeps signal roles (a counter and a checksum beside a value)', () => {
+		const map = canMapSchema.parse({
+			format: 'framewright-map@1',
+			name: 'Roles',
+			frames: [
+				{
+					name: 'Status',
+					id: '0x3A1',
+					signals: [
+						{ name: 'Speed', startBit: 8, length: 16 },
+						{ name: 'Alive', startBit: 48, length: 4, role: 'counter' },
+						{ name: 'Crc', startBit: 56, length: 8, role: 'checksum' }
+					]
+				}
+			]
+		});
+		const back = roundTrip(map);
+		expect(back).toEqual({ ok: true, map });
+		expect(back.ok && back.map.frames[0].signals.map((s) => s.role)).toEqual([
+			'value',
+			'counter',
+			'checksum'
+		]);
+	});
+
 	it('keeps awkward text, labels, FD lengths, extended IDs and frames without signals', () => {
 		const map = canMapSchema.parse({
 			format: 'framewright-map@1',

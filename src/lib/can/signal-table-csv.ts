@@ -168,6 +168,13 @@ export const SIGNAL_TABLE_COLUMNS: readonly ColumnSpec[] = [
 		description: 'J1939 suspect parameter number; blank for none'
 	},
 	{
+		name: 'role',
+		level: 'signal',
+		field: 'role',
+		kind: 'text',
+		description: 'value, counter or checksum (docs/map-format.md, "Signal roles"); blank: value'
+	},
+	{
 		name: 'comment',
 		level: 'signal',
 		field: 'comment',

@@ -4,6 +4,7 @@
  * docs/field-proposals.md describes the kinds, the evidence and the confidence.
  */
 export { framesById, idFramesFromPayloads, type IdFrames } from './frames';
+export { idFramesFromChunks } from './chunked';
 export { proposeCaptureFields, proposeFields, MIN_FRAMES } from './propose';
 export {
 	checksumAlgorithmSchema,

@@ -60,6 +60,7 @@ function deviceValue(entry: ReceiveChannel, data: Uint8Array): number {
 		multiplexer: false,
 		muxValue: null,
 		spn: null,
+		role: 'value',
 		comment: ''
 	};
 	const value = decodeSignal(signal, data).value;

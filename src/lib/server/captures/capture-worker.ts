@@ -13,6 +13,7 @@ import { runReceiver } from './work/receivers';
 import { runBusLoad } from './work/bus-load';
 import { runDecode } from './work/decode';
 import { runExport } from './work/export';
+import { runCorrelate, runFields } from './work/fields';
 import { runConvert, runProcess } from './work/process';
 import { runSeries } from './work/series';
 import type { CaptureTask } from './work/tasks';
@@ -49,6 +50,10 @@ export default async function run(task: CaptureTask): Promise<unknown> {
 			return runAlerts(storage, task);
 		case 'receiver':
 			return runReceiver(storage, task);
+		case 'fields':
+			return runFields(storage, task);
+		case 'correlate':
+			return runCorrelate(storage, task);
 		case 'export':
 			return runExport(storage, { ...task, port: task.port as unknown as MessagePort });
 		case 'bus-load':

@@ -27,6 +27,7 @@ import {
 } from './capture-store';
 import { guessBitrateFromMap } from './bitrate';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
+import { forgetFieldProposals } from './field-proposal-cache';
 import { runCaptureTask } from './pool';
 import { summaryKey } from './work/decode';
 import type { SamplesTask, StoredDecode } from './work/tasks';
@@ -130,6 +131,7 @@ export function forgetCaptureDecodes(captureId: string): void {
 	storedDecodes.forget(`/${captureId}/`);
 	compiledMaps.forget(`/${captureId}/`);
 	forgetCaptureStore(captureId);
+	forgetFieldProposals(captureId);
 }
 
 /** A bus to decode alone: one of the capture's buses (a capture of one bus has nothing to choose). */

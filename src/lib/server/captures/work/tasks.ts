@@ -14,6 +14,8 @@ import type { CaptureOrigin } from '../../../can/capture/clock';
 import type { CaptureLayout } from '../../../can/capture/layout';
 import type { ResampleMode } from '../../../can/capture/export';
 import type { CanMap } from '../../../can/map';
+import type { CandidateField, FieldCorrelation } from '../../../can/fields/correlate';
+import type { IdProposals } from '../../../can/fields/proposal';
 import type { CaptureCheck } from '../../../can/receivers/check';
 import type { Link } from '../../../can/receivers/linking';
 import type { ReceiverProfile } from '../../../can/receivers/profile';
@@ -144,7 +146,35 @@ export interface BusLoadTask extends OnStore {
 
 export type BusLoadOutcome = Omit<CaptureBusLoadResponse, 'bitrate'>;
 
+/** Field proposals (docs/field-proposals.md) for these IDs, read from their chunks only. */
+export interface FieldsTask extends OnStore {
+	kind: 'fields';
+	indexKey: string;
+	ids: { id: number; extended: boolean }[];
+}
+
+export type FieldsOutcome = IdProposals[];
+
+/** A decoded channel against candidate fields of unknown IDs (work/fields.ts). */
+export interface CorrelateTask extends OnDecode {
+	kind: 'correlate';
+	channel: number;
+	candidates: CandidateField[];
+	/** Most scatter points of the best match. */
+	maxPoints: number;
+	/** Rows of the ranking kept. */
+	top: number;
+}
+
+export interface CorrelateOutcome {
+	ranking: Omit<FieldCorrelation, 'scatter'>[];
+	/** The best match's pairs (empty without one). */
+	scatter: { raw: number[]; channel: number[] };
+}
+
 export type CaptureTask =
+	| FieldsTask
+	| CorrelateTask
 	| ProcessTask
 	| ConvertTask
 	| DecodeTask

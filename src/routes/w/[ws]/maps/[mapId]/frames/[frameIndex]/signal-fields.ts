@@ -27,6 +27,7 @@ const KINDS: Record<SignalField, Kind> = {
 	multiplexer: 'boolean',
 	muxValue: 'optional-integer',
 	spn: 'optional-integer',
+	role: 'text',
 	comment: 'text'
 };
 
