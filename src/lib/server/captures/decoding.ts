@@ -146,12 +146,7 @@ export async function decodeWith(
 	const map =
 		revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
 	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapRecord.id,
-		revision,
-		draftVersion
-	);
+	const folder = decodeFolder(indexKey, mapRecord.id, revision, draftVersion);
 	const stored = await storedDecode(services, indexKey, folder, map);
 	const decode = await db.transaction().execute(async (trx) => {
 		const record = await insertDecode(trx, {
@@ -223,12 +218,7 @@ export async function openDecode(
 		map = current.draft;
 	}
 	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapId,
-		decode.revision,
-		decode.draftVersion
-	);
+	const folder = decodeFolder(indexKey, mapId, decode.revision, decode.draftVersion);
 	return {
 		decode,
 		capture,
@@ -290,12 +280,7 @@ export async function openRevisionDecode(
 	await requireMap(services.db, workspaceId, mapId);
 	const map = (await requireRevision(services.db, mapId, revision)).map;
 	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapId,
-		revision,
-		null
-	);
+	const folder = decodeFolder(indexKey, mapId, revision, null);
 	return {
 		capture,
 		map,
