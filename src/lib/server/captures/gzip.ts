@@ -26,11 +26,8 @@ export class InflatedTooLargeError extends Error {
 export class GzipFormatError extends Error {}
 
 function isZlibError(error: unknown): error is Error & { code: string } {
-	return (
-		error instanceof Error &&
-		typeof (error as { code?: unknown }).code === 'string' &&
-		(error as { code: string }).code.startsWith('Z_')
-	);
+	const code: unknown = (error as { code?: unknown } | null)?.code;
+	return error instanceof Error && typeof code === 'string' && code.startsWith('Z_');
 }
 
 /** A zlib failure as a message a person can act on. */
