@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { seededRandom } from '../testing/seeded-random';
-import { readCanonicalLine } from './canonical-line';
+import { linePlan, readPlainLine } from './canonical-line';
+import { CANONICAL_LAYOUT } from './layout';
 import { ingestCapture } from './ingest';
 import { createParsedRow } from './row-parser';
 
@@ -85,7 +86,8 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		const text = 'junk\n1.500000,1a0,0,3,01 02 ff\nmore';
 		const out = createParsedRow();
 		const start = text.indexOf('\n') + 1;
-		expect(readCanonicalLine(text, start, text.lastIndexOf('\n'), out, 'either')).toBe(true);
+		const plan = linePlan(CANONICAL_LAYOUT)!;
+		expect(readPlainLine(text, start, text.lastIndexOf('\n'), out, plan)).toBe(true);
 		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([
 			1.5,
 			0x1a0,
@@ -95,5 +97,53 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			2,
 			255
 		]);
+	});
+
+	// Other layouts the in-place reader serves: the same equality with the general route.
+	it.each([
+		[
+			'semicolons, h-suffix IDs, spaced bytes',
+			[
+				'Time;ID;DLC;Data',
+				'0.001000;3BAh;8;11 22 33 44 55 66 77 88',
+				'0.002000;18FEF100h;2;AA BB', // extended by size
+				'0.003000;3bAH;1;0F',
+				'0.004000;0x12h;1;00', // prefix and suffix: bad row
+				'0.005000;100x;1;00', // marker letter: general route
+				'0,006;100h;1;01', // decimal comma: general route
+				'0.007000;h;1;00', // no digits: bad row
+				'0.008000;100h;3;01 02', // DLC mismatch: bad row
+				'0.009000;7FFh;0;'
+			]
+		],
+		[
+			'direction column, columns in another order, ignored columns',
+			[
+				'dir,note,data,id,time,dlc',
+				'Rx,a,11 22,100,0.001,2',
+				'tx,b,,7FF,0.002,0',
+				'TX,c,01,800,0.003,1', // no flag column: 0x800 is extended
+				'out,d,01,100,0.004,1', // a word: general route
+				'Qx,e,01,100,0.005,1', // bad direction: bad row
+				'Rx,f,01,100', // too few columns: bad row
+				'Rx,g,01 02 03 04 05 06 07 08 09,100,0.006,9' // 9 bytes: bad row
+			]
+		],
+		[
+			'tabs, no header, extended flag',
+			[
+				'0.1\t0x100\t0\t8\t0102030405060708',
+				'0.2\t18DA00F1\t1\t3\t01 02 03',
+				'0.3\t800\t0\t1\t00', // 12-bit ID marked standard
+				'0.4\tZZZ\t0\t1\t00' // not an ID: bad row
+			]
+		]
+	])('on %s', async (_name, lines) => {
+		for (const text of [lines.join('\n') + '\n', lines.join('\r\n')]) {
+			const { fast, general } = await importBoth(text);
+			expect(fast).toEqual(general);
+			expect(general.report.frameCount).toBeGreaterThan(1);
+			expect(general.report.badRowCount).toBeGreaterThan(0);
+		}
 	});
 });

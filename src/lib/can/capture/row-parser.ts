@@ -340,14 +340,26 @@ export function parseKind(field: string): RowKind | undefined {
 	return undefined;
 }
 
-/** An ID field some loggers fill with a word for an error frame ("ErrorFrame", "error"). */
-const isErrorWord = (field: string) => ERROR_WORDS.has(trimField(field).toLowerCase());
+/**
+ * An ID field some loggers fill with a word for an error frame ("ErrorFrame", "error"). Asked of
+ * every row: every such word starts with "e", so any other ID is answered without a new string.
+ */
+function isErrorWord(field: string): boolean {
+	const s = trimField(field);
+	return (s.charCodeAt(0) | 32) === 101 && ERROR_WORDS.has(s.toLowerCase());
+}
 
 const RX_WORDS = new Set(['', 'rx', 'r', 'receive', 'received', 'in', 'input']);
 const TX_WORDS = new Set(['tx', 't', 'transmit', 'transmitted', 'sent', 'send', 'out', 'output']);
 
 /** 0 received, 1 transmitted; undefined when unreadable. */
 export function parseDirection(field: string): 0 | 1 | undefined {
+	// Rx and Tx in any case, without a new string (asked of every row).
+	if (field.length === 2 && (field.charCodeAt(1) | 32) === 120) {
+		const c = field.charCodeAt(0) | 32;
+		if (c === 114) return 0;
+		if (c === 116) return 1;
+	}
 	const s = trimField(field).toLowerCase();
 	if (RX_WORDS.has(s)) return 0;
 	if (TX_WORDS.has(s)) return 1;
