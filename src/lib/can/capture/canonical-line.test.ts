@@ -3,7 +3,7 @@ import { seededRandom } from '../testing/seeded-random';
 import { linePlan, readPlainLine } from './canonical-line';
 import { CANONICAL_LAYOUT } from './layout';
 import { ingestCapture } from './ingest';
-import { createParsedRow } from './row-parser';
+import { createParsedRow, createRowParserState } from './row-parser';
 
 /** Everything an import produces, in comparable form. */
 async function importBoth(text: string | string[]) {
@@ -86,7 +86,7 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		const text = 'junk\n1.500000,1a0,0,3,01 02 ff\nmore';
 		const out = createParsedRow();
 		const start = text.indexOf('\n') + 1;
-		const plan = linePlan(CANONICAL_LAYOUT)!;
+		const plan = linePlan(CANONICAL_LAYOUT, createRowParserState())!;
 		expect(readPlainLine(text, start, text.lastIndexOf('\n'), out, plan)).toBe(true);
 		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([
 			1.5,
@@ -130,6 +130,32 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			]
 		],
 		[
+			'time of day passing midnight, bus and direction columns',
+			[
+				'time,bus,dir,id,dlc,data',
+				'23:59:59.900000,can0,Rx,100,1,01',
+				'23:59:59.950000,can1,Tx,100,1,02',
+				'00:00:00.010000,can0,Rx,100,1,03', // past midnight
+				'0:00:00.020000,can1,Rx,100,1,04', // one-digit hour
+				'00:00:00.030000, can1,Rx,100,1,05', // blank before the bus: general route
+				'00:00:00.040000,can2,Rx,100,3,05', // new bus, DLC mismatch: bad row
+				'00:00:00.050000,can2,Rx,100,1,06',
+				'25:00:00.000000,can0,Rx,100,1,07', // no such hour: bad row
+				'00:00:00.060000,can0,Rx,100,1,08'
+			]
+		],
+		[
+			'ISO 8601 date-times',
+			[
+				'timestamp,id,dlc,data',
+				'2026-03-01T10:15:00.000001Z,100,1,01',
+				'2026-03-01 10:15:00.5,100,1,02',
+				'2026-03-02T00:00:00+01:00,100,1,03', // offset: general route
+				'2026-02-30T00:00:00Z,100,1,04', // no such day: bad row
+				'2026-03-02T00:00:01.123456789z,100,1,05'
+			]
+		],
+		[
 			'tabs, no header, extended flag',
 			[
 				'0.1\t0x100\t0\t8\t0102030405060708',
@@ -141,6 +167,8 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 	])('on %s', async (_name, lines) => {
 		for (const text of [lines.join('\n') + '\n', lines.join('\r\n')]) {
 			const { fast, general } = await importBoth(text);
+			// The layout is one the in-place reader serves, so the equality says something.
+			expect(linePlan(general.report.layout, createRowParserState())).not.toBeNull();
 			expect(fast).toEqual(general);
 			expect(general.report.frameCount).toBeGreaterThan(1);
 			expect(general.report.badRowCount).toBeGreaterThan(0);

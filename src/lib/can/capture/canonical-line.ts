@@ -1,10 +1,11 @@
 /**
  * Fast path of the import for plain lines: it reads the characters of the chunk in place, so a row
  * costs no field strings (papaparse's splitting is most of the general route's work). It serves every
- * layout whose columns are a numeric time, a hex ID (bare, `0x` prefix or `h` suffix), optionally a
- * bare 0/1 extended flag, a DLC and a direction (Rx/Tx), and one data column of hex pairs — the
- * canonical layout (docs/capture-csv.md) and e.g. `0.0123;3BAh;8;11 22 33` — in any column order
- * and with any delimiter; columns with no role are skipped. It accepts only lines the general route
+ * layout whose columns are a time (a number, a time of day or an ISO 8601 date-time), a hex ID (bare,
+ * `0x` prefix or `h` suffix), optionally a bare 0/1 extended flag, a DLC, a direction (Rx/Tx) and a
+ * bus already met, and one data column of hex pairs — the canonical layout (docs/capture-csv.md) and
+ * e.g. `0.0123;3BAh;8;11 22 33` — in any column order and with any delimiter; columns with no role
+ * are skipped. It accepts only lines the general route
  * (papaparse + the row parser) would read without a problem, with the same values; anything else —
  * quotes, blanks, marker letters, words, mismatches, bad values — returns false and goes the general
  * route, which also words the reason for a bad row.
@@ -12,15 +13,31 @@
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from '../map';
 import type { CaptureLayout } from './layout';
 import {
+	clock,
+	clockAt,
 	dlcMatches,
 	isPayloadLength,
 	parsePlainDecimal,
+	plainDateTime,
 	ROW_KIND,
-	type ParsedRow
+	timeOfDayOnward,
+	type ParsedRow,
+	type RowParserState
 } from './row-parser';
 
 const SPACE = 32;
-const ROLE = { none: 0, time: 1, id: 2, extended: 3, dlc: 4, data: 5, direction: 6 } as const;
+const ROLE = {
+	none: 0,
+	time: 1,
+	id: 2,
+	extended: 3,
+	dlc: 4,
+	data: 5,
+	direction: 6,
+	bus: 7
+} as const;
+/** Bus names compared in place before a line goes the general route (which adds new ones). */
+const BUSES_COMPARED = 16;
 
 /** What the fast path needs of a layout: the role of each column up to the last one used. */
 export interface LinePlan {
@@ -28,6 +45,9 @@ export interface LinePlan {
 	roles: Uint8Array;
 	dlcMeaning: CaptureLayout['dlcMeaning'];
 	hasExtended: boolean;
+	timeFormat: CaptureLayout['timeFormat'];
+	/** The row parser's state, shared: bus names met, the time of day's days passed. */
+	state: RowParserState;
 }
 
 /** 0–15 for a hex digit's char code, -1 otherwise (charCode above 127 included). */
@@ -38,13 +58,11 @@ function hexAt(text: string, i: number): number {
 	return lower >= 97 && lower <= 102 ? lower - 87 : -1;
 }
 
-/** The plan of a layout the fast path can read, or null (byte columns, bus, tag, kind, text times …). */
-export function linePlan(layout: CaptureLayout): LinePlan | null {
+/** The plan of a layout the fast path can read, or null (byte columns, tag, kind, decimal IDs). */
+export function linePlan(layout: CaptureLayout, state: RowParserState): LinePlan | null {
 	if (
 		layout.idFormat !== 'hex' ||
-		layout.timeFormat !== 'number' ||
 		layout.dataColumn === null ||
-		layout.busColumn !== null ||
 		layout.kindColumn !== null ||
 		layout.tagColumn !== null
 	)
@@ -55,7 +73,8 @@ export function linePlan(layout: CaptureLayout): LinePlan | null {
 		[layout.extendedColumn, ROLE.extended],
 		[layout.dlcColumn, ROLE.dlc],
 		[layout.dataColumn, ROLE.data],
-		[layout.directionColumn, ROLE.direction]
+		[layout.directionColumn, ROLE.direction],
+		[layout.busColumn, ROLE.bus]
 	];
 	const last = Math.max(...columns.map(([c]) => c ?? 0));
 	const roles = new Uint8Array(last + 1);
@@ -68,7 +87,9 @@ export function linePlan(layout: CaptureLayout): LinePlan | null {
 		delimiter: layout.delimiter,
 		roles,
 		dlcMeaning: layout.dlcMeaning,
-		hasExtended: layout.extendedColumn !== null
+		hasExtended: layout.extendedColumn !== null,
+		timeFormat: layout.timeFormat,
+		state
 	};
 }
 
@@ -102,6 +123,7 @@ export function readPlainLine(
 	let dlc = -1;
 	let length = 0;
 	let direction: 0 | 1 = 0;
+	let bus = 0;
 	let i = start;
 	for (let column = 0; column < roles.length; column++) {
 		if (i > end) return false; // the line has fewer columns
@@ -109,8 +131,10 @@ export function readPlainLine(
 		if (fieldEnd < 0 || fieldEnd > end) fieldEnd = end;
 		switch (roles[column]) {
 			case ROLE.time:
-				// digits with at most one point, the same arithmetic as the general parseTime
-				time = parsePlainDecimal(text, i, fieldEnd);
+				// the same arithmetic as the general parseTimeAs on the shapes read here
+				if (plan.timeFormat === 'number') time = parsePlainDecimal(text, i, fieldEnd);
+				else if (plan.timeFormat === 'date-time') time = plainDateTime(text, i, fieldEnd);
+				else if (clockAt(text, i, fieldEnd, true)) time = clock.whole + clock.fraction;
 				if (time !== time) return false;
 				break;
 			case ROLE.id:
@@ -155,6 +179,20 @@ export function readPlainLine(
 				direction = c === 116 ? 1 : 0;
 				break;
 			}
+			case ROLE.bus: {
+				// a name met before, as written (blanks go the general route, which trims them)
+				const buses = plan.state.buses;
+				const n = fieldEnd - i;
+				bus = -1;
+				for (let k = 0; k < buses.length && k < BUSES_COMPARED; k++) {
+					if (buses[k].length === n && text.startsWith(buses[k], i)) {
+						bus = k;
+						break;
+					}
+				}
+				if (bus < 0) return false;
+				break;
+			}
 		}
 		i = fieldEnd + 1;
 	}
@@ -162,12 +200,13 @@ export function readPlainLine(
 		return false;
 	if (plan.hasExtended && flag === 0 && id > MAX_STANDARD_ID) return false;
 
-	out.time = time;
+	// Last, once the line is sure to be read here: the general route counts days for every row it reads.
+	out.time = plan.timeFormat === 'time-of-day' ? timeOfDayOnward(plan.state, time) : time;
 	out.id = id;
 	out.extended = plan.hasExtended ? flag === 1 : id > MAX_STANDARD_ID;
 	out.length = length;
 	out.kind = ROW_KIND.data;
-	out.bus = 0;
+	out.bus = bus;
 	out.direction = direction;
 	out.tag = 0;
 	return true;

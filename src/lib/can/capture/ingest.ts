@@ -169,7 +169,7 @@ export async function ingestCaptureInto(
 		}
 		parser = new Papa.Parser({ delimiter: layout.delimiter, newline });
 		parseRow = createRowParser(layout, parserState);
-		plan = (options.canonicalFastPath ?? true) ? linePlan(layout) : null;
+		plan = (options.canonicalFastPath ?? true) ? linePlan(layout, parserState) : null;
 		secondsPerUnit = secondsPerTimeUnit(layout);
 		headerPending = layout.hasHeader;
 	};

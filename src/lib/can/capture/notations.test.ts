@@ -304,6 +304,12 @@ describe('layout schema and column roles', () => {
 		expect(parseKind('maybe')).toBeUndefined();
 		expect(['Rx', 'tx', 'receive', 'sent', ''].map(parseDirection)).toEqual([0, 1, 0, 1, 0]);
 		expect(parseDirection('sideways')).toBeUndefined();
-		expect(createRowParserState()).toEqual({ buses: [], tags: [], midnightCrossings: 0 });
+		expect(createRowParserState()).toEqual({
+			buses: [],
+			tags: [],
+			midnightCrossings: 0,
+			previousTimeOfDay: -1,
+			dayOffset: 0
+		});
 	});
 });

@@ -56,13 +56,34 @@ export interface RowParserState {
 	buses: string[];
 	tags: string[];
 	midnightCrossings: number;
+	/** The last time of day read (-1 before the first) and the days passed since the first row, in s. */
+	previousTimeOfDay: number;
+	dayOffset: number;
 }
 
 export const createRowParserState = (): RowParserState => ({
 	buses: [],
 	tags: [],
-	midnightCrossings: 0
+	midnightCrossings: 0,
+	previousTimeOfDay: -1,
+	dayOffset: 0
 });
+
+const HALF_DAY = 43_200;
+
+/**
+ * A time of day (seconds since midnight) counted on from the recording's first day: a jump back of
+ * more than half a day is the clock passing midnight, not a reordered row. Called once per row, in
+ * file order, by both ingest routes.
+ */
+export function timeOfDayOnward(state: RowParserState, time: number): number {
+	if (state.previousTimeOfDay >= 0 && time + HALF_DAY < state.previousTimeOfDay) {
+		state.dayOffset += 86_400;
+		state.midnightCrossings++;
+	}
+	state.previousTimeOfDay = time;
+	return time + state.dayOffset;
+}
 
 /** 0–15 for each hex digit's char code, -1 for every other code below 128: one load, no branches. */
 const HEX_VALUE = (() => {
@@ -134,7 +155,7 @@ function digitsAt(s: string, at: number, n: number): number {
 }
 
 /** What clockAt read: whole seconds since midnight and the fraction (kept apart, summed as the slow route sums). */
-const clock = { whole: 0, fraction: 0 };
+export const clock = { whole: 0, fraction: 0 };
 
 /**
  * The fast path of both clock notations, without a regular expression or strings: `h:mm:ss` or
@@ -142,7 +163,7 @@ const clock = { whole: 0, fraction: 0 };
  * `clock`. The parts are the same numbers as the regular-expression route's (integers, and the
  * fraction's digits ÷ 10^digits); false means "not this plain shape" and the caller takes that route.
  */
-function clockAt(s: string, start: number, end: number, shortHour: boolean): boolean {
+export function clockAt(s: string, start: number, end: number, shortHour: boolean): boolean {
 	const hourDigits = shortHour && s.charCodeAt(start + 1) === 58 ? 1 : 2;
 	const at = start + hourDigits;
 	if (end < at + 6 || s.charCodeAt(at) !== 58 || s.charCodeAt(at + 3) !== 58) return false;
@@ -171,17 +192,21 @@ let lastDaySeconds = 0;
  * in `Z` — as exact as the regular-expression route (Date.UTC of the day, once per day, plus the
  * clock); NaN for any other shape (an offset, blanks, a year before 1000), which that route reads.
  */
-function plainDateTime(s: string): number {
-	let end = s.length;
-	if (end < 19) return NaN;
+export function plainDateTime(s: string, start = 0, end = s.length): number {
+	if (end - start < 19) return NaN;
 	if ((s.charCodeAt(end - 1) | 32) === 122) end--; // Z
-	const sep = s.charCodeAt(10);
-	if (s.charCodeAt(4) !== 45 || s.charCodeAt(7) !== 45 || (sep !== 84 && sep !== 32)) return NaN;
-	const y = digitsAt(s, 0, 4);
-	const mo = digitsAt(s, 5, 2);
-	const d = digitsAt(s, 8, 2);
+	const sep = s.charCodeAt(start + 10);
+	if (
+		s.charCodeAt(start + 4) !== 45 ||
+		s.charCodeAt(start + 7) !== 45 ||
+		(sep !== 84 && sep !== 32)
+	)
+		return NaN;
+	const y = digitsAt(s, start, 4);
+	const mo = digitsAt(s, start + 5, 2);
+	const d = digitsAt(s, start + 8, 2);
 	if (y < 1000 || mo < 1 || mo > 12 || d < 1 || d > 31) return NaN;
-	if (!clockAt(s, 11, end, false)) return NaN;
+	if (!clockAt(s, start + 11, end, false)) return NaN;
 	const key = y * 10_000 + mo * 100 + d;
 	if (key !== lastDayKey) {
 		const day = Date.UTC(y, mo - 1, d);
@@ -460,9 +485,6 @@ export function createRowParser(
 	const busIndex = new Map(state.buses.map((name, i) => [name, i]));
 	const tagIndex = new Map(state.tags.map((name, i) => [name, i]));
 	const id: ParsedId = { id: 0, marked: false };
-	let previousTimeOfDay = -1;
-	let dayOffset = 0;
-	const HALF_DAY = 43_200;
 
 	return (fields, out) => {
 		if (fields.length <= needed) {
@@ -477,15 +499,7 @@ export function createRowParser(
 			};
 			return `time "${fields[timeColumn].trim()}" is not ${wanted[timeFormat]}`;
 		}
-		if (timeFormat === 'time-of-day') {
-			// A jump back of more than half a day is the clock passing midnight, not a reordered row.
-			if (previousTimeOfDay >= 0 && time + HALF_DAY < previousTimeOfDay) {
-				dayOffset += 86_400;
-				state.midnightCrossings++;
-			}
-			previousTimeOfDay = time;
-			time += dayOffset;
-		}
+		if (timeFormat === 'time-of-day') time = timeOfDayOnward(state, time);
 
 		let kind: RowKind = ROW_KIND.data;
 		if (kindColumn !== null) {
