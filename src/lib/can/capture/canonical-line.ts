@@ -42,6 +42,7 @@ const BUSES_COMPARED = 16;
 /** What the fast path needs of a layout: the role of each column up to the last one used. */
 export interface LinePlan {
 	delimiter: string;
+	delimiterCode: number;
 	roles: Uint8Array;
 	dlcMeaning: CaptureLayout['dlcMeaning'];
 	hasExtended: boolean;
@@ -85,27 +86,13 @@ export function linePlan(layout: CaptureLayout, state: RowParserState): LinePlan
 	}
 	return {
 		delimiter: layout.delimiter,
+		delimiterCode: layout.delimiter.charCodeAt(0),
 		roles,
 		dlcMeaning: layout.dlcMeaning,
 		hasExtended: layout.extendedColumn !== null,
 		timeFormat: layout.timeFormat,
 		state
 	};
-}
-
-/** A hex ID in text[start, end): 1–8 digits, bare, after `0x` or before `h`; -1 otherwise. */
-function hexIdAt(text: string, start: number, end: number): number {
-	if (end - start > 2 && text.charCodeAt(start) === 48 && (text.charCodeAt(start + 1) | 32) === 120)
-		start += 2;
-	else if (end - start > 1 && (text.charCodeAt(end - 1) | 32) === 104) end--; // the h suffix
-	if (end === start || end - start > 8) return -1;
-	let id = 0;
-	for (let i = start; i < end; i++) {
-		const d = hexAt(text, i);
-		if (d < 0) return -1;
-		id = id * 16 + d;
-	}
-	return id;
 }
 
 /** Reads text[start, end) into `out`; true only when the general route would accept it identically. */
@@ -117,6 +104,7 @@ export function readPlainLine(
 	plan: LinePlan
 ): boolean {
 	const { roles, delimiter } = plan;
+	const dc = plan.delimiterCode;
 	let time = NaN;
 	let id = -1;
 	let flag = -1;
@@ -127,42 +115,46 @@ export function readPlainLine(
 	let i = start;
 	for (let column = 0; column < roles.length; column++) {
 		if (i > end) return false; // the line has fewer columns
-		let fieldEnd = text.indexOf(delimiter, i);
-		if (fieldEnd < 0 || fieldEnd > end) fieldEnd = end;
+		// Fields read character by character find their own end (one pass over the text); the others
+		// end at the next delimiter. Either way the field must end at a delimiter or the line's end.
+		let k = i;
 		switch (roles[column]) {
-			case ROLE.time:
-				// the same arithmetic as the general parseTimeAs on the shapes read here
-				if (plan.timeFormat === 'number') time = parsePlainDecimal(text, i, fieldEnd);
-				else if (plan.timeFormat === 'date-time') time = plainDateTime(text, i, fieldEnd);
-				else if (clockAt(text, i, fieldEnd, true)) time = clock.whole + clock.fraction;
-				if (time !== time) return false;
+			case ROLE.id: {
+				// 1–8 hex digits: bare, after 0x, or before an h suffix
+				const prefixed = text.charCodeAt(k) === 48 && (text.charCodeAt(k + 1) | 32) === 120;
+				if (prefixed) k += 2;
+				const digits = k;
+				id = 0;
+				for (; k < end; k++) {
+					const d = hexAt(text, k);
+					if (d < 0) break;
+					id = id * 16 + d;
+				}
+				if (k === digits || k - digits > 8 || id > MAX_EXTENDED_ID) return false;
+				if (!prefixed && k < end && (text.charCodeAt(k) | 32) === 104) k++; // the h suffix
 				break;
-			case ROLE.id:
-				id = hexIdAt(text, i, fieldEnd);
-				if (id < 0 || id > MAX_EXTENDED_ID) return false;
-				break;
+			}
 			case ROLE.extended:
-				flag = text.charCodeAt(i) - 48;
-				if (fieldEnd !== i + 1 || (flag !== 0 && flag !== 1)) return false;
+				flag = text.charCodeAt(k) - 48;
+				if (k >= end || (flag !== 0 && flag !== 1)) return false;
+				k++;
 				break;
 			case ROLE.dlc: {
-				if (fieldEnd === i || fieldEnd - i > 2) return false;
 				dlc = 0;
-				for (let k = i; k < fieldEnd; k++) {
+				for (; k < end; k++) {
 					const c = text.charCodeAt(k);
-					if (c < 48 || c > 57) return false;
+					if (c < 48 || c > 57) break;
 					dlc = dlc * 10 + (c - 48);
 				}
-				if (dlc > 64) return false;
+				if (k === i || k - i > 2 || dlc > 64) return false;
 				break;
 			}
 			case ROLE.data: {
 				// hex digit pairs, optionally one space between pairs
 				const data = out.data;
-				let k = i;
-				while (k < fieldEnd) {
+				while (k < end && text.charCodeAt(k) !== dc) {
 					if (length > 0 && text.charCodeAt(k) === SPACE) k++;
-					if (k + 1 >= fieldEnd || length === 64) return false;
+					if (k + 1 >= end || length === 64) return false;
 					const hi = hexAt(text, k);
 					const lo = hexAt(text, k + 1);
 					if (hi < 0 || lo < 0) return false;
@@ -173,28 +165,39 @@ export function readPlainLine(
 			}
 			case ROLE.direction: {
 				// Rx or Tx in any case; anything else (words, blanks) goes the general route
-				if (fieldEnd !== i + 2 || (text.charCodeAt(i + 1) | 32) !== 120) return false;
-				const c = text.charCodeAt(i) | 32;
+				if (k + 2 > end || (text.charCodeAt(k + 1) | 32) !== 120) return false;
+				const c = text.charCodeAt(k) | 32;
 				if (c !== 114 && c !== 116) return false;
 				direction = c === 116 ? 1 : 0;
+				k += 2;
 				break;
 			}
-			case ROLE.bus: {
-				// a name met before, as written (blanks go the general route, which trims them)
-				const buses = plan.state.buses;
-				const n = fieldEnd - i;
-				bus = -1;
-				for (let k = 0; k < buses.length && k < BUSES_COMPARED; k++) {
-					if (buses[k].length === n && text.startsWith(buses[k], i)) {
-						bus = k;
-						break;
+			default: {
+				k = text.indexOf(delimiter, i);
+				if (k < 0 || k > end) k = end;
+				const role = roles[column];
+				if (role === ROLE.time) {
+					// the same arithmetic as the general parseTimeAs on the shapes read here
+					if (plan.timeFormat === 'number') time = parsePlainDecimal(text, i, k);
+					else if (plan.timeFormat === 'date-time') time = plainDateTime(text, i, k);
+					else if (clockAt(text, i, k, true)) time = clock.whole + clock.fraction;
+					if (time !== time) return false;
+				} else if (role === ROLE.bus) {
+					// a name met before, as written (blanks go the general route, which trims them)
+					const buses = plan.state.buses;
+					bus = -1;
+					for (let b = 0; b < buses.length && b < BUSES_COMPARED; b++) {
+						if (buses[b].length === k - i && text.startsWith(buses[b], i)) {
+							bus = b;
+							break;
+						}
 					}
+					if (bus < 0) return false;
 				}
-				if (bus < 0) return false;
-				break;
 			}
 		}
-		i = fieldEnd + 1;
+		if (k < end && text.charCodeAt(k) !== dc) return false;
+		i = k + 1;
 	}
 	if (!isPayloadLength(length) || (dlc >= 0 && !dlcMatches(dlc, length, plan.dlcMeaning)))
 		return false;
