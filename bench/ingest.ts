@@ -23,13 +23,13 @@ import { createReadStream, mkdtempSync, rmSync, statSync, writeFileSync } from '
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import Papa from 'papaparse';
 import { detectCaptureLayout } from '../src/lib/can/capture/detect-layout';
 import { FrameStore } from '../src/lib/can/capture/frame-store';
 import { ingestCaptureInto } from '../src/lib/can/capture/ingest';
 import type { CaptureLayout } from '../src/lib/can/capture/layout';
 import { seededRandom } from '../src/lib/can/testing/seeded-random';
 import { plainBytes } from '../src/lib/server/captures/gzip';
+import { papaparseRows } from './papaparse-alone';
 
 const argValue = (name: string) => {
 	const at = process.argv.indexOf(name);
@@ -167,19 +167,7 @@ async function cpuSeconds(run: () => Promise<void>): Promise<number> {
 }
 
 async function papaparseAlone(path: string, delimiter: string): Promise<void> {
-	const parser = new Papa.Parser({ delimiter, newline: '\n' });
-	const decoder = new TextDecoder('utf-8');
-	let rows = 0;
-	let pending = '';
-	for await (const chunk of fileChunks(path)) {
-		pending += decoder.decode(chunk as Uint8Array, { stream: true });
-		const cut = pending.lastIndexOf('\n');
-		if (cut < 0) continue;
-		rows += parser.parse(pending.slice(0, cut + 1), 0, true).data.length;
-		pending = pending.slice(cut + 1);
-	}
-	pending += decoder.decode();
-	if (pending) rows += parser.parse(pending, 0, false).data.length;
+	const rows = await papaparseRows(fileChunks(path), delimiter);
 	if (rows < FRAMES) throw new Error(`bench: papaparse read ${rows} rows`);
 }
 
