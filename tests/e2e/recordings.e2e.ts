@@ -86,9 +86,14 @@ test('three awkward recordings are confirmed, decoded to the DataView reference,
 
 	for (const file of FILES) {
 		await page.goto(`/w/${slug}/captures`);
-		await page
-			.getByLabel('Choose capture files')
-			.setInputFiles({ name: file.name, mimeType: 'text/csv', buffer: file.buffer });
+		// Choosing a file before the page has hydrated does nothing: choose again until the upload shows
+		// (no upload can have started when its list is not there).
+		await expect(async () => {
+			await page
+				.getByLabel('Choose capture files')
+				.setInputFiles({ name: file.name, mimeType: 'text/csv', buffer: file.buffer });
+			await expect(page.getByRole('list', { name: 'Uploads' })).toBeVisible({ timeout: 2000 });
+		}).toPass({ timeout: 20_000 });
 		await expect(page.getByRole('heading', { name: 'Confirm the layout' })).toBeVisible({
 			timeout: 30_000
 		});
