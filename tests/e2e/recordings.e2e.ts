@@ -92,7 +92,11 @@ test('three awkward recordings are confirmed, decoded to the DataView reference,
 			await page
 				.getByLabel('Choose capture files')
 				.setInputFiles({ name: file.name, mimeType: 'text/csv', buffer: file.buffer });
-			await expect(page.getByRole('list', { name: 'Uploads' })).toBeVisible({ timeout: 2000 });
+			await expect(
+				page
+					.getByRole('list', { name: 'Uploads' })
+					.or(page.getByRole('heading', { name: 'Confirm the layout' }))
+			).toBeVisible({ timeout: 2000 });
 		}).toPass({ timeout: 20_000 });
 		await expect(page.getByRole('heading', { name: 'Confirm the layout' })).toBeVisible({
 			timeout: 30_000
