@@ -10,6 +10,8 @@ import * as revisionDraftVersion from './2026-12-02-010-revision-draft-version';
 import * as receivers from './2026-12-02-030-receivers';
 import * as accessTokens from './2026-12-02-040-access-tokens';
 import * as captureViews from './2026-12-02-050-capture-views';
+import * as captureBitrate from './2026-12-02-110-capture-bitrate';
+import * as decodeBus from './2026-12-02-111-decode-bus';
 
 // An explicit, ordered list instead of reading the folder: it works the same under Vite, the
 // production bundle, vitest and tsx. Append new migrations at the end; never rename or edit old ones.
@@ -24,7 +26,9 @@ export const migrations: Record<string, Migration> = {
 	'2026-12-02-010-revision-draft-version': revisionDraftVersion,
 	'2026-12-02-030-receivers': receivers,
 	'2026-12-02-040-access-tokens': accessTokens,
-	'2026-12-02-050-capture-views': captureViews
+	'2026-12-02-050-capture-views': captureViews,
+	'2026-12-02-110-capture-bitrate': captureBitrate,
+	'2026-12-02-111-decode-bus': decodeBus
 };
 
 export const migrationProvider: MigrationProvider = {

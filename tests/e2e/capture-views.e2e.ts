@@ -113,6 +113,8 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	const summary = plot.locator('p.sr-only[aria-live="polite"]');
 	// Min/max decimation keeps each bucket's extremes, so the whole-capture window shows the true extent.
 	await expect(summary).toContainText(`2 strips, 2 channels, from ${from} s to ${to} s.`);
+	// The series arrive after the window is set: wait for both before reading their extent.
+	await expect(summary).not.toContainText('no samples in this window', { timeout: 20_000 });
 	const extent = async (label: string, unit: string) => {
 		const text = await summary.innerText();
 		const m = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`).exec(text);

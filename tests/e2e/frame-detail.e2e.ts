@@ -25,14 +25,16 @@ const mapJson = JSON.stringify({
 	]
 });
 
-async function setUp(page: Page): Promise<{ slug: string; mapId: string }> {
+async function setUp(page: Page, json = mapJson): Promise<{ slug: string; mapId: string }> {
 	await signIn(page, uniqueEmail('calibrator'));
 	await page.goto('/');
 	await page.getByLabel('Workspace name').fill(`Frame bench ${Date.now().toString(36)}`);
 	await page.getByRole('button', { name: 'Create workspace' }).click();
 	await expect(page).toHaveURL(/\/w\/[^/]+\/maps$/);
 	const slug = new URL(page.url()).pathname.split('/')[2];
-	const created = await page.request.post(`/api/workspaces/${slug}/maps`, { data: { mapJson } });
+	const created = await page.request.post(`/api/workspaces/${slug}/maps`, {
+		data: { mapJson: json }
+	});
 	expect(created.status()).toBe(201);
 	const { map } = await created.json();
 	return { slug, mapId: map.id };
@@ -161,4 +163,117 @@ test('an editor places, moves and resizes a signal on the bit grid, sees overlap
 		'aria-pressed',
 		'true'
 	);
+});
+
+/** Presses Tab (or Shift+Tab) until `target` has focus, as a keyboard user would; fails after 60. */
+async function tabTo(page: Page, target: Locator, back = false): Promise<void> {
+	for (let presses = 0; presses < 60; presses++) {
+		if (await target.evaluate((el) => el === document.activeElement)) return;
+		await page.keyboard.press(back ? 'Shift+Tab' : 'Tab');
+	}
+	throw new Error('Tab never reached the target');
+}
+
+/** Replaces a focused field's text and commits it with Enter. */
+async function typeAndEnter(page: Page, text: string): Promise<void> {
+	await page.keyboard.press('ControlOrMeta+A');
+	await page.keyboard.type(text);
+	await page.keyboard.press('Enter');
+}
+
+test('keyboard only: an editor switches an extended frame to J1939, edits its PGN, addresses and ID both ways, and an SPN', async ({
+	page
+}) => {
+	// Invented for this test: a standard frame and an extended one not yet marked J1939.
+	const json = JSON.stringify({
+		format: 'framewright-map@1',
+		name: 'J1939 editor test map',
+		frames: [
+			{ name: 'Dash', id: '0x360', length: 8, signals: [] },
+			{
+				name: 'EngineTemp',
+				id: '0x18FEF100',
+				extended: true,
+				length: 8,
+				signals: [{ name: 'CoolantTemp', startBit: 0, length: 8, offset: -40, unit: '°C' }]
+			}
+		]
+	});
+	const { slug, mapId } = await setUp(page, json);
+
+	// A standard frame cannot be switched to J1939.
+	await page.goto(`/w/${slug}/maps/${mapId}/frames/0`);
+	await expect(page.getByRole('switch', { name: 'J1939' })).toBeDisabled();
+
+	await page.goto(`/w/${slug}/maps/${mapId}/frames/1`);
+	const id = page.getByLabel('CAN ID');
+	const j1939 = page.getByRole('switch', { name: 'J1939' });
+	const breakdown = page.getByTestId('j1939-breakdown');
+	await tabTo(page, id);
+	await page.keyboard.press('Tab');
+	await expect(j1939).toBeFocused();
+	await page.keyboard.press('Space');
+	await expect(j1939).toBeChecked();
+
+	// SAE J1939-21 layout of 0x18FEF100: priority 6 (bits 28–26), PF 0xFE ≥ 240 so PDU2 with
+	// PS 0xF1 in the PGN (0xFEF1 = 65265), source address 0x00.
+	await expect(page.getByLabel('Priority')).toHaveValue('6');
+	await expect(page.getByLabel('PGN')).toHaveValue('0xFEF1');
+	await expect(page.getByLabel('Source address')).toHaveValue('0x00');
+	await expect(breakdown).toHaveText(/PGN 65265 = EDP 0 · DP 0 · PF 0xFE · PS 0xF1 \(PDU2/);
+
+	// PGN 61444 (0xF004) typed in decimal: the ID keeps priority 6 and SA 0 → 0x18F00400.
+	await page.keyboard.press('Tab'); // Priority
+	await page.keyboard.press('Tab'); // PGN
+	await expect(page.getByLabel('PGN')).toBeFocused();
+	await typeAndEnter(page, '61444');
+	await expect(id).toHaveValue('0x18F00400');
+	await page.keyboard.press('Tab'); // Source address
+	await typeAndEnter(page, '0x17');
+	await expect(id).toHaveValue('0x18F00417');
+	await expect(page.getByRole('heading', { level: 1 })).toHaveText('Frame EngineTemp');
+
+	// PDU2 is broadcast: a destination is refused with the reason and the ID stays as it was.
+	await page.keyboard.press('Tab'); // Destination address
+	await typeAndEnter(page, '5');
+	await expect(page.getByText(/PDU2 PGNs \(PF ≥ 240\) are broadcast/)).toBeVisible();
+	await expect(id).toHaveValue('0x18F00417');
+	await page.keyboard.press('Escape');
+	await expect(page.getByLabel('Destination address')).toHaveValue('');
+
+	// The other way: a typed ID splits into its parts. 0x0CEA2100 = priority 3, PF 0xEA < 240 (PDU1,
+	// PGN 0xEA00), destination 0x21, source 0x00.
+	await tabTo(page, id, true);
+	await typeAndEnter(page, '0x0CEA2100');
+	await expect(page.getByLabel('Priority')).toHaveValue('3');
+	await expect(page.getByLabel('PGN')).toHaveValue('0xEA00');
+	await expect(page.getByLabel('Destination address')).toHaveValue('0x21');
+	await expect(page.getByLabel('Source address')).toHaveValue('0x00');
+	await expect(breakdown).toHaveText(/PF 0xEA · PS 0x21 \(PDU1, destination address\)/);
+	// A PDU1 PGN with a non-zero PS byte is refused: PS is the destination there.
+	await tabTo(page, page.getByLabel('PGN'));
+	await typeAndEnter(page, '0xEA12');
+	await expect(page.getByText(/zero low byte/)).toBeVisible();
+	await expect(id).toHaveValue('0x0CEA2100');
+	await page.keyboard.press('Escape');
+
+	// SPN of the signal: select it with the keyboard, Enter opens its details.
+	await tabTo(page, page.getByRole('button', { name: 'Select signal CoolantTemp' }));
+	await page.keyboard.press('Enter');
+	const spn = page.getByLabel('SPN');
+	await tabTo(page, spn);
+	await page.keyboard.press('ControlOrMeta+A');
+	await page.keyboard.type('600000');
+	await expect(page.getByText('an SPN is a whole number 0…524287 (19 bits)')).toBeVisible();
+	await page.keyboard.press('ControlOrMeta+A');
+	await page.keyboard.type('110');
+	await expect(page.getByText('an SPN is a whole number 0…524287 (19 bits)')).toHaveCount(0);
+
+	// Save with the keyboard; the stored draft has the composed ID, the switch and the SPN.
+	await tabTo(page, page.getByRole('button', { name: 'Save draft' }), true);
+	await page.keyboard.press('Enter');
+	await expect(page.getByText('Draft saved.')).toBeVisible();
+	const saved = await (await page.request.get(`/api/workspaces/${slug}/maps/${mapId}`)).json();
+	expect(saved.map.draft.frames[1]).toMatchObject({ id: 0x0cea2100, extended: true, j1939: true });
+	expect(saved.map.draft.frames[1].signals[0].spn).toBe(110);
 });

@@ -108,6 +108,17 @@ test('an editor links a dash profile, relinks it to a new map revision, checks i
 		page.getByText(`${wantedCount - 1} of ${wantedCount} wanted channels linked.`)
 	).toBeVisible();
 
+	// Device alerts use the same rule table as map rules: a refused setpoint says why, changes nothing.
+	const deviceRules = page.getByRole('table', { name: 'Device alerts' });
+	const firstSetpoint = deviceRules.getByLabel(/^Device rule 1 (setpoint|band low)$/);
+	const setpointBefore = await firstSetpoint.inputValue();
+	await firstSetpoint.fill('hot');
+	await firstSetpoint.press('Tab');
+	await expect(deviceRules.getByText('Not applied: "hot" is not a number')).toBeVisible();
+	await firstSetpoint.fill(setpointBefore);
+	await firstSetpoint.press('Tab');
+	await expect(deviceRules.getByText(/Not applied/)).toHaveCount(0);
+
 	await page.getByRole('button', { name: 'Save draft' }).click();
 	await expect(page.getByText('All changes saved')).toBeVisible();
 	await page.getByRole('button', { name: 'Publish…' }).click();
@@ -194,6 +205,13 @@ test('an editor links a dash profile, relinks it to a new map revision, checks i
 		checklist.getByTestId('check-channel').filter({ hasText: 'Fuel level is not linked' })
 	).toBeVisible();
 	await expectNoSidewaysScroll(page);
+	// The profile's device alerts replayed over the same capture (the shared replay panel).
+	const deviceReplay = page.getByRole('region', { name: 'Device alerts on this capture' });
+	await expect(
+		deviceReplay.getByText(
+			new RegExp(`^\\d+ alert events? from ${dashProfile.alertRules.length} rules?\\.`)
+		)
+	).toBeVisible();
 
 	// ---- The receive set of r2, validated with the library's schema. ----
 	await page.goto(profileUrl);

@@ -165,3 +165,46 @@ test('without a saved choice the theme follows the system preference', async ({ 
 	await expect(page.locator('html')).not.toHaveClass(/\bdark\b/);
 	await context.close();
 });
+
+test('the header is one row at 1280 px with all seven sections, and a menu on a 390 px phone', async ({
+	page
+}) => {
+	// The demo owner sees every section, the audit log included; the demo workspace and the
+	// owner's display name are longer than a test workspace's.
+	await page.setViewportSize({ width: 1280, height: 800 });
+	await signIn(page, 'owner@framewright.test');
+	await page.goto('/w/quillmoor-club-racing/maps');
+	const header = page.getByRole('banner');
+	const nav = header.getByRole('navigation', { name: 'Workspace' });
+	await expect(nav.getByRole('link')).toHaveCount(7);
+	const home = (await header.getByRole('link', { name: 'Framewright home' }).boundingBox())!;
+	const middle = (box: { y: number; height: number }) => box.y + box.height / 2;
+	const inBar = [
+		header.getByRole('button', { name: /workspace:/i }),
+		...(await nav.getByRole('link').all()),
+		header.getByRole('button', { name: /account menu/i })
+	];
+	for (const item of inBar) {
+		const box = (await item.boundingBox())!;
+		expect(
+			Math.abs(middle(box) - middle(home)),
+			`${await item.textContent()} is on another row`
+		).toBeLessThan(8);
+		expect(box.x + box.width).toBeLessThanOrEqual(1280);
+	}
+
+	// A phone: one row with the wordmark and a menu that holds the sections.
+	await page.setViewportSize({ width: 390, height: 844 });
+	await expect(nav).toBeHidden();
+	const menu = header.getByRole('button', { name: 'Menu' });
+	await expect(menu).toBeVisible();
+	const phoneHome = (await header.getByRole('link', { name: 'Framewright home' }).boundingBox())!;
+	expect(Math.abs(middle((await menu.boundingBox())!) - middle(phoneHome))).toBeLessThan(8);
+	await menu.click();
+	await expect(header.getByRole('link', { name: 'Audit log' })).toBeVisible();
+	expect(
+		await page.evaluate(
+			() => document.documentElement.scrollWidth - document.documentElement.clientWidth
+		)
+	).toBe(0);
+});

@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { alertReplaySchema as libraryAlertReplaySchema } from '../can/alerts/replay';
 import { dm1LampsSchema } from '../can/j1939';
 import { canIdSchema, MAX_EXTENDED_ID } from '../can/map';
-import { decodeRecordSchema } from './captures';
+import { captureBitrateSchema, decodeRecordSchema } from './captures';
 import type { ValuePrecision } from '../value-format';
 import { named } from './shapes';
 
@@ -43,7 +43,15 @@ export const decodeInputSchema = z.strictObject({
 	mapId: recordId('map'),
 	revision: z.union([z.number().int().min(1), z.literal('draft')], {
 		error: 'revision must be a revision number (1, 2, …) or "draft"'
-	})
+	}),
+	/** Decode one bus of a capture of several (its index in the report's `buses`); absent or null: every bus. */
+	bus: z
+		.number({ error: 'bus must be a bus number (0, 1, …) or null for every bus' })
+		.int('bus must be a bus number (0, 1, …) or null for every bus')
+		.min(0, 'bus must be a bus number (0, 1, …) or null for every bus')
+		.max(255, 'a capture has at most 256 buses (0–255)')
+		.nullable()
+		.optional()
 });
 export type DecodeInput = z.infer<typeof decodeInputSchema>;
 /** What to decode with: a revision number, or the map's working draft. */
@@ -154,6 +162,8 @@ export const channelSummarySchema = z.object({
 export type ChannelSummary = z.infer<typeof channelSummarySchema>;
 
 export const idSummarySchema = z.object({
+	/** The bus it was seen on: index into the capture report's `buses` (0 without a bus column). */
+	bus: z.number().int().min(0).default(0),
 	id: z.number().int(),
 	extended: z.boolean(),
 	/** The map frame's name, null for an ID the map does not define. */
@@ -170,6 +180,8 @@ export const idSummarySchema = z.object({
 export type IdSummary = z.infer<typeof idSummarySchema>;
 
 export const unknownIdSummarySchema = z.object({
+	/** The bus it was seen on: index into the capture report's `buses` (0 without a bus column). */
+	bus: z.number().int().min(0).default(0),
 	id: z.number().int(),
 	extended: z.boolean(),
 	count: z.number().int(),
@@ -242,7 +254,11 @@ export const frameRowSchema = z.object({
 	extended: z.boolean(),
 	length: z.number().int(),
 	/** Payload as spaced upper-case hex bytes. */
-	dataHex: z.string()
+	dataHex: z.string(),
+	/** Index into the capture report's `buses` (0 without a bus column). */
+	bus: z.number().int().min(0).default(0),
+	/** Received by the logger, or sent by it (a direction column's `Tx`). */
+	direction: z.enum(['rx', 'tx']).default('rx')
 });
 export type FrameRow = z.infer<typeof frameRowSchema>;
 
@@ -310,3 +326,22 @@ export const alertReplaySchema = named(
 	'AlertReplay',
 	'Alert rules of the decode’s map replayed over its channels: the rules, their events and a summary per rule.'
 );
+
+/** GET …/bus-load: one load-over-time per bus, at the capture's own bit rates (docs/capture-csv.md). */
+export const captureBusLoadResponseSchema = z.object({
+	bitrate: captureBitrateSchema,
+	windowSeconds: z.number(),
+	buses: z.array(
+		z.object({
+			bus: z.number().int(),
+			/** The bus as the file named it ('' for the one bus of a capture without a bus column). */
+			name: z.string(),
+			frames: z.number().int(),
+			fdFrames: z.number().int(),
+			meanPercent: z.number(),
+			peakPercent: z.number(),
+			windows: z.array(z.object({ start: z.number(), percent: z.number() }))
+		})
+	)
+});
+export type CaptureBusLoadResponse = z.infer<typeof captureBusLoadResponseSchema>;

@@ -4,6 +4,7 @@
  * by hand fails loudly, not silently. The views of a decode are in `capture-views.ts`.
  */
 import { z } from 'zod';
+import { captureOriginSchema } from '../can/capture/clock';
 import { captureLayoutSchema } from '../can/capture/layout';
 import { personRefSchema, timestampSchema } from './shapes';
 
@@ -28,7 +29,13 @@ export const captureReportSchema = z.object({
 	badRows: z.array(z.object({ line: z.number().int().min(1), reason: z.string() })),
 	badRowCount: z.number().int().min(0),
 	warnings: z.array(z.string()),
-	layoutNotes: z.array(z.string())
+	layoutNotes: z.array(z.string()),
+	/** The capture's bus names in bus order (none: one unnamed bus). Absent on older reports. */
+	buses: z.array(z.string()).default([]),
+	/** Whether the file had a direction column (the frames table then shows it). */
+	hasDirection: z.boolean().default(false),
+	/** How the file wrote time, with its first frame's absolute time (docs/capture-csv.md, "Wall-clock times"). */
+	origin: captureOriginSchema.default({ kind: 'relative', seconds: 0 })
 });
 export type CaptureReport = z.infer<typeof captureReportSchema>;
 
@@ -49,6 +56,54 @@ export const uploadQuerySchema = z.object({
 		)
 });
 
+// ---- the capture's own bit rate (docs/capture-csv.md, "Bit rate") ----
+
+const BITRATE_HINT = 'A whole number of bit/s from 1000 to 8000000, e.g. 500000.';
+const DATA_BITRATE_HINT =
+	'The CAN FD data-phase bit rate: a whole number of bit/s from 1000 to 16000000, e.g. 2000000 — or leave it empty.';
+
+/** The capture bit rate form: the nominal rate, and the data-phase rate of CAN FD captures (optional). */
+export const captureBitrateInputSchema = z
+	.strictObject({
+		bitrate: z
+			.number({ error: BITRATE_HINT })
+			.int(BITRATE_HINT)
+			.min(1000, BITRATE_HINT)
+			.max(8_000_000, BITRATE_HINT),
+		dataBitrate: z
+			.number({ error: DATA_BITRATE_HINT })
+			.int(DATA_BITRATE_HINT)
+			.min(1000, DATA_BITRATE_HINT)
+			.max(16_000_000, DATA_BITRATE_HINT)
+			.nullable()
+			.default(null)
+	})
+	.refine((b) => b.dataBitrate === null || b.dataBitrate >= b.bitrate, {
+		path: ['dataBitrate'],
+		message:
+			'The data-phase bit rate must be at least the nominal bit rate (the switch makes the data phase faster, never slower).'
+	});
+export type CaptureBitrateInput = z.output<typeof captureBitrateInputSchema>;
+
+/** Where a capture's bit rate comes from: set by a person, guessed from a map, or the workspace's usual one. */
+export const captureBitrateSchema = z.object({
+	bitrate: z.number().int(),
+	dataBitrate: z.number().int().nullable(),
+	source: z.discriminatedUnion('kind', [
+		z.object({ kind: z.literal('set') }),
+		z.object({ kind: z.literal('map'), mapName: z.string() }),
+		z.object({ kind: z.literal('workspace') })
+	])
+});
+export type CaptureBitrate = z.infer<typeof captureBitrateSchema>;
+
+/** How a capture's bit rate is described next to every figure that uses it. */
+export function bitrateSourceText(b: CaptureBitrate): string {
+	if (b.source.kind === 'set') return 'set for this capture';
+	if (b.source.kind === 'map') return `guessed from map ${b.source.mapName}`;
+	return 'guessed from the workspace’s maps (not decoded yet)';
+}
+
 // ---- answers ----
 
 export const captureStatusSchema = z.enum(['uploaded', 'processing', 'ready', 'failed']);
@@ -64,7 +119,9 @@ export const decodeRecordSchema = z.object({
 	revision: z.number().int().nullable(),
 	draftVersion: z.number().int().nullable(),
 	decodedAt: timestampSchema,
-	decodedBy: personRefSchema.nullable()
+	decodedBy: personRefSchema.nullable(),
+	/** The one bus decoded (index into the report's `buses`); null: every bus. */
+	bus: z.number().int().nullable().default(null)
 });
 export type DecodeRecord = z.infer<typeof decodeRecordSchema>;
 
@@ -96,7 +153,9 @@ export const captureDetailSchema = z.object({
 	detected: detectedLayoutSchema.nullable(),
 	layout: captureLayoutSchema.nullable(),
 	report: captureReportSchema.nullable(),
-	decodes: z.array(decodeRecordSchema)
+	decodes: z.array(decodeRecordSchema),
+	/** The bit rate bus load and timing use (absent from answers made before it existed). */
+	bitrate: captureBitrateSchema.optional()
 });
 export type CaptureDetail = z.infer<typeof captureDetailSchema>;
 

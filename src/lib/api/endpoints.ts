@@ -7,6 +7,7 @@ import type { z } from 'zod';
 import { alertReplayInputSchema } from '../can/alerts/replay';
 import {
 	alertReplaySchema,
+	captureBusLoadResponseSchema,
 	decodeInputSchema,
 	decodeResponseSchema,
 	defineFrameInputSchema,
@@ -563,6 +564,18 @@ export const endpoints = {
 			response: alertReplaySchema
 		},
 		{ 400: INVALID, 404: noCapture, 409: notReady, 410: mapGone }
+	),
+	'captures.busLoad': endpoint(
+		{
+			method: 'GET',
+			path: `${CAPTURE}/bus-load`,
+			summary:
+				'Bus load over time, one series per bus, at the capture’s own bit rate (not a map’s).',
+			access: 'viewer',
+			status: 200,
+			response: captureBusLoadResponseSchema
+		},
+		{ 404: noCapture, 409: notReady }
 	),
 	'captures.frames': endpoint(
 		{

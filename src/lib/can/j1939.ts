@@ -90,8 +90,8 @@ export const j1939IdPartsSchema = z
 					code: 'custom',
 					path: ['pgn'],
 					message:
-						`PDU1 PGN 0x${parts.pgn.toString(16).toUpperCase()} must have a zero low byte; ` +
-						'pass the destination in destinationAddress'
+						`PDU1 PGN 0x${parts.pgn.toString(16).toUpperCase()} (PF < 240) must have a zero low byte: ` +
+						'its PS byte is the destination address, given separately'
 				});
 			}
 		} else if (parts.destinationAddress != null) {

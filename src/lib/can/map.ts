@@ -69,7 +69,14 @@ export const signalSchema = z.strictObject({
 		.default({}),
 	multiplexer: z.boolean().default(false),
 	muxValue: z.number().int().min(0).nullable().default(null),
-	spn: z.number().int().min(0).max(0x7ffff).nullable().default(null),
+	// SAE J1939-71: a suspect parameter number is 19 bits (from memory); DM1 carries it in 19 bits too.
+	spn: z
+		.number()
+		.int('an SPN is a whole number 0…524287 (19 bits)')
+		.min(0, 'an SPN is a whole number 0…524287 (19 bits)')
+		.max(0x7ffff, 'an SPN is a whole number 0…524287 (19 bits)')
+		.nullable()
+		.default(null),
 	comment: z.string().max(2000).default('')
 });
 export type Signal = z.output<typeof signalSchema>;

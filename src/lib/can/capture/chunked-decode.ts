@@ -23,7 +23,8 @@ import { PyramidBuilder, type Pyramid } from './pyramid';
 /** Where the segments and chunks of one stored capture come from (storage, a test's memory…). */
 export interface ChunkSource {
 	index: ChunkIndex;
-	segment(s: number): Promise<Segment>;
+	/** Segment s (only its frames in capture order are read; busChunkSource filters them). */
+	segment(s: number): Promise<Pick<Segment, 'columns'>>;
 	/** Chunk c of the index's chunk table (a ranged read of its segment). */
 	chunk(c: number): Promise<Chunk>;
 }

@@ -8,6 +8,8 @@ import type { FrameColumns } from './frame-columns';
 import { FLAG_EXTENDED } from './frame-store';
 
 export interface IdStatistics {
+	/** The bus it was seen on (index into the capture's bus names; 0 without a bus column). */
+	bus: number;
 	id: number;
 	extended: boolean;
 	count: number;
@@ -28,6 +30,7 @@ export interface IdStatistics {
 }
 
 export interface UnknownId {
+	bus: number;
 	id: number;
 	extended: boolean;
 	count: number;
@@ -37,13 +40,14 @@ export interface UnknownId {
 }
 
 export interface IdSurvey {
-	/** Every ID seen, sorted by (extended, id). */
+	/** Every (bus, ID) seen, sorted by (bus, extended, id): one ID on two buses is two entries. */
 	ids: IdStatistics[];
 	/** IDs the map does not define, same order. */
 	unknownIds: UnknownId[];
 }
 
 interface Tally {
+	bus: number;
 	id: number;
 	extended: boolean;
 	count: number;
@@ -63,20 +67,28 @@ export function surveyIds(store: FrameColumns, compiled: CompiledMap): IdSurvey 
 	return survey.finish();
 }
 
-/** The survey fed a capture piece by piece in capture order (segments of the chunked store). */
+/**
+ * The survey fed a capture piece by piece in capture order (segments of the chunked store). Columns
+ * with a bus column (a segment's) are counted per bus: rates and gaps of one ID on two buses are
+ * two series, never merged.
+ */
 export function createIdSurvey(compiled: CompiledMap): {
-	add(columns: FrameColumns): void;
+	add(columns: FrameColumns & { readonly bus?: Uint8Array }): void;
 	finish(): IdSurvey;
 } {
 	const tallies = new Map<number, Tally>();
-	const add = (store: FrameColumns) => {
+	const add = (store: FrameColumns & { readonly bus?: Uint8Array }) => {
 		const { time, id, flags, length, dataOffset, data } = store;
+		const buses = store.bus;
 		for (let i = 0; i < store.count; i++) {
 			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
-			const key = extended ? id[i] + 0x20000000 : id[i];
+			const bus = buses ? buses[i] : 0;
+			// IDs are below 2^29: (bus, extended, id) as one exact number.
+			const key = bus * 0x40000000 + (extended ? id[i] + 0x20000000 : id[i]);
 			let t = tallies.get(key);
 			if (t === undefined) {
 				t = {
+					bus,
 					id: id[i],
 					extended,
 					count: 0,
@@ -128,13 +140,14 @@ export function createIdSurvey(compiled: CompiledMap): {
 	};
 	const finish = (): IdSurvey => {
 		const sorted = [...tallies.values()].sort(
-			(a, b) => Number(a.extended) - Number(b.extended) || a.id - b.id
+			(a, b) => a.bus - b.bus || Number(a.extended) - Number(b.extended) || a.id - b.id
 		);
 		const ids = sorted.map((t): IdStatistics => {
 			const frame = t.unknown ? undefined : compiled.lookup(t.id, t.extended);
 			const gaps = t.count - 1;
 			const span = t.lastTime - t.firstTime;
 			return {
+				bus: t.bus,
 				id: t.id,
 				extended: t.extended,
 				count: t.count,
@@ -153,6 +166,7 @@ export function createIdSurvey(compiled: CompiledMap): {
 		const unknownIds = sorted
 			.filter((t) => t.unknown !== null)
 			.map((t) => ({
+				bus: t.bus,
 				id: t.id,
 				extended: t.extended,
 				count: t.count,

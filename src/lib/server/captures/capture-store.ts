@@ -14,6 +14,7 @@
  */
 import { LRUCache } from 'lru-cache';
 import { ChunkIndex, Segment, type Chunk } from '../../can/capture/chunk-store';
+import { busChunkSource } from '../../can/capture/bus-source';
 import { chunkSource, type ChunkSource } from '../../can/capture/chunked-decode';
 import { FrameStore } from '../../can/capture/frame-store';
 import type { BlobStorage } from '../storage/storage';
@@ -71,9 +72,25 @@ export function decodeFolder(
 	indexKey: string,
 	mapId: string,
 	revision: number | null,
-	draftVersion: number | null
+	draftVersion: number | null,
+	bus: number | null = null
 ): string {
-	return `${decodesRootOf(indexKey)}${mapId}.${revision !== null ? `r${revision}` : `d${draftVersion}`}/`;
+	const onBus = bus === null ? '' : `.bus${bus}`;
+	return `${decodesRootOf(indexKey)}${mapId}.${revision !== null ? `r${revision}` : `d${draftVersion}`}${onBus}/`;
+}
+
+/**
+ * The key a one-bus decode's tasks name the store by: the index key and the bus (tasks carry keys,
+ * never frames, so the bus travels with the key; openChunkSource reads it back).
+ */
+export const busKey = (indexKey: string, bus: number | null) =>
+	bus === null ? indexKey : `${indexKey}#bus=${bus}`;
+
+export function splitBusKey(key: string): { indexKey: string; bus: number | null } {
+	const at = key.lastIndexOf('#bus=');
+	return at < 0
+		? { indexKey: key, bus: null }
+		: { indexKey: key.slice(0, at), bus: Number(key.slice(at + 5)) };
 }
 
 /** The capture folder of a store's index key (…/<capture>/store/index.fwci → …/<capture>/). */
@@ -140,9 +157,11 @@ export async function loadChunkIndex(storage: BlobStorage, indexKey: string): Pr
  */
 export async function openChunkSource(
 	storage: BlobStorage,
-	indexKey: string,
+	busIndexKey: string,
 	options: { cache?: boolean } = {}
 ): Promise<ChunkSource> {
+	const { indexKey, bus } = splitBusKey(busIndexKey);
+	if (bus !== null) return busChunkSource(await openChunkSource(storage, indexKey, options), bus);
 	const index = await loadChunkIndex(storage, indexKey);
 	const folder = storeFolderOf(indexKey);
 	const id = storeId(storage);
@@ -153,7 +172,11 @@ export async function openChunkSource(
 	if (options.cache === false) return raw;
 	return {
 		index,
-		segment: (s) => segments.get(`${id}|${folder}${s}`, () => raw.segment(s)),
+		segment: (s) =>
+			segments.get(
+				`${id}|${folder}${s}`,
+				async () => new Segment(await storage.getBytes(segmentKey(folder, s)), index.keyId)
+			),
 		chunk: (c) => chunks.get(`${id}|${folder}c${c}`, () => raw.chunk(c))
 	};
 }

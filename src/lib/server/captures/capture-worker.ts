@@ -10,6 +10,7 @@ import { storageFromSettings } from '../storage/settings';
 import type { BlobStorage, StorageSettings } from '../storage/storage';
 import { runAlerts, runSamples } from './work/alerts';
 import { runReceiver } from './work/receivers';
+import { runBusLoad } from './work/bus-load';
 import { runDecode } from './work/decode';
 import { runExport } from './work/export';
 import { runConvert, runProcess } from './work/process';
@@ -50,5 +51,7 @@ export default async function run(task: CaptureTask): Promise<unknown> {
 			return runReceiver(storage, task);
 		case 'export':
 			return runExport(storage, { ...task, port: task.port as unknown as MessagePort });
+		case 'bus-load':
+			return runBusLoad(storage, task);
 	}
 }

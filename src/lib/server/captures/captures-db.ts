@@ -17,6 +17,7 @@ import type { DB } from '../db/connection';
 import type { CaptureRow, CaptureUpdate } from '../db/schema';
 import { personRef } from '../people';
 import { Problem } from '../problem';
+import { captureBitrate } from './bitrate';
 
 function summaryQuery(db: DB) {
 	return db
@@ -47,7 +48,8 @@ function toDecodeRecord(row: DecodeJoined): DecodeRecord {
 		revision: row.revision,
 		draftVersion: row.draft_version,
 		decodedAt: row.decoded_at,
-		decodedBy: personRef(row.decoderEmail, row.decoderName)
+		decodedBy: personRef(row.decoderEmail, row.decoderName),
+		bus: row.bus
 	};
 }
 
@@ -203,6 +205,8 @@ export interface NewDecode {
 	revision: number | null;
 	draftVersion: number | null;
 	actorId: string | null;
+	/** One bus of several, or null for every bus. */
+	bus?: number | null;
 }
 
 export async function insertDecode(db: DB, input: NewDecode): Promise<DecodeRecord> {
@@ -217,7 +221,8 @@ export async function insertDecode(db: DB, input: NewDecode): Promise<DecodeReco
 			revision: input.revision,
 			draft_version: input.draftVersion,
 			decoded_by: input.actorId,
-			decoded_at: new Date().toISOString()
+			decoded_at: new Date().toISOString(),
+			bus: input.bus ?? null
 		})
 		.execute();
 	return (await findDecode(db, input.captureId, id))!;
@@ -234,7 +239,8 @@ export async function captureDetail(
 		detected: readStored(detectedLayoutSchema, row.detected_json, 'detected layout'),
 		layout: readStored(captureLayoutSchema, row.layout_json, 'capture layout'),
 		report: readStored(captureReportSchema, row.report_json, 'import report'),
-		decodes: await listDecodes(db, captureId)
+		decodes: await listDecodes(db, captureId),
+		bitrate: await captureBitrate(db, row)
 	};
 }
 

@@ -19,7 +19,8 @@ const finiteOrNull = (n: number | null): number | null =>
 const hexOf = (bytes: Uint8Array) =>
 	Array.from(bytes, (b) => b.toString(16).toUpperCase().padStart(2, '0')).join(' ');
 
-const idKey = (id: number, extended: boolean) => (extended ? `x${id}` : `s${id}`);
+const idKey = (bus: number, id: number, extended: boolean) =>
+	`${bus}:${extended ? `x${id}` : `s${id}`}`;
 
 function summarizeJ1939(scan: NonNullable<CaptureDecoding['j1939']>): J1939Summary {
 	// One row per distinct (source, SPN, FMI), updated by every later DM1 that repeats it.
@@ -60,7 +61,7 @@ function summarizeJ1939(scan: NonNullable<CaptureDecoding['j1939']>): J1939Summa
 }
 
 export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
-	const rates = new Map(result.ids.map((s) => [idKey(s.id, s.extended), s.rateHz]));
+	const rates = new Map(result.ids.map((s) => [idKey(s.bus, s.id, s.extended), s.rateHz]));
 	return {
 		frameCount: result.frameCount,
 		durationS: result.duration,
@@ -83,6 +84,7 @@ export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
 			...(c.info.precision ? { precision: c.info.precision } : {})
 		})),
 		ids: result.ids.map((s) => ({
+			bus: s.bus,
 			id: s.id,
 			extended: s.extended,
 			name: s.frameName,
@@ -95,10 +97,11 @@ export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
 			maxLength: s.maxLength
 		})),
 		unknownIds: result.unknownIds.map((u) => ({
+			bus: u.bus,
 			id: u.id,
 			extended: u.extended,
 			count: u.count,
-			rateHz: rates.get(idKey(u.id, u.extended)) ?? null,
+			rateHz: rates.get(idKey(u.bus, u.id, u.extended)) ?? null,
 			maxLength: u.maxLength,
 			bitChanges: Array.from(u.bitChanges)
 		})),

@@ -18,12 +18,14 @@ import { Problem } from '../problem';
 import type { Services } from '../services';
 import { StorageNotFoundError } from '../storage/storage';
 import {
+	busKey,
 	byteCache,
 	captureKeys,
 	decodeFolder,
 	forgetCaptureStore,
 	isLegacyStoreKey
 } from './capture-store';
+import { guessBitrateFromMap } from './bitrate';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
 import { runCaptureTask } from './pool';
 import { summaryKey } from './work/decode';
@@ -130,6 +132,25 @@ export function forgetCaptureDecodes(captureId: string): void {
 	forgetCaptureStore(captureId);
 }
 
+/** A bus to decode alone: one of the capture's buses (a capture of one bus has nothing to choose). */
+function checkedBus(capture: CaptureRow, bus: number | null): number | null {
+	if (bus === null) return null;
+	const buses = capture.report_json
+		? ((JSON.parse(capture.report_json) as { buses?: string[] }).buses ?? [])
+		: [];
+	if (buses.length < 2)
+		throw new Problem(
+			400,
+			'This capture was recorded on one bus; decode it without choosing a bus.'
+		);
+	if (bus >= buses.length)
+		throw new Problem(
+			400,
+			`This capture has ${buses.length} buses (0–${buses.length - 1}: ${buses.join(', ')}); there is no bus ${bus}.`
+		);
+	return bus;
+}
+
 /** Decodes a capture with a map revision or the current draft, records it, and returns the summary. */
 export async function decodeWith(
 	services: Services,
@@ -145,8 +166,10 @@ export async function decodeWith(
 	const draftVersion = input.revision === 'draft' ? mapRecord.version : null;
 	const map =
 		revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
-	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(indexKey, mapRecord.id, revision, draftVersion);
+	const bus = checkedBus(capture, input.bus ?? null);
+	const storeKey = await captureIndexKey(services, capture);
+	const indexKey = busKey(storeKey, bus);
+	const folder = decodeFolder(storeKey, mapRecord.id, revision, draftVersion, bus);
 	const stored = await storedDecode(services, indexKey, folder, map);
 	const decode = await db.transaction().execute(async (trx) => {
 		const record = await insertDecode(trx, {
@@ -155,14 +178,23 @@ export async function decodeWith(
 			mapName: mapRecord.name,
 			revision,
 			draftVersion,
-			actorId
+			actorId,
+			bus
 		});
+		// The capture's bit rate, when nothing set it yet, is its first decode's map's.
+		await guessBitrateFromMap(trx, capture.id, { name: mapRecord.name, bitrate: map.bitrate });
 		await appendAudit(trx, {
 			workspaceId,
 			actorId,
 			action: 'capture.decode',
 			target: capture.id,
-			details: { decode: record.id, map: mapRecord.id, revision: revision ?? 'draft', draftVersion }
+			details: {
+				decode: record.id,
+				map: mapRecord.id,
+				revision: revision ?? 'draft',
+				draftVersion,
+				...(bus === null ? {} : { bus })
+			}
 		});
 		return record;
 	});
@@ -217,8 +249,9 @@ export async function openDecode(
 		}
 		map = current.draft;
 	}
-	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(indexKey, mapId, decode.revision, decode.draftVersion);
+	const storeKey = await captureIndexKey(services, capture);
+	const indexKey = busKey(storeKey, decode.bus);
+	const folder = decodeFolder(storeKey, mapId, decode.revision, decode.draftVersion, decode.bus);
 	return {
 		decode,
 		capture,

@@ -6,6 +6,7 @@
  */
 import type { z } from 'zod';
 import type { exportQuerySchema } from '../../api/capture-views';
+import { captureReportSchema } from '../../api/captures';
 import { captureExportFileName } from '../../can/capture/export';
 import { Problem } from '../problem';
 import type { Services } from '../services';
@@ -43,6 +44,9 @@ export async function exportCapture(
 	q: z.output<typeof exportQuerySchema>
 ): Promise<Response> {
 	const capture = await requireReadyCapture(services, workspaceId, captureId);
+	const origin = capture.report_json
+		? captureReportSchema.parse(JSON.parse(capture.report_json)).origin
+		: undefined;
 	const headers = new Headers({
 		'content-type': 'text/csv; charset=utf-8',
 		'cache-control': 'no-store'
@@ -83,7 +87,7 @@ export async function exportCapture(
 	try {
 		body = await streamFromWorker((port) =>
 			runCaptureTask(
-				{ ...task, storage: services.storage.settings, port: port as never },
+				{ ...task, origin, storage: services.storage.settings, port: port as never },
 				{ transferList: [port] }
 			)
 		);

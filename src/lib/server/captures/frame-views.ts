@@ -6,7 +6,7 @@
  */
 import type { ChunkSource } from '../../can/capture/chunked-decode';
 import type { FrameColumns } from '../../can/capture/frame-columns';
-import { FLAG_EXTENDED } from '../../can/capture/frame-store';
+import { FLAG_EXTENDED, FRAME_DIRECTION } from '../../can/capture/frame-store';
 import { decodeFrame } from '../../can/codec';
 import type { CompiledMap } from '../../can/decoder';
 import type {
@@ -18,12 +18,16 @@ import type {
 } from '../../api/capture-views';
 import { Problem } from '../problem';
 import type { Services } from '../services';
-import { openChunkSource } from './capture-store';
+import { openChunkSource, splitBusKey } from './capture-store';
 import { captureIndexKey, compiledOf, openDecode, requireReadyCapture } from './decoding';
 
 const HEX = Array.from({ length: 256 }, (_, b) => b.toString(16).toUpperCase().padStart(2, '0'));
 
-function frameRow(c: FrameColumns, i: number, index: number): FrameRow {
+function frameRow(
+	c: FrameColumns & { readonly bus?: Uint8Array; readonly direction?: Uint8Array },
+	i: number,
+	index: number
+): FrameRow {
 	let dataHex = '';
 	for (let k = 0, at = c.dataOffset[i]; k < c.length[i]; k++)
 		dataHex += (k ? ' ' : '') + HEX[c.data[at + k]];
@@ -33,7 +37,9 @@ function frameRow(c: FrameColumns, i: number, index: number): FrameRow {
 		id: c.id[i],
 		extended: (c.flags[i] & FLAG_EXTENDED) !== 0,
 		length: c.length[i],
-		dataHex
+		dataHex,
+		bus: c.bus ? c.bus[i] : 0,
+		direction: c.direction && c.direction[i] === FRAME_DIRECTION.tx ? 'tx' : 'rx'
 	};
 }
 
@@ -159,6 +165,7 @@ export async function decodedFrame(
 	query: { index: number; decode: string }
 ): Promise<FrameDetail> {
 	const open = await openDecode(services, workspaceId, captureId, query.decode);
-	const source = await openChunkSource(services.storage, open.indexKey);
+	// Frame numbers count every bus's frames, whichever bus the decode read.
+	const source = await openChunkSource(services.storage, splitBusKey(open.indexKey).indexKey);
 	return frameDetail(source, await compiledOf(open), query.index);
 }

@@ -166,6 +166,12 @@ export interface CaptureTable {
 	progress: Generated<number>;
 	error: string | null;
 	processed_at: string | null;
+	/** The capture's own bit rate (bit/s) for bus load and timing; null until guessed or set. */
+	bitrate: number | null;
+	/** Data-phase bit rate of CAN FD frames (bit/s); null: FD frames at the nominal rate. */
+	data_bitrate: number | null;
+	/** Name of the map the bit rate was guessed from; null once a person set it. */
+	bitrate_guess: string | null;
 }
 
 export interface CaptureDecodeTable {
@@ -179,6 +185,8 @@ export interface CaptureDecodeTable {
 	draft_version: number | null;
 	decoded_by: string | null;
 	decoded_at: string;
+	/** The one bus decoded (index into the capture's bus names); null: every bus. */
+	bus: number | null;
 }
 
 export interface AccessTokenTable {

@@ -15,6 +15,10 @@ import * as restoreRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/
 import * as shareLinksRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/+server';
 import * as shareLinkRoute from '../../../routes/api/workspaces/[ws]/maps/[mapId]/share-links/[id]/+server';
 import * as exportRoute from '../../../routes/w/[ws]/maps/[mapId]/export/+server';
+import {
+	editJ1939Field,
+	setJ1939
+} from '../../../routes/w/[ws]/maps/[mapId]/frames/[frameIndex]/j1939-fields';
 import { createWorkspace } from '../workspaces/workspaces';
 import type { SessionUser } from '../guard';
 import type { Role } from '../../roles';
@@ -606,6 +610,46 @@ describe('drafts and revisions', () => {
 			.where('action', '=', 'map.draft.save')
 			.execute();
 		expect(audit).toHaveLength(1);
+	});
+
+	it('saves a frame switched to J1939 in the editor, its composed ID and an SPN; refuses an SPN beyond 19 bits', async () => {
+		const w = await buildWorld();
+		const parsed = parseMap(clubRacerJson);
+		if (!parsed.ok) throw new Error('fixture map does not parse');
+		const draft = parsed.map;
+		// The frame page's edits: extended, J1939 on, then PGN 61444 (EEC1) and SA 0 at priority 3 —
+		// SAE J1939-21 layout gives 0x0CF00400 (from memory; also the check in src/lib/can/j1939.test.ts).
+		let frame = setJ1939({ ...draft.frames[0], extended: true, id: 0x18000000 }, true);
+		for (const [key, text] of [
+			['priority', '3'],
+			['pgn', '61444'],
+			['sourceAddress', '0x00']
+		] as const) {
+			if (!frame.ok) throw new Error(frame.message);
+			frame = editJ1939Field(frame.frame, key, text);
+		}
+		if (!frame.ok) throw new Error(frame.message);
+		const signals = frame.frame.signals.map((s, i) => (i === 0 ? { ...s, spn: 190 } : s));
+		const frames = [{ ...frame.frame, signals }, ...draft.frames.slice(1)];
+		const saved = await saveDraft(w, { ...draft, frames }, 1);
+		expect(saved.status).toBe(200);
+		const view = await getMap(w);
+		expect(view.map.draft.frames[0]).toMatchObject({ id: 0x0cf00400, extended: true, j1939: true });
+		expect(view.map.draft.frames[0].signals[0].spn).toBe(190);
+
+		// 524288 needs 20 bits: refused with the path and the 19-bit range, the draft stays as saved.
+		const tooBig = structuredClone(frames);
+		tooBig[0].signals[0].spn = 0x80000;
+		const refused = await saveDraft(w, { ...draft, frames: tooBig }, 2);
+		expect(refused.status).toBe(400);
+		const body = (await refused.json()) as { issues: { path: string; message: string }[] };
+		expect(body.issues).toEqual([
+			expect.objectContaining({
+				path: 'draft.frames.0.signals.0.spn',
+				message: expect.stringMatching(/0…524287/)
+			})
+		]);
+		expect((await getMap(w)).map.draft.frames[0].signals[0].spn).toBe(190);
 	});
 
 	it('refuses to publish while lint has errors (422 with the problems), then numbers revisions r1, r2', async () => {

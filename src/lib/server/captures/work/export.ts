@@ -13,6 +13,7 @@ import {
 	wideFormCsvChunked,
 	wideRows
 } from '../../../can/capture/chunked-export';
+import { hasClock, withClockColumn } from '../../../can/capture/clock';
 import { compileMap } from '../../../can/decoder';
 import type { BlobStorage } from '../../storage/storage';
 import { openChunkSource } from '../capture-store';
@@ -64,6 +65,10 @@ export async function runExport(
 				send({ type: 'failed', message: error instanceof Error ? error.message : String(error) });
 			return;
 		}
+		// Decoded exports of a capture with a clock: relative seconds stay, its reading is added
+		// (docs/capture-csv.md). The frames export stays the canonical layout, to import again.
+		if (task.exportKind !== 'frames' && task.origin && hasClock(task.origin))
+			chunks = withClockColumn(chunks, task.origin);
 		send({ type: 'ready' });
 		const encoder = new TextEncoder();
 		try {

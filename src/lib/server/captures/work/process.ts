@@ -6,6 +6,7 @@
  */
 import { threadId } from 'node:worker_threads';
 import { ChunkStoreWriter } from '../../../can/capture/chunk-store';
+import { originOf } from '../../../can/capture/clock';
 import { CaptureFormatError } from '../../../can/capture/detect-layout';
 import { FrameStore } from '../../../can/capture/frame-store';
 import { ingestCaptureInto } from '../../../can/capture/ingest';
@@ -79,7 +80,10 @@ export async function runProcess(
 				badRows: report.badRows,
 				badRowCount: report.badRowCount,
 				warnings: report.warnings,
-				layoutNotes: report.layoutNotes
+				layoutNotes: report.layoutNotes,
+				buses: report.buses,
+				hasDirection: report.layout.directionColumn !== null,
+				origin: originOf(report.layout.timeFormat, report.layout.epochTime, report.timeOrigin)
 			},
 			frameCount: report.frameCount,
 			// The latest frame time (times start at 0 with the first frame).

@@ -4,8 +4,13 @@
  * server thread only passes keys, never frames.
  */
 import type { CaptureReport } from '../../../api/captures';
-import type { DecodeSummary, SeriesResponse } from '../../../api/capture-views';
+import type {
+	CaptureBusLoadResponse,
+	DecodeSummary,
+	SeriesResponse
+} from '../../../api/capture-views';
 import type { AlertReplay } from '../../../can/alerts/replay';
+import type { CaptureOrigin } from '../../../can/capture/clock';
 import type { CaptureLayout } from '../../../can/capture/layout';
 import type { ResampleMode } from '../../../can/capture/export';
 import type { CanMap } from '../../../can/map';
@@ -123,9 +128,21 @@ export interface ExportTask extends OnStore {
 	interval: number;
 	mode: ResampleMode;
 	channelTimes: StoredDecode['channels'];
+	/** The capture's clock origin: with one, every export gets a `clock` column. */
+	origin?: CaptureOrigin;
 	/** Carries the stream (export-stream.ts). */
 	port: MessagePort;
 }
+
+/** A capture's bus load per bus at the given bit rates (work/bus-load.ts). */
+export interface BusLoadTask extends OnStore {
+	kind: 'bus-load';
+	indexKey: string;
+	bitrate: number;
+	dataBitrate: number | null;
+}
+
+export type BusLoadOutcome = Omit<CaptureBusLoadResponse, 'bitrate'>;
 
 export type CaptureTask =
 	| ProcessTask
@@ -135,4 +152,5 @@ export type CaptureTask =
 	| SamplesTask
 	| AlertsTask
 	| ReceiverTask
-	| ExportTask;
+	| ExportTask
+	| BusLoadTask;

@@ -60,6 +60,7 @@ export const AUDIT_KINDS: { subject: string; label: string; verbs: Record<string
 			'capture.process': 'Processed',
 			'capture.reprocess': 'Read again',
 			'capture.decode': 'Decoded',
+			'capture.bitrate': 'Bit rate set',
 			'capture.delete': 'Deleted'
 		}
 	}
@@ -135,6 +136,11 @@ export function describeEntry(entry: AuditRecord): string {
 		case 'capture.decode': {
 			const with_ = d.revision === 'draft' ? 'the draft of' : `r${revision} of`;
 			return `${who} decoded the capture ${capture} with ${with_} ${map}`;
+		}
+		case 'capture.bitrate': {
+			const was = d.from === null || d.from === undefined ? 'a guess' : kbits(d.from);
+			const data = typeof d.dataTo === 'number' ? `, data phase ${kbits(d.dataTo)}` : '';
+			return `${who} set the bit rate of the capture ${capture} to ${kbits(d.to)}${data} (was ${was})`;
 		}
 		case 'capture.delete':
 			return `${who} deleted the capture ${capture}`;

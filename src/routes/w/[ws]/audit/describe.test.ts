@@ -46,6 +46,17 @@ describe('describeEntry', () => {
 				})
 			)
 		).toBe('Alex decoded the capture track day 3.csv with the draft of Club racer ECU');
+		expect(
+			describeEntry(
+				entry({
+					action: 'capture.bitrate',
+					captureName: 'two buses.csv',
+					details: { from: null, to: 125000, dataFrom: null, dataTo: 2000000 }
+				})
+			)
+		).toBe(
+			'Alex set the bit rate of the capture two buses.csv to 125 kbit/s, data phase 2000 kbit/s (was a guess)'
+		);
 	});
 
 	it('falls back to what the entry recorded once the thing or person is gone', () => {

@@ -24,10 +24,7 @@ export function timelineSpan(
 	return { left, width: Math.max(right - left, 0.5) };
 }
 
-/** A stable key of an event across replays with other acknowledgements: its rule and start. */
-export function eventKey(event: Pick<ReplayedEvent, 'rule' | 'start'>): string {
-	return `${event.rule}@${event.start}`;
-}
+export { eventKey } from '$lib/components/alert-replay';
 
 /** Reads an acknowledgement time typed by a person: seconds from the capture start, within the event. */
 export function parseAckTime(

@@ -9,22 +9,9 @@ import {
 	type AlertRule
 } from '$lib/can/alerts/rule';
 import type { Frame } from '$lib/can/map';
+import type { RuleEdit, RuleField } from '$lib/components/alert-rule-table';
 
-export type RuleField =
-	| 'name'
-	| 'channel'
-	| 'condition'
-	| 'setpoint'
-	| 'low'
-	| 'high'
-	| 'severity'
-	| 'deadband'
-	| 'onDelayS'
-	| 'offDelayS'
-	| 'latching'
-	| 'message';
-
-export type EditResult = { ok: true; rule: AlertRule } | { ok: false; message: string };
+export type EditResult = RuleEdit<AlertRule>;
 
 /** "Frame / Signal" choices for the channel picker, as `frame\u0000signal` values. */
 export function channelOptions(
@@ -41,11 +28,6 @@ export function channelOptions(
 
 export function channelKey(frame: string, signal: string): string {
 	return `${frame}\u0000${signal}`;
-}
-
-/** The setpoint fields a condition uses. */
-export function setpointFields(condition: AlertCondition): ('setpoint' | 'low' | 'high')[] {
-	return condition === 'outside' ? ['low', 'high'] : ['setpoint'];
 }
 
 function numberFrom(text: string): number | string {

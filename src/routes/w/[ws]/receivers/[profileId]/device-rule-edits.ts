@@ -8,24 +8,11 @@ import {
 	type DeviceAlertRule,
 	type WantedChannel
 } from '$lib/can/receivers/profile';
+import type { RuleEdit, RuleField } from '$lib/components/alert-rule-table';
 
-export type DeviceRuleField =
-	| 'name'
-	| 'channel'
-	| 'condition'
-	| 'setpoint'
-	| 'low'
-	| 'high'
-	| 'severity'
-	| 'deadband'
-	| 'onDelayS'
-	| 'offDelayS'
-	| 'latching'
-	| 'message';
+export type DeviceRuleEdit = RuleEdit<DeviceAlertRule>;
 
-export type DeviceRuleEdit = { ok: true; rule: DeviceAlertRule } | { ok: false; message: string };
-
-const NUMBER_FIELDS: readonly DeviceRuleField[] = [
+const NUMBER_FIELDS: readonly RuleField[] = [
 	'setpoint',
 	'low',
 	'high',
@@ -33,11 +20,6 @@ const NUMBER_FIELDS: readonly DeviceRuleField[] = [
 	'onDelayS',
 	'offDelayS'
 ];
-
-/** The setpoint fields a condition uses. */
-export function setpointFields(condition: AlertCondition): ('setpoint' | 'low' | 'high')[] {
-	return condition === 'outside' ? ['low', 'high'] : ['setpoint'];
-}
 
 /** A single setpoint becomes a band around it and back, so a condition change keeps the figures. */
 function withCondition(rule: DeviceAlertRule, condition: AlertCondition): Record<string, unknown> {
@@ -56,7 +38,7 @@ function withCondition(rule: DeviceAlertRule, condition: AlertCondition): Record
 
 export function editDeviceRule(
 	rule: DeviceAlertRule,
-	field: DeviceRuleField,
+	field: RuleField,
 	text: string
 ): DeviceRuleEdit {
 	let candidate: Record<string, unknown>;

@@ -36,6 +36,25 @@ describe('applyFieldText', () => {
 		});
 	});
 
+	it('takes a J1939 SPN of 0…524287 (19 bits, SAE J1939-71 — from memory) and an empty one as none', () => {
+		for (const [text, spn] of [
+			['0', 0],
+			['190', 190],
+			['524287', 0x7ffff]
+		] as const) {
+			const set = applyFieldText(base, 'spn', text);
+			expect(set.ok && set.signal.spn).toBe(spn);
+		}
+		const cleared = applyFieldText({ ...base, spn: 190 }, 'spn', '');
+		expect(cleared.ok && cleared.signal.spn).toBeNull();
+		for (const text of ['524288', '-1', '1.5']) {
+			expect(applyFieldText(base, 'spn', text)).toEqual({
+				ok: false,
+				message: 'an SPN is a whole number 0…524287 (19 bits)'
+			});
+		}
+	});
+
 	it('refuses text that is not a number, and an empty required number', () => {
 		expect(applyFieldText(base, 'offset', 'minus forty')).toEqual({
 			ok: false,
