@@ -38,6 +38,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Papa from 'papaparse';
+import { papaparseRows } from './papaparse-alone';
 import { decodeChannels } from '../src/lib/can/capture/channels';
 import { FLAG_EXTENDED, FrameStore } from '../src/lib/can/capture/frame-store';
 import { ingestCapture } from '../src/lib/can/capture/ingest';
@@ -243,19 +244,7 @@ async function phaseIngest(path: string, canonicalFastPath: boolean) {
 /** papaparse alone on the same stream: the text work our ingest cannot avoid, rows thrown away. */
 async function phasePapaparse(path: string) {
 	const start = performance.now();
-	const parser = new Papa.Parser({ delimiter: ',', newline: '\n' });
-	const decoder = new TextDecoder('utf-8');
-	let rows = 0;
-	let pending = '';
-	for await (const chunk of fileChunks(path)) {
-		pending += decoder.decode(chunk as Uint8Array, { stream: true });
-		const cut = pending.lastIndexOf('\n');
-		if (cut < 0) continue;
-		rows += parser.parse(pending.slice(0, cut + 1), 0, true).data.length;
-		pending = pending.slice(cut + 1);
-	}
-	pending += decoder.decode();
-	if (pending) rows += parser.parse(pending, 0, false).data.length;
+	const rows = await papaparseRows(fileChunks(path), ',');
 	return { seconds: (performance.now() - start) / 1000, rows, rssMb: peakRssMb() };
 }
 

@@ -529,13 +529,14 @@ export const endpoints = {
 		{
 			method: 'POST',
 			path: `${CAPTURE}/process`,
-			summary: 'Starts parsing with the confirmed layout; poll the status for progress.',
+			summary:
+				'Starts parsing with the confirmed layout (a processed capture is read again, replacing its result once done); poll the status for progress.',
 			access: 'viewer',
 			body: processCaptureInputSchema,
 			status: 202,
 			response: processResponseSchema
 		},
-		{ 400: INVALID, 404: noCapture, 409: 'This capture is processed, or being processed, already.' }
+		{ 400: INVALID, 404: noCapture, 409: 'This capture is being processed already.' }
 	),
 	'captures.decode': endpoint(
 		{

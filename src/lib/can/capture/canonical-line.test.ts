@@ -1,8 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { seededRandom } from '../testing/seeded-random';
-import { readCanonicalLine } from './canonical-line';
+import { linePlan, readPlainLine } from './canonical-line';
+import { CANONICAL_LAYOUT } from './layout';
 import { ingestCapture } from './ingest';
-import { createParsedRow } from './row-parser';
+import { createParsedRow, createRowParserState } from './row-parser';
 
 /** Everything an import produces, in comparable form. */
 async function importBoth(text: string | string[]) {
@@ -85,7 +86,8 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 		const text = 'junk\n1.500000,1a0,0,3,01 02 ff\nmore';
 		const out = createParsedRow();
 		const start = text.indexOf('\n') + 1;
-		expect(readCanonicalLine(text, start, text.lastIndexOf('\n'), out, 'either')).toBe(true);
+		const plan = linePlan(CANONICAL_LAYOUT, createRowParserState())!;
+		expect(readPlainLine(text, start, text.lastIndexOf('\n'), out, plan)).toBe(true);
 		expect([out.time, out.id, out.extended, out.length, ...out.data.subarray(0, 3)]).toEqual([
 			1.5,
 			0x1a0,
@@ -95,5 +97,82 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			2,
 			255
 		]);
+	});
+
+	// Other layouts the in-place reader serves: the same equality with the general route.
+	it.each([
+		[
+			'semicolons, h-suffix IDs, spaced bytes',
+			[
+				'Time;ID;DLC;Data',
+				'0.001000;3BAh;8;11 22 33 44 55 66 77 88',
+				'0.002000;18FEF100h;2;AA BB', // extended by size
+				'0.003000;3bAH;1;0F',
+				'0.004000;0x12h;1;00', // prefix and suffix: bad row
+				'0.005000;100x;1;00', // marker letter: general route
+				'0,006;100h;1;01', // decimal comma: general route
+				'0.007000;h;1;00', // no digits: bad row
+				'0.008000;100h;3;01 02', // DLC mismatch: bad row
+				'0.009000;7FFh;0;'
+			]
+		],
+		[
+			'direction column, columns in another order',
+			[
+				'dir,data,id,time,dlc',
+				'Rx,11 22,100,0.001,2',
+				'tx,,7FF,0.002,0',
+				'TX,01,800,0.003,1', // no flag column: 0x800 is extended
+				'out,01,100,0.004,1', // a word: general route
+				'Qx,01,100,0.005,1', // bad direction: bad row
+				'Rx,01,100', // too few columns: bad row
+				'Rx,01 02 03 04 05 06 07 08 09,100,0.006,9' // 9 bytes: bad row
+			]
+		],
+		[
+			'time of day passing midnight, bus and direction columns',
+			[
+				'time,bus,dir,id,dlc,data',
+				'23:59:59.900000,can0,Rx,100,1,01',
+				'23:59:59.950000,can1,Tx,100,1,02',
+				'00:00:00.010000,can0,Rx,100,1,03', // past midnight
+				'0:00:00.020000,can1,Rx,100,1,04', // one-digit hour
+				'00:00:00.030000, can1,Rx,100,1,05', // blank before the bus: general route
+				'00:00:00.040000,can2,Rx,100,3,05', // new bus, DLC mismatch: bad row
+				'00:00:00.050000,can2,Rx,100,1,06',
+				'25:00:00.000000,can0,Rx,100,1,07', // no such hour: bad row
+				'00:00:00.060000,can0,Rx,100,1,08'
+			]
+		],
+		[
+			'ISO 8601 date-times',
+			[
+				'timestamp,id,dlc,data',
+				'2026-03-01T10:15:00.000001Z,100,1,01',
+				'2026-03-01 10:15:00.5,100,1,02',
+				'2026-03-02T00:00:00+01:00,100,1,03', // offset: general route
+				'2026-02-30T00:00:00Z,100,1,04', // no such day: bad row
+				'2026-03-02T00:00:01.123456789z,100,1,05'
+			]
+		],
+		[
+			'tabs, extended flag',
+			[
+				'time\tid\textended\tdlc\tdata',
+				'0.1\t0x100\t0\t8\t0102030405060708',
+				'0.2\t18DA00F1\t1\t3\t01 02 03',
+				'0.3\t800\t0\t1\t00', // 12-bit ID marked standard
+				'0.4\tZZZ\t0\t1\t00' // not an ID: bad row
+			]
+		]
+	])('on %s', async (_name, lines) => {
+		for (const text of [lines.join('\n') + '\n', lines.join('\r\n')]) {
+			const { fast, general } = await importBoth(text);
+			// The layout is one the in-place reader serves, so the equality says something.
+			expect(linePlan(general.report.layout, createRowParserState())).not.toBeNull();
+			expect(fast).toEqual(general);
+			expect(general.report.frameCount).toBeGreaterThan(1);
+			expect(general.report.badRowCount).toBeGreaterThan(0);
+		}
 	});
 });

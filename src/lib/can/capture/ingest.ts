@@ -3,12 +3,12 @@
  * async iterable — a Node file stream is one), is cut at whole lines and handed to papaparse's
  * parser one chunk at a time, so memory holds one chunk of text plus the compact frames, never the
  * whole file. Bad rows are reported by line number and skipped; good rows always survive.
- * Lines in the strict canonical shape skip papaparse's field strings (canonical-line.ts); every other
+ * Plain lines of the common layouts skip papaparse's field strings (canonical-line.ts); every other
  * line, and every bad row, goes through papaparse and the row parser.
  * Line numbers assume one row per line (CAN captures have no quoted line breaks).
  */
 import Papa from 'papaparse';
-import { fitsCanonicalLine, readCanonicalLine } from './canonical-line';
+import { linePlan, readPlainLine, type LinePlan } from './canonical-line';
 import { CaptureFormatError, detectCaptureLayout, SAMPLE_ROWS } from './detect-layout';
 import { FrameStore, type FrameSink } from './frame-store';
 import { captureLayoutSchema, secondsPerTimeUnit, type CaptureLayout } from './layout';
@@ -63,8 +63,8 @@ export interface IngestOptions {
 	/** A confirmed or corrected layout; guessed from the first rows when absent. */
 	layout?: CaptureLayout;
 	/**
-	 * Read strictly canonical lines in place (default true). false sends every line through papaparse;
-	 * the results are the same either way (tests and the benchmark compare the two routes).
+	 * Read plain lines in place (default true; canonical-line.ts). false sends every line through
+	 * papaparse; the results are the same either way (tests and the benchmark compare the two routes).
 	 */
 	canonicalFastPath?: boolean;
 }
@@ -144,8 +144,7 @@ export async function ingestCaptureInto(
 	let errorFrameCount = 0;
 	const specialRows: IngestReport['specialRows'] = [];
 	let secondsPerUnit = 1;
-	let fastLines = false;
-	let dlcMeaning: CaptureLayout['dlcMeaning'] = 'either';
+	let plan: LinePlan | null = null;
 
 	const out = createParsedRow();
 	const fastOut = createParsedRow();
@@ -170,8 +169,7 @@ export async function ingestCaptureInto(
 		}
 		parser = new Papa.Parser({ delimiter: layout.delimiter, newline });
 		parseRow = createRowParser(layout, parserState);
-		fastLines = (options.canonicalFastPath ?? true) && fitsCanonicalLine(layout);
-		dlcMeaning = layout.dlcMeaning;
+		plan = (options.canonicalFastPath ?? true) ? linePlan(layout, parserState) : null;
 		secondsPerUnit = secondsPerTimeUnit(layout);
 		headerPending = layout.hasHeader;
 	};
@@ -221,12 +219,12 @@ export async function ingestCaptureInto(
 	};
 
 	/**
-	 * Whole lines of text (the last one may lack its newline when `dropLastRow` is false). Strictly
-	 * canonical lines are read in place; runs of other lines go the general route in file order.
+	 * Whole lines of text (the last one may lack its newline when `dropLastRow` is false). Plain lines
+	 * are read in place; runs of other lines go the general route in file order.
 	 * Text with a quote always goes the general route, since a quoted field may span lines.
 	 */
 	const consume = (text: string, dropLastRow: boolean) => {
-		if (!fastLines || text.indexOf('"') >= 0) return consumeParsed(text, dropLastRow);
+		if (plan === null || text.indexOf('"') >= 0) return consumeParsed(text, dropLastRow);
 		const step = newline.length;
 		let at = 0;
 		// The header (the first non-blank row) goes the general route, which skips it.
@@ -240,7 +238,7 @@ export async function ingestCaptureInto(
 		while (at < text.length) {
 			let end = text.indexOf(newline, at);
 			if (end < 0) end = text.length;
-			if (readCanonicalLine(text, at, end, fastOut, dlcMeaning)) {
+			if (readPlainLine(text, at, end, fastOut, plan)) {
 				// Its own row buffer: the earlier lines of the general route are handled first and reuse `out`.
 				if (slowFrom >= 0) consumeParsed(text.slice(slowFrom, at), true);
 				slowFrom = -1;

@@ -5,6 +5,7 @@
  * test (the WHATWG/ECMAScript DataView is the reference reader); times against Date.UTC.
  */
 import { describe, expect, it } from 'vitest';
+import { seededRandom } from '../testing/seeded-random';
 import { detectCaptureLayout } from './detect-layout';
 import { ingestCapture } from './ingest';
 import { CANONICAL_LAYOUT, captureLayoutSchema, unusedColumns } from './layout';
@@ -112,6 +113,29 @@ describe('time notations', () => {
 		expect(t - Date.UTC(2026, 2, 14, 9, 26, 53) / 1000).toBeCloseTo(0.589793, 6);
 		for (const bad of ['2026-02-30T00:00:00Z', '2026-13-01T00:00:00Z', '2026-03-14', 'soon'])
 			expect(parseDateTime(bad), bad).toBeNaN();
+	});
+
+	it('reads clock times exactly like Date.UTC plus the fraction as Number() reads it (fast path)', () => {
+		// References: ECMAScript Date.UTC for the whole seconds and Number() for the decimal fraction,
+		// both correctly rounded, summed in the same order. Seeded random dates and clocks.
+		const rand = seededRandom(0x7e11);
+		for (let k = 0; k < 2000; k++) {
+			const [y, mo, d] = [rand.int(1970, 2099), rand.int(1, 12), rand.int(1, 28)];
+			const [h, mi, se] = [rand.int(0, 23), rand.int(0, 59), rand.int(0, 59)];
+			const digits = rand.int(0, 9);
+			const fraction = Array.from({ length: digits }, () => rand.int(0, 9)).join('');
+			const two = (n: number) => String(n).padStart(2, '0');
+			const clock = `${two(h)}:${two(mi)}:${two(se)}${digits ? `.${fraction}` : ''}`;
+			const part = digits ? Number(`0.${fraction}`) : 0;
+			const text = `${y}-${two(mo)}-${two(d)}${k % 2 ? 'T' : ' '}${clock}${k % 3 ? 'Z' : ''}`;
+			expect(parseDateTime(text), text).toBe(Date.UTC(y, mo - 1, d, h, mi, se) / 1000 + part);
+			expect(parseTimeOfDay(clock), clock).toBe(h * 3600 + mi * 60 + se + part);
+		}
+		// Shapes off the fast path still read (a one-digit hour, an offset, a decimal comma).
+		expect(parseTimeOfDay('7:00:00,5')).toBe(7 * 3600 + 0.5);
+		expect(parseDateTime('2026-03-14T09:26:53.5+01:00')).toBe(
+			Date.UTC(2026, 2, 14, 8, 26, 53) / 1000 + 0.5
+		);
 	});
 
 	it('reads nanoseconds since the start', async () => {
@@ -280,6 +304,12 @@ describe('layout schema and column roles', () => {
 		expect(parseKind('maybe')).toBeUndefined();
 		expect(['Rx', 'tx', 'receive', 'sent', ''].map(parseDirection)).toEqual([0, 1, 0, 1, 0]);
 		expect(parseDirection('sideways')).toBeUndefined();
-		expect(createRowParserState()).toEqual({ buses: [], tags: [], midnightCrossings: 0 });
+		expect(createRowParserState()).toEqual({
+			buses: [],
+			tags: [],
+			midnightCrossings: 0,
+			previousTimeOfDay: -1,
+			dayOffset: 0
+		});
 	});
 });

@@ -3,10 +3,11 @@
  * the capture workers alike. Everything of a capture sits under one folder, so deleting the folder
  * deletes the capture's every object:
  *
- *   captures/<workspace>/<capture>/raw.csv                       the upload
+ *   captures/<workspace>/<capture>/raw.csv                       the upload (raw.csv.gz when gzip, kept compressed)
  *   captures/<workspace>/<capture>/store/index.fwci              the chunk index (the row's store_key)
  *   captures/<workspace>/<capture>/store/segment-000000.fwcg     segments (chunk-store.ts)
  *   captures/<workspace>/<capture>/decodes/<map>.r<n>/…          a decode's statistics and pyramids
+ *   captures/<workspace>/<capture>/store-<n>/, decodes-<n>/      the same after the n-th processing (re-read)
  *   captures/<workspace>/<capture>/frames.fwcs                   the single-blob store of earlier versions
  *
  * Reads go through caches bounded by bytes (lru-cache), one set per thread.
@@ -24,6 +25,8 @@ export function captureKeys(workspaceId: string, captureId: string) {
 	return {
 		folder,
 		raw: `${folder}raw.csv`,
+		/** A gzip-compressed upload, stored as it came (docs/capture-csv.md, "Compressed files"). */
+		rawGz: `${folder}raw.csv.gz`,
 		storeFolder: `${folder}store/`,
 		index: `${folder}store/index.fwci`,
 		decodes: `${folder}decodes/`,
@@ -43,16 +46,37 @@ export const storeFolderOf = (indexKey: string) => indexKey.slice(0, indexKey.la
 export const segmentKey = (storeFolder: string, s: number) =>
 	`${storeFolder}segment-${String(s).padStart(6, '0')}.fwcg`;
 
-/** The decode folder of a capture folder for (map, revision or draft version). */
+/**
+ * Which processing of the capture a store is: 1 for `store/` (and single-blob stores), n for the
+ * `store-<n>/` a re-processing with another layout writes (docs/capture-csv.md, "Reading a file
+ * again"). Every processing writes a folder never used before, so no cache in any thread can
+ * mistake the new store or its decodes for the old ones.
+ */
+export function storeGeneration(indexKey: string): number {
+	const m = /\/store-(\d+)\/[^/]*$/.exec(indexKey);
+	return m ? Number(m[1]) : 1;
+}
+
+/** The store folder of a capture folder's n-th processing. */
+export const storeFolderFor = (captureFolder: string, generation: number) =>
+	generation <= 1 ? `${captureFolder}store/` : `${captureFolder}store-${generation}/`;
+
+/** The folder of the decodes made from the store of a chunk index key. */
+export function decodesRootOf(indexKey: string): string {
+	const g = storeGeneration(indexKey);
+	return `${captureFolderOfIndex(indexKey)}decodes${g > 1 ? `-${g}` : ''}/`;
+}
+
+/** The decode folder for (map, revision or draft version) of the store at `indexKey`. */
 export function decodeFolder(
-	captureFolder: string,
+	indexKey: string,
 	mapId: string,
 	revision: number | null,
 	draftVersion: number | null,
 	bus: number | null = null
 ): string {
 	const onBus = bus === null ? '' : `.bus${bus}`;
-	return `${captureFolder}decodes/${mapId}.${revision !== null ? `r${revision}` : `d${draftVersion}`}${onBus}/`;
+	return `${decodesRootOf(indexKey)}${mapId}.${revision !== null ? `r${revision}` : `d${draftVersion}`}${onBus}/`;
 }
 
 /**

@@ -4,6 +4,7 @@
 // docs/capture-csv.md is rendered from them; the check is that every variant reads back to them.
 import { readdir } from 'node:fs/promises';
 import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
 import { isMainThread, threadId as mainThreadId } from 'node:worker_threads';
 import type { RequestEvent } from '@sveltejs/kit';
 import { describe, expect, it } from 'vitest';
@@ -30,6 +31,7 @@ import { findCaptureRow } from './captures-db';
 import {
 	failInterruptedProcessing,
 	INTERRUPTED_MESSAGE,
+	INTERRUPTED_REREAD_MESSAGE,
 	processInWorker,
 	processingDone
 } from './processing';
@@ -437,7 +439,7 @@ describe('capture upload and processing', () => {
 		expect((await detail(w, capture.id)).body.capture.status).toBe('uploaded');
 	});
 
-	it('reports a confirmed layout that reads no row; a processed capture is never parsed again', async () => {
+	it('reports a confirmed layout that reads no row; the capture can then be read again', async () => {
 		const w = await buildWorld();
 		const { capture } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
 		// Columns that do not exist in the file: every row is bad, the capture is ready with zero frames
@@ -448,9 +450,10 @@ describe('capture upload and processing', () => {
 		expect(body.capture.frameCount).toBe(0);
 		expect(body.report?.badRowCount).toBe(FRAMES.length);
 		expect(body.report?.warnings[0]).toBe('No row could be read as a frame.');
-		// A processed capture is never parsed again.
+		// Read again with the right layout, without uploading again.
 		const again = await process(w, capture.id, CANONICAL_LAYOUT);
-		expect(again.status).toBe(409);
+		expect(again.status).toBe(202);
+		expect((await detail(w, capture.id)).body.capture.frameCount).toBe(FRAMES.length);
 	});
 
 	it('marks a capture failed with a readable error when its file cannot be read, and allows a retry', async () => {
@@ -641,5 +644,185 @@ describe('capture page loads', () => {
 			)
 		);
 		expect(missing).toEqual({ kind: 'error', status: 404, message: 'Capture not found.' });
+	});
+});
+
+describe('compressed uploads and reading a file again', () => {
+	// gzip files made by Node's zlib (RFC 1952); the check is that the frames read back are FRAMES.
+	const gz = (text: string) => new Uint8Array(gzipSync(new TextEncoder().encode(text)));
+
+	it('reads a gzip upload (told by its magic bytes, whatever its name), storing it compressed', async () => {
+		const w = await buildWorld();
+		for (const [name, streamed] of [
+			['session.csv.gz', false],
+			['no-suffix.csv', true]
+		] as const) {
+			const bytes = gz(render(VARIANTS[1]));
+			const response = await upload(w, 'viewer', name, bytes, { streamed });
+			const body = (await response.json()) as { capture: CaptureSummary; detected: DetectedLayout };
+			expect(response.status, JSON.stringify(body)).toBe(201);
+			expect(body.detected.sampleRows[0][0]).toBe('time');
+			expect(body.capture.sizeBytes).toBe(bytes.byteLength);
+			const row = (await findCaptureRow(w.services.db, w.workspaceId, body.capture.id))!;
+			expect(row.raw_key.endsWith('raw.csv.gz')).toBe(true);
+			const stored = await w.services.storage.getBytes(row.raw_key);
+			expect([stored[0], stored[1]]).toEqual([0x1f, 0x8b]); // RFC 1952, 2.3.1: ID1 ID2
+			expect((await process(w, body.capture.id, body.detected.layout)).status).toBe(202);
+			const processed = (await findCaptureRow(w.services.db, w.workspaceId, body.capture.id))!;
+			const store = await loadWholeCapture(w.services.storage, processed.store_key!);
+			expect(store.count).toBe(FRAMES.length);
+			FRAMES.forEach((f, i) => expect([...store.payload(i)]).toEqual(f.data));
+		}
+	});
+
+	it('refuses a decompression bomb with 413 and stores nothing', async () => {
+		const w = await buildWorld({ CAPTURE_MAX_BYTES: '4000' });
+		const text = render(VARIANTS[0]).repeat(2000); // about 300 kB of text
+		const bytes = gz(text);
+		expect(bytes.byteLength).toBeLessThan(4000);
+		expect(text.length).toBeGreaterThan(4000);
+		for (const streamed of [false, true]) {
+			const response = await upload(w, 'viewer', 'bomb.csv.gz', bytes, { streamed });
+			expect(response.status).toBe(413);
+			expect(await response.json()).toEqual({
+				error:
+					'The compressed file decompresses to more than the upload limit of 3.91 KiB; nothing was stored.',
+				maxBytes: 4000
+			});
+		}
+		expect(await storedFiles(w)).toEqual([]);
+		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
+	});
+
+	it('refuses a damaged or cut-short gzip file with a clear message, storing nothing', async () => {
+		const w = await buildWorld();
+		const whole = gz(
+			Array.from(
+				{ length: 3000 },
+				(_, i) => `${(i / 1000).toFixed(6)},${hex(i % 2048, 3)},0,2,${hex(i % 256)} 00`
+			).join('\n')
+		);
+		const cut = whole.slice(0, whole.byteLength >> 1);
+		const damaged = whole.slice();
+		damaged.fill(0xff, 20, 40); // deflate blocks overwritten
+		const truncatedAnswer = await upload(w, 'viewer', 'cut.csv.gz', cut);
+		expect(truncatedAnswer.status).toBe(400);
+		expect((await truncatedAnswer.json()).error).toBe(
+			'The gzip-compressed file ends too early (it was cut short, e.g. by an interrupted download); compress or copy it again. Nothing was stored.'
+		);
+		const damagedAnswer = await upload(w, 'viewer', 'damaged.csv.gz', damaged, { streamed: true });
+		expect(damagedAnswer.status).toBe(400);
+		expect((await damagedAnswer.json()).error).toMatch(
+			/^The gzip-compressed file is damaged \(.+\); compress it again from the original capture\. Nothing was stored\.$/
+		);
+		expect(await storedFiles(w)).toEqual([]);
+		expect(await w.services.db.selectFrom('captures').selectAll().execute()).toEqual([]);
+	});
+
+	it('reads a processed capture again with another layout, replacing its store and decodes once done', async () => {
+		const w = await buildWorld();
+		// Read first with the byte columns in reverse order: every payload reads back reversed.
+		const { capture, detected } = await uploaded(w, 'cols.csv', render(VARIANTS[1]));
+		const reversed = {
+			...detected.layout,
+			byteColumns: [...detected.layout.byteColumns].reverse()
+		};
+		expect((await process(w, capture.id, reversed)).status).toBe(202);
+		const first = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		expect(first.store_key).toMatch(/\/store\/index\.fwci$/);
+		const firstStore = await loadWholeCapture(w.services.storage, first.store_key!);
+		expect([...firstStore.payload(0)]).toEqual([...FRAMES[0].data].reverse());
+		const keys = captureKeys(w.workspaceId, capture.id);
+		// A decode made from the first store (its stored figures).
+		await w.services.storage.put(
+			`${keys.decodes}m.r1/summary.json`,
+			single(new Uint8Array([123, 125]))
+		);
+
+		expect((await process(w, capture.id, detected.layout)).status).toBe(202);
+		const { body } = await detail(w, capture.id);
+		expect(body.capture).toMatchObject({ status: 'ready', error: null, frameCount: FRAMES.length });
+		expect(body.layout).toEqual(detected.layout);
+		const row = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		expect(row.store_key).toBe(`${keys.folder}store-2/index.fwci`);
+		const store = await loadWholeCapture(w.services.storage, row.store_key!);
+		FRAMES.forEach((f, i) => expect([...store.payload(i)]).toEqual(f.data));
+		// The earlier store and its decodes are gone; the upload stays.
+		const left = await w.services.storage.list(keys.folder);
+		expect(
+			left.filter((k) => k.startsWith(keys.storeFolder) || k.startsWith(keys.decodes))
+		).toEqual([]);
+		expect(left).toContain(keys.raw);
+		const audit = await w.services.db
+			.selectFrom('audit_log')
+			.select('action')
+			.where('target', '=', capture.id)
+			.orderBy('id')
+			.execute();
+		expect(audit.map((a) => a.action)).toEqual([
+			'capture.upload',
+			'capture.process',
+			'capture.reprocess'
+		]);
+	});
+
+	it('keeps the earlier result when reading again fails (a layout reading no frame, a lost file)', async () => {
+		const w = await buildWorld();
+		const { capture, detected } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		expect((await process(w, capture.id, detected.layout)).status).toBe(202);
+		const before = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		const filesBefore = await storedFiles(w);
+
+		expect((await process(w, capture.id, { ...detected.layout, dataColumn: 9 })).status).toBe(202);
+		let { body } = await detail(w, capture.id);
+		expect(body.capture).toMatchObject({ status: 'ready', frameCount: FRAMES.length });
+		expect(body.capture.error).toMatch(
+			/^Reading the file again failed, so the earlier result is kept: no row could be read as a frame with this layout \(line 2: .+\)\.$/
+		);
+		expect(body.layout).toEqual(detected.layout);
+		const after = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		expect(after.store_key).toBe(before.store_key);
+		expect(await storedFiles(w)).toEqual(filesBefore); // no half-written second store
+
+		await w.services.storage.delete(before.raw_key);
+		expect((await process(w, capture.id, detected.layout)).status).toBe(202);
+		({ body } = await detail(w, capture.id));
+		expect(body.capture.status).toBe('ready');
+		expect(body.capture.error).toMatch(
+			/^Reading the file again failed, so the earlier result is kept: Processing failed: nothing is stored/
+		);
+		expect((await loadWholeCapture(w.services.storage, before.store_key!)).count).toBe(
+			FRAMES.length
+		);
+	});
+
+	it('answers 409 to reading again a capture being processed; a re-read cut by a restart keeps the earlier result', async () => {
+		const w = await buildWorld();
+		const { capture, detected } = await uploaded(w, 'a.csv', render(VARIANTS[0]));
+		expect((await process(w, capture.id, detected.layout)).status).toBe(202);
+		const before = (await findCaptureRow(w.services.db, w.workspaceId, capture.id))!;
+		await w.services.db
+			.updateTable('captures')
+			.set({ status: 'processing', progress: 0.4 })
+			.where('id', '=', capture.id)
+			.execute();
+		const busy = await process(w, capture.id, detected.layout);
+		expect(busy.status).toBe(409);
+		expect((await busy.json()).error).toBe('This capture is being processed already.');
+		const keys = captureKeys(w.workspaceId, capture.id);
+		await w.services.storage.put(
+			`${keys.folder}store-2/segment-000000.fwcg`,
+			single(new Uint8Array(8))
+		);
+		expect(await failInterruptedProcessing(w.services.db, w.services.storage)).toBe(1);
+		expect((await detail(w, capture.id)).body.capture).toMatchObject({
+			status: 'ready',
+			frameCount: FRAMES.length,
+			error: INTERRUPTED_REREAD_MESSAGE
+		});
+		expect(await w.services.storage.list(`${keys.folder}store-2/`)).toEqual([]);
+		expect((await findCaptureRow(w.services.db, w.workspaceId, capture.id))!.store_key).toBe(
+			before.store_key
+		);
 	});
 });

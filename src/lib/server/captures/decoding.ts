@@ -169,14 +169,9 @@ export async function decodeWith(
 	const map =
 		revision === null ? mapRecord.draft : (await requireRevision(db, mapRecord.id, revision)).map;
 	const bus = checkedBus(capture, input.bus ?? null);
-	const indexKey = busKey(await captureIndexKey(services, capture), bus);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapRecord.id,
-		revision,
-		draftVersion,
-		bus
-	);
+	const storeKey = await captureIndexKey(services, capture);
+	const indexKey = busKey(storeKey, bus);
+	const folder = decodeFolder(storeKey, mapRecord.id, revision, draftVersion, bus);
 	const stored = await storedDecode(services, indexKey, folder, map);
 	const decode = await db.transaction().execute(async (trx) => {
 		const record = await insertDecode(trx, {
@@ -256,14 +251,9 @@ export async function openDecode(
 		}
 		map = current.draft;
 	}
-	const indexKey = busKey(await captureIndexKey(services, capture), decode.bus);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapId,
-		decode.revision,
-		decode.draftVersion,
-		decode.bus
-	);
+	const storeKey = await captureIndexKey(services, capture);
+	const indexKey = busKey(storeKey, decode.bus);
+	const folder = decodeFolder(storeKey, mapId, decode.revision, decode.draftVersion, decode.bus);
 	return {
 		decode,
 		capture,
@@ -325,12 +315,7 @@ export async function openRevisionDecode(
 	await requireMap(services.db, workspaceId, mapId);
 	const map = (await requireRevision(services.db, mapId, revision)).map;
 	const indexKey = await captureIndexKey(services, capture);
-	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
-		mapId,
-		revision,
-		null
-	);
+	const folder = decodeFolder(indexKey, mapId, revision, null);
 	return {
 		capture,
 		map,

@@ -5,6 +5,11 @@
  * background, writing progress (bytes parsed / size) to the row for polling; failures end in status
  * 'failed' with a readable error, never a half-stored result. A capture deleted while it was being
  * processed has its output discarded.
+ *
+ * A processed capture can be read again with another layout (docs/capture-csv.md, "Reading a file
+ * again"): the new store goes to a folder of its own (`store-<n>/`) while the old one stays, and
+ * replaces it — with the decodes made from it — only once it is complete. A failed re-read leaves
+ * the capture ready with its earlier layout, store and decodes, and the reason in its error.
  */
 import { MessageChannel } from 'node:worker_threads';
 import type { CaptureLayout } from '../../can/capture/layout';
@@ -20,7 +25,16 @@ import {
 	updateCapture
 } from './captures-db';
 import type { CaptureSummary } from '../../api/captures';
-import { captureKeys, forgetCaptureStore } from './capture-store';
+import {
+	captureKeys,
+	decodesRootOf,
+	forgetCaptureStore,
+	isLegacyStoreKey,
+	storeFolderFor,
+	storeFolderOf,
+	storeGeneration
+} from './capture-store';
+import { forgetCaptureDecodes } from './decoding';
 import { runCaptureTask } from './pool';
 import { DETECTION_BYTES, detectFromHead } from './upload';
 import { runProcess } from './work/process';
@@ -81,6 +95,14 @@ export function allProcessingDone(): Promise<unknown> {
 
 export const INTERRUPTED_MESSAGE =
 	'Processing was interrupted when the server stopped; process the capture again.';
+export const INTERRUPTED_REREAD_MESSAGE =
+	'Reading the file again was interrupted when the server stopped; the earlier result is kept.';
+
+/** The store folder the next processing of a capture writes (a new one for each re-read). */
+function nextStoreFolder(row: Pick<CaptureRow, 'id' | 'workspace_id' | 'store_key'>): string {
+	const folder = captureKeys(row.workspace_id, row.id).folder;
+	return storeFolderFor(folder, row.store_key === null ? 1 : storeGeneration(row.store_key) + 1);
+}
 
 /**
  * At server start no worker of this process can be running, so a capture still marked
@@ -93,18 +115,23 @@ export async function failInterruptedProcessing(
 ): Promise<number> {
 	const cut = await db
 		.selectFrom('captures')
-		.select(['id', 'workspace_id'])
+		.select(['id', 'workspace_id', 'store_key'])
 		.where('status', '=', 'processing')
 		.execute();
-	const result = await db
+	// A re-read (the capture has a store) goes back to its earlier result.
+	await db
+		.updateTable('captures')
+		.set({ status: 'ready', progress: 1, error: INTERRUPTED_REREAD_MESSAGE })
+		.where('status', '=', 'processing')
+		.where('store_key', 'is not', null)
+		.execute();
+	await db
 		.updateTable('captures')
 		.set({ status: 'failed', progress: 0, error: INTERRUPTED_MESSAGE, store_key: null })
 		.where('status', '=', 'processing')
-		.executeTakeFirst();
-	if (storage)
-		for (const c of cut)
-			await storage.deletePrefix(captureKeys(c.workspace_id, c.id).storeFolder).catch(() => 0);
-	return Number(result.numUpdatedRows);
+		.execute();
+	if (storage) for (const c of cut) await storage.deletePrefix(nextStoreFolder(c)).catch(() => 0);
+	return cut.length;
 }
 
 /** Marks the capture 'processing' with the confirmed layout and starts the worker; returns at once. */
@@ -115,12 +142,8 @@ export async function startProcessing(
 	const row = await requireCaptureRow(services.db, input.workspaceId, input.captureId);
 	if (row.status === 'processing' || running.has(row.id))
 		throw new Problem(409, 'This capture is being processed already.');
-	if (row.status === 'ready') {
-		throw new Problem(
-			409,
-			'This capture is processed already; reopening it never parses the file again. Upload the file again to use another layout.'
-		);
-	}
+	// A processed capture is read again: its layout changes only when the new store is complete.
+	const reread = row.status === 'ready';
 	// Conditional on the status read above, so two requests at once cannot both start a worker.
 	const claimed = await services.db
 		.updateTable('captures')
@@ -128,7 +151,7 @@ export async function startProcessing(
 			status: 'processing',
 			progress: 0,
 			error: null,
-			layout_json: JSON.stringify(input.layout)
+			...(reread ? {} : { layout_json: JSON.stringify(input.layout) })
 		})
 		.where('id', '=', row.id)
 		.where('status', '=', row.status)
@@ -138,7 +161,7 @@ export async function startProcessing(
 	await appendAudit(services.db, {
 		workspaceId: input.workspaceId,
 		actorId: input.actorId,
-		action: 'capture.process',
+		action: reread ? 'capture.reprocess' : 'capture.process',
 		target: row.id
 	});
 	const abort = new AbortController();
@@ -156,12 +179,14 @@ export async function startProcessing(
 async function saveOutcome(
 	services: ProcessingServices,
 	row: Pick<CaptureRow, 'id' | 'workspace_id'>,
+	layout: CaptureLayout,
 	outcome: Extract<ProcessOutcome, { ok: true }>
 ): Promise<boolean> {
 	const updated = await services.db
 		.updateTable('captures')
 		.set({
 			status: 'ready',
+			layout_json: JSON.stringify(layout),
 			progress: 1,
 			report_json: JSON.stringify(outcome.report),
 			frame_count: outcome.frameCount,
@@ -174,14 +199,31 @@ async function saveOutcome(
 		.where('status', '=', 'processing')
 		.executeTakeFirst();
 	if (Number(updated.numUpdatedRows) === 1) return true;
-	await discardOutput(services, row);
+	await discardOutput(services, row, storeFolderOf(outcome.indexKey));
 	return false;
+}
+
+/** After a re-read succeeded: the earlier store and the decodes made from it go. */
+async function dropEarlierStore(
+	services: ProcessingServices,
+	row: Pick<CaptureRow, 'id' | 'workspace_id'>,
+	earlierKey: string
+): Promise<void> {
+	forgetCaptureDecodes(row.id);
+	if (isLegacyStoreKey(earlierKey)) {
+		await services.storage.delete(earlierKey);
+		await services.storage.deletePrefix(captureKeys(row.workspace_id, row.id).decodes);
+		return;
+	}
+	await services.storage.deletePrefix(storeFolderOf(earlierKey));
+	await services.storage.deletePrefix(decodesRootOf(earlierKey));
 }
 
 /** What processing wrote for a capture that is gone (its whole folder if the row is gone too). */
 async function discardOutput(
 	services: ProcessingServices,
-	row: Pick<CaptureRow, 'id' | 'workspace_id'>
+	row: Pick<CaptureRow, 'id' | 'workspace_id'>,
+	storeFolder: string
 ): Promise<void> {
 	const keys = captureKeys(row.workspace_id, row.id);
 	const exists = await services.db
@@ -189,7 +231,7 @@ async function discardOutput(
 		.select('id')
 		.where('id', '=', row.id)
 		.executeTakeFirst();
-	await services.storage.deletePrefix(exists ? keys.storeFolder : keys.folder);
+	await services.storage.deletePrefix(exists ? storeFolder : keys.folder);
 	forgetCaptureStore(row.id);
 }
 
@@ -226,7 +268,7 @@ export async function importCaptureInProcess(
 	});
 	if (!outcome.ok)
 		throw new Error(`The demo capture ${input.fileName} does not parse: ${outcome.message}`);
-	await saveOutcome(services, { id, workspace_id: input.workspaceId }, outcome);
+	await saveOutcome(services, { id, workspace_id: input.workspaceId }, detected.layout, outcome);
 	return id;
 }
 
@@ -237,7 +279,8 @@ async function runProcessing(
 	layout: CaptureLayout,
 	signal: AbortSignal
 ): Promise<void> {
-	const keys = captureKeys(row.workspace_id, row.id);
+	const storeFolder = nextStoreFolder(row);
+	const earlierKey = row.status === 'ready' ? row.store_key : null;
 	let lastWrite = 0;
 	let writing: Promise<void> = Promise.resolve();
 	const onProgress = (bytes: number) => {
@@ -251,29 +294,42 @@ async function runProcessing(
 	let message: string;
 	try {
 		// What an earlier, failed attempt may have left.
-		await services.storage.deletePrefix(keys.storeFolder);
+		await services.storage.deletePrefix(storeFolder);
 		const outcome = await processInWorker(
 			services.storage,
-			{ rawKey: row.raw_key, layout, storeFolder: keys.storeFolder },
+			{ rawKey: row.raw_key, layout, storeFolder },
 			onProgress,
 			signal
 		);
 		await writing;
-		if (outcome.ok) {
-			await saveOutcome(services, row, outcome);
+		if (outcome.ok && earlierKey && outcome.frameCount === 0) {
+			// A re-read that reads no frame never replaces the earlier result.
+			const first = outcome.report.badRows[0];
+			message = `no row could be read as a frame with this layout${first ? ` (line ${first.line}: ${first.reason})` : ''}.`;
+		} else if (outcome.ok) {
+			if ((await saveOutcome(services, row, layout, outcome)) && earlierKey)
+				await dropEarlierStore(services, row, earlierKey).catch(() => {});
 			return;
-		}
-		message = outcome.formatError
-			? outcome.message
-			: `Processing failed: ${outcome.message}. The uploaded file is kept; try again or upload it again.`;
+		} else
+			message = outcome.formatError
+				? outcome.message
+				: `Processing failed: ${outcome.message}. The uploaded file is kept; try again or upload it again.`;
 	} catch (error) {
 		await writing;
 		message = `Processing failed: ${error instanceof Error ? error.message : String(error)}. The uploaded file is kept; try again or upload it again.`;
 	}
-	await discardOutput(services, row).catch(() => {});
+	await discardOutput(services, row, storeFolder).catch(() => {});
 	await services.db
 		.updateTable('captures')
-		.set({ status: 'failed', progress: 0, error: message, store_key: null })
+		.set(
+			earlierKey
+				? {
+						status: 'ready',
+						progress: 1,
+						error: `Reading the file again failed, so the earlier result is kept: ${message}`
+					}
+				: { status: 'failed', progress: 0, error: message, store_key: null }
+		)
 		.where('id', '=', row.id)
 		.where('status', '=', 'processing')
 		.execute()

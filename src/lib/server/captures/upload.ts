@@ -1,9 +1,10 @@
 /**
  * Receives a capture upload: streams the request body straight to blob storage (never whole in
  * memory), keeping only the first bytes aside to check that the file is text and to guess its
- * column layout. Refusals are clear and leave nothing stored: 413 over the size limit (from
- * Content-Length up front, and while streaming), 415 for binary files or files with no readable
- * capture columns, 400 for an empty body.
+ * column layout. A gzip-compressed file (gzip.ts) is stored compressed and decompressed beside on
+ * its way, for those checks and to bound its decompressed size. Refusals are clear and leave nothing
+ * stored: 413 over the size limit (from Content-Length up front, and while streaming, compressed or
+ * decompressed), 415 for binary files, 400 for an empty body or damaged compressed data.
  */
 import Papa from 'papaparse';
 import type { DetectedLayout, UploadResponse } from '../../api/captures';
@@ -14,6 +15,7 @@ import { byteChunks, formatBytes, StorageLimitError } from '../storage/storage';
 import { appendAudit } from '../workspaces/audit';
 import { insertCapture, requireCaptureSummary } from './captures-db';
 import { captureKeys } from './capture-store';
+import { GzipFormatError, gunzipTap, InflatedTooLargeError, peekMagic } from './gzip';
 
 /** Bytes kept aside for the layout guess. */
 export const DETECTION_BYTES = 64 * 1024;
@@ -46,25 +48,51 @@ function looksBinary(bytes: Uint8Array): boolean {
 	return control * 20 > bytes.length;
 }
 
-/** Passes the body through, keeping its first DETECTION_BYTES and refusing binary content early. */
-async function* tapped(
-	body: ReadableStream<Uint8Array>,
-	head: { bytes: Uint8Array; length: number }
-): AsyncGenerator<Uint8Array> {
-	let sniffed = false;
-	for await (const value of byteChunks(body)) {
-		if (head.length < DETECTION_BYTES) {
-			const n = Math.min(DETECTION_BYTES - head.length, value.byteLength);
-			head.bytes.set(value.subarray(0, n), head.length);
-			head.length += n;
-		}
-		if (!sniffed && head.length >= SNIFF_BYTES) {
-			sniffed = true;
-			if (looksBinary(head.bytes.subarray(0, SNIFF_BYTES))) throw new NotACaptureError();
-		}
-		yield value;
+/** The first DETECTION_BYTES of the text, kept for the layout guess. */
+interface Head {
+	bytes: Uint8Array;
+	length: number;
+	sniffed: boolean;
+}
+
+/** Keeps the start of the text aside and refuses binary content as soon as enough is seen. */
+function keepHead(head: Head, value: Uint8Array) {
+	if (head.length < DETECTION_BYTES) {
+		const n = Math.min(DETECTION_BYTES - head.length, value.byteLength);
+		head.bytes.set(value.subarray(0, n), head.length);
+		head.length += n;
 	}
-	if (!sniffed && looksBinary(head.bytes.subarray(0, head.length))) throw new NotACaptureError();
+	if (!head.sniffed && head.length >= SNIFF_BYTES) {
+		head.sniffed = true;
+		if (looksBinary(head.bytes.subarray(0, SNIFF_BYTES))) throw new NotACaptureError();
+	}
+}
+
+/**
+ * Passes the stored bytes through, keeping the start of the text aside; a gzip upload goes on
+ * compressed to storage while `tap` decompresses it beside (its size checked, its text kept).
+ */
+async function* tapped(
+	body: AsyncIterable<Uint8Array>,
+	head: Head,
+	tap: ReturnType<typeof gunzipTap> | null,
+	text: { size: number }
+): AsyncGenerator<Uint8Array> {
+	try {
+		for await (const value of body) {
+			if (tap) await tap.write(value);
+			else {
+				keepHead(head, value);
+				text.size += value.byteLength;
+			}
+			yield value;
+		}
+		if (tap) text.size = await tap.end();
+	} finally {
+		tap?.destroy();
+	}
+	if (!head.sniffed && looksBinary(head.bytes.subarray(0, head.length)))
+		throw new NotACaptureError();
 }
 
 /** The layout guess and a preview from the first bytes (cut at the last whole line unless that is all). */
@@ -122,30 +150,39 @@ export async function receiveCaptureUpload(
 
 	const id = crypto.randomUUID();
 	const keys = captureKeys(input.workspaceId, id);
-	const head = { bytes: new Uint8Array(DETECTION_BYTES), length: 0 };
+	const head: Head = { bytes: new Uint8Array(DETECTION_BYTES), length: 0, sniffed: false };
+	// Told by its first bytes, not its name; stored compressed as it came (less disk).
+	const { gzip, chunks } = await peekMagic(byteChunks(input.body));
+	const rawKey = gzip ? keys.rawGz : keys.raw;
+	const tap = gzip ? gunzipTap(limit, (chunk) => keepHead(head, chunk)) : null;
+	const text = { size: 0 };
 	let size: number;
 	try {
-		({ size } = await services.storage.put(keys.raw, tapped(input.body, head), {
+		({ size } = await services.storage.put(rawKey, tapped(chunks, head, tap, text), {
 			maxBytes: limit
 		}));
 	} catch (error) {
 		if (error instanceof StorageLimitError) throw tooLarge();
+		if (error instanceof InflatedTooLargeError)
+			throw new Problem(413, error.message, undefined, { maxBytes: limit });
+		if (error instanceof GzipFormatError)
+			throw new Problem(400, `${error.message} Nothing was stored.`);
 		if (error instanceof NotACaptureError)
 			throw refuseNotCapture(
 				'it holds binary data, but captures are CSV text (time, ID, data per row).'
 			);
 		throw error;
 	}
-	if (size === 0) {
-		await services.storage.delete(keys.raw);
+	if (size === 0 || text.size === 0) {
+		await services.storage.delete(rawKey);
 		throw new Problem(400, 'The file is empty; there is nothing to upload.');
 	}
 
 	let detected: DetectedLayout;
 	try {
-		detected = detectFromHead(head.bytes.subarray(0, head.length), head.length === size);
+		detected = detectFromHead(head.bytes.subarray(0, head.length), head.length === text.size);
 	} catch (error) {
-		await services.storage.delete(keys.raw);
+		await services.storage.delete(rawKey);
 		// Only a file without rows gets here: any text is kept for mapping by hand.
 		if (error instanceof CaptureFormatError) throw new Problem(400, error.message);
 		throw error;
@@ -159,7 +196,7 @@ export async function receiveCaptureUpload(
 				fileName: input.fileName,
 				sizeBytes: size,
 				actorId: input.actorId,
-				rawKey: keys.raw,
+				rawKey,
 				detected,
 				layout: null
 			});
@@ -168,11 +205,15 @@ export async function receiveCaptureUpload(
 				actorId: input.actorId,
 				action: 'capture.upload',
 				target: id,
-				details: { fileName: input.fileName, sizeBytes: size }
+				details: {
+					fileName: input.fileName,
+					sizeBytes: size,
+					...(gzip ? { compressed: 'gzip', textBytes: text.size } : {})
+				}
 			});
 		});
 	} catch (error) {
-		await services.storage.delete(keys.raw); // no blob without its row
+		await services.storage.delete(rawKey); // no blob without its row
 		throw error;
 	}
 	return { capture: await requireCaptureSummary(services.db, input.workspaceId, id), detected };

@@ -13,6 +13,7 @@ import { ingestCaptureInto } from '../../../can/capture/ingest';
 import type { CaptureLayout } from '../../../can/capture/layout';
 import { byteChunks, type BlobStorage } from '../../storage/storage';
 import { segmentKey } from '../capture-store';
+import { GzipFormatError, plainBytes } from '../gzip';
 import type { ProcessOutcome } from './tasks';
 
 async function* single(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
@@ -61,7 +62,8 @@ export async function runProcess(
 		}
 	}
 	try {
-		const report = await ingestCaptureInto(source(), writer, { layout: task.layout });
+		// A gzip upload is stored compressed: decompressed here as it is read (progress counts stored bytes).
+		const report = await ingestCaptureInto(plainBytes(source()), writer, { layout: task.layout });
 		const { index, indexKey } = await finish(
 			{
 				timeOrigin: report.timeOrigin ?? 0,
@@ -93,7 +95,7 @@ export async function runProcess(
 		await drain().catch(() => {});
 		return {
 			ok: false,
-			formatError: error instanceof CaptureFormatError,
+			formatError: error instanceof CaptureFormatError || error instanceof GzipFormatError,
 			message: error instanceof Error ? error.message : String(error),
 			threadId
 		};

@@ -58,6 +58,7 @@ export const AUDIT_KINDS: { subject: string; label: string; verbs: Record<string
 		verbs: {
 			'capture.upload': 'Uploaded',
 			'capture.process': 'Processed',
+			'capture.reprocess': 'Read again',
 			'capture.decode': 'Decoded',
 			'capture.bitrate': 'Bit rate set',
 			'capture.delete': 'Deleted'
@@ -130,6 +131,8 @@ export function describeEntry(entry: AuditRecord): string {
 			return `${who} uploaded the capture ${capture}`;
 		case 'capture.process':
 			return `${who} processed the capture ${capture}`;
+		case 'capture.reprocess':
+			return `${who} read the capture ${capture} again with another layout`;
 		case 'capture.decode': {
 			const with_ = d.revision === 'draft' ? 'the draft of' : `r${revision} of`;
 			return `${who} decoded the capture ${capture} with ${with_} ${map}`;
