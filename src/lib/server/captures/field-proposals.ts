@@ -24,7 +24,7 @@ import type { Services } from '../services';
 import { staleDraft } from '../versioning/drafts';
 import { findDecode } from './captures-db';
 import { correlations, proposals } from './field-proposal-cache';
-import { openDecode, requireReadyCapture } from './decoding';
+import { captureIndexKey, openDecode, requireReadyCapture } from './decoding';
 import { runCaptureTask } from './pool';
 import { undocumentedFrame, undocumentedFrameName } from './undocumented-frame';
 import { summaryKey } from './work/decode';
@@ -32,7 +32,7 @@ import type { CorrelateOutcome, FieldsOutcome, StoredDecode } from './work/tasks
 import type { DecodeRecord } from '../../api/captures';
 import type { CaptureRow } from '../db/schema';
 import { StorageNotFoundError } from '../storage/storage';
-import { captureKeys, decodeFolder } from './capture-store';
+import { decodeFolder } from './capture-store';
 
 const idKey = (id: number, extended: boolean) => `${extended ? 'x' : 's'}${id}`;
 const idText = (id: number, extended: boolean) =>
@@ -184,10 +184,11 @@ async function storedIds(
 	);
 	if (decode.mapId === null) throw gone;
 	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
+		await captureIndexKey(services, capture),
 		decode.mapId,
 		decode.revision,
-		decode.draftVersion
+		decode.draftVersion,
+		decode.bus ?? null
 	);
 	try {
 		const bytes = await services.storage.getBytes(summaryKey(folder));
