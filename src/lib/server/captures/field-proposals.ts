@@ -24,7 +24,7 @@ import type { Services } from '../services';
 import { staleDraft } from '../versioning/drafts';
 import { findDecode } from './captures-db';
 import { correlations, proposals } from './field-proposal-cache';
-import { openDecode, requireReadyCapture } from './decoding';
+import { captureIndexKey, openDecode, requireReadyCapture } from './decoding';
 import { runCaptureTask } from './pool';
 import { undocumentedFrame, undocumentedFrameName } from './undocumented-frame';
 import { summaryKey } from './work/decode';
@@ -32,7 +32,7 @@ import type { CorrelateOutcome, FieldsOutcome, StoredDecode } from './work/tasks
 import type { DecodeRecord } from '../../api/captures';
 import type { CaptureRow } from '../db/schema';
 import { StorageNotFoundError } from '../storage/storage';
-import { captureKeys, decodeFolder } from './capture-store';
+import { decodeFolder } from './capture-store';
 
 const idKey = (id: number, extended: boolean) => `${extended ? 'x' : 's'}${id}`;
 const idText = (id: number, extended: boolean) =>
@@ -102,7 +102,13 @@ export async function fieldProposals(
 	}
 	const ids = await proposalsOf(services, open.indexKey, unknown);
 	const map = await requireMap(services.db, workspaceId, open.decode.mapId!);
-	return { draft: { mapId: map.id, mapName: map.name, version: map.version }, ids };
+	const drafts = await services.db
+		.selectFrom('maps')
+		.select(['id as mapId', 'name as mapName', 'draft_version as version'])
+		.where('workspace_id', '=', workspaceId)
+		.orderBy('name')
+		.execute();
+	return { draft: { mapId: map.id, mapName: map.name, version: map.version }, drafts, ids };
 }
 
 export async function correlateChannel(
@@ -183,11 +189,14 @@ async function storedIds(
 		'This decode is no longer stored; decode the capture again and accept the proposals from there.'
 	);
 	if (decode.mapId === null) throw gone;
+	// The folder the decode was stored under: beside the capture's current store (a capture read
+	// again has a new one), per bus for a one-bus decode, as openDecode finds it.
 	const folder = decodeFolder(
-		captureKeys(capture.workspace_id, capture.id).folder,
+		await captureIndexKey(services, capture),
 		decode.mapId,
 		decode.revision,
-		decode.draftVersion
+		decode.draftVersion,
+		decode.bus
 	);
 	try {
 		const bytes = await services.storage.getBytes(summaryKey(folder));
