@@ -6,7 +6,7 @@ import { readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { DecodeResponse } from '$lib/api/capture-views';
+import type { DecodeResponse, FrameDetail, FramesResponse } from '$lib/api/capture-views';
 import type {
 	AcceptedFieldsResponse,
 	CorrelateResponse,
@@ -33,6 +33,8 @@ import {
 	type TestServices
 } from '$lib/server/test-support';
 import { POST as decodeRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/decode/+server';
+import { GET as framesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/+server';
+import { GET as frameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/[index]/+server';
 import { GET as storedDecodeRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/decodes/[decodeId]/+server';
 import { GET as fieldsRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/fields/+server';
 import { POST as acceptRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/fields/accept/+server';
@@ -276,6 +278,26 @@ describe('accepting proposals into the draft', () => {
 			Alive: 'counter',
 			Crc: 'checksum'
 		});
+
+		// So does one frame's decoded signals (the frame detail view marks them).
+		const page = await jsonOf<FramesResponse>(
+			await framesRoute(
+				event(w, w.viewer, '/frames', { query: `?id=${UNKNOWN_ID.toString(16)}&limit=1` })
+			)
+		);
+		const detail = await jsonOf<FrameDetail>(
+			await frameRoute(
+				event(w, w.viewer, '/frames/[index]', {
+					params: { index: String(page.frames[0].index) },
+					query: `?decode=${again.decode.id}`
+				})
+			)
+		);
+		expect(detail.signals.map((s) => [s.name, s.role])).toEqual([
+			['Follower', 'value'],
+			['Alive', 'counter'],
+			['Crc', 'checksum']
+		]);
 
 		// A summary stored before roles existed (no `role` in its channels) still reads: every
 		// channel a value.
