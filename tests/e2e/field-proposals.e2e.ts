@@ -119,6 +119,11 @@ test('an editor finds the field that follows a known channel, accepts the propos
 
 	await value.getByLabel('Signal name').fill('FollowerSpeed');
 	await counter.getByLabel('Signal name').fill('AliveCounter');
+	// The frame goes to the decode's map unless another map of the workspace is chosen.
+	const target = unknown.getByLabel('Add to the draft of');
+	await expect(target.locator('option:checked')).toHaveText(
+		`${followerMap.name} (this decode's map)`
+	);
 	await unknown.getByRole('button', { name: new RegExp(`^Accept \\d+ into the draft of`) }).click();
 	await expect(
 		unknown.getByRole('status').filter({ hasText: 'were added to the draft' })
@@ -130,5 +135,15 @@ test('an editor finds the field that follows a known channel, accepts the propos
 		timeout: 30_000
 	});
 	await expect(page.locator('[data-channel="Undocumented_0x3A1.FollowerSpeed"]')).toBeVisible();
-	await expect(page.locator('[data-channel="Undocumented_0x3A1.AliveCounter"]')).toBeVisible();
+	const alive = page.locator('[data-channel="Undocumented_0x3A1.AliveCounter"]');
+	await expect(alive).toBeVisible();
+	// The accepted counter and checksum are marked in words in the Channels table; the value is not.
+	await expect(alive.getByRole('rowheader')).toHaveText(/^AliveCounter\s*counter$/);
+	const newRows = page.locator('[data-channel^="Undocumented_0x3A1."]');
+	await expect(
+		newRows.filter({ has: page.getByRole('rowheader').filter({ hasText: /checksum$/ }) })
+	).toHaveCount(1);
+	await expect(
+		page.locator('[data-channel="Undocumented_0x3A1.FollowerSpeed"]').locator('[data-role]')
+	).toHaveCount(0);
 });

@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import { alertReplaySchema as libraryAlertReplaySchema } from '../can/alerts/replay';
 import { dm1LampsSchema } from '../can/j1939';
-import { canIdSchema, MAX_EXTENDED_ID } from '../can/map';
+import { canIdSchema, MAX_EXTENDED_ID, signalRoleSchema } from '../can/map';
 import { captureBitrateSchema, decodeRecordSchema } from './captures';
 import type { ValuePrecision } from '../value-format';
 import { named } from './shapes';
@@ -157,7 +157,9 @@ export const channelSummarySchema = z.object({
 	notAvailable: z.number().int(),
 	errors: z.number().int(),
 	/** How its values print: the decimals its scale allows (src/lib/value-format.ts). */
-	precision: valuePrecisionSchema.optional()
+	precision: valuePrecisionSchema.optional(),
+	/** What the signal carries (docs/map-format.md, "Signal roles"); decodes stored before roles read as value. */
+	role: signalRoleSchema.default('value')
 });
 export type ChannelSummary = z.infer<typeof channelSummarySchema>;
 
@@ -278,7 +280,9 @@ export const frameSignalRowSchema = z.object({
 	label: z.string().nullable(),
 	/** false when the signal is not in this frame (another mux page, or past the received payload). */
 	present: z.boolean(),
-	inRange: z.boolean().nullable()
+	inRange: z.boolean().nullable(),
+	/** What the signal carries (docs/map-format.md, "Signal roles"). */
+	role: signalRoleSchema.default('value')
 });
 export type FrameSignalRow = z.infer<typeof frameSignalRowSchema>;
 

@@ -33,6 +33,8 @@ export const fieldsDraftSchema = z.object({
 
 export const fieldsResponseSchema = z.object({
 	draft: fieldsDraftSchema,
+	/** Every map draft of the workspace an editor may accept into (the decode's map among them), by name. */
+	drafts: z.array(fieldsDraftSchema),
 	ids: z.array(named(idProposalsSchema, 'IdProposals', 'Proposed fields of one identifier.'))
 });
 export type FieldsResponse = z.infer<typeof fieldsResponseSchema>;

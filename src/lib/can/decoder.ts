@@ -6,7 +6,14 @@
 import { fieldLayout, readFloatNumber, readIntegerNumber, type FieldLayout } from './bits';
 import { multiplexerIndex } from './codec';
 import { j1939Pgn, j1939ValueStatus } from './j1939';
-import { MAX_EXTENDED_ID, MAX_STANDARD_ID, type CanMap, type Frame, type Signal } from './map';
+import {
+	MAX_EXTENDED_ID,
+	MAX_STANDARD_ID,
+	type CanMap,
+	type Frame,
+	type Signal,
+	type SignalRole
+} from './map';
 import { precisionOf, type ValuePrecision } from '../value-format';
 
 export interface ChannelInfo {
@@ -19,6 +26,8 @@ export interface ChannelInfo {
 	max: number | null;
 	/** How many decimals the signal's scale and offset allow when its values are printed. */
 	precision?: ValuePrecision;
+	/** What the signal carries (docs/map-format.md, "Signal roles"); absent on derived channels: a value. */
+	role?: SignalRole;
 }
 
 /** Per-signal outcome written to the optional status array. */
@@ -428,7 +437,8 @@ export function compileMap(map: CanMap, options: CompileOptions = {}): CompiledM
 				unit: s.unit,
 				min: s.min,
 				max: s.max,
-				precision: precisionOf(s)
+				precision: precisionOf(s),
+				role: s.role
 			});
 		}
 		// First definition wins on duplicates; lintMap reports them.

@@ -74,6 +74,35 @@ describe('validateAlertRules', () => {
 		]);
 	});
 
+	it('warns about a rule on a counter or checksum, whatever its setpoint', () => {
+		// Demo map (invented): the throttle frame with a rolling counter and a checksum added.
+		const guarded = canMapSchema.parse({
+			...map,
+			frames: [
+				{
+					...map.frames[0],
+					signals: [
+						...map.frames[0].signals,
+						{ name: 'Alive', startBit: 24, length: 4, role: 'counter' },
+						{ name: 'Crc', startBit: 56, length: 8, role: 'checksum' }
+					]
+				}
+			]
+		});
+		const rules = [
+			rule({ name: 'A' }),
+			rule({ name: 'B', channel: { frame: 'EngineStatus', signal: 'Alive' }, setpoint: 99 }),
+			rule({ name: 'C', channel: { frame: 'EngineStatus', signal: 'Crc' } })
+		];
+		const problems = validateAlertRules(rules, guarded);
+		expect(problems.map(({ severity, code, path }) => [severity, code, path])).toEqual([
+			['warning', 'role-channel', '[1].channel.signal'],
+			['warning', 'role-channel', '[2].channel.signal']
+		]);
+		expect(problems[0].message).toMatch(/"Alive", a counter/);
+		expect(problems[1].message).toMatch(/"Crc", a checksum/);
+	});
+
 	it('warns about a setpoint outside the signal min/max', () => {
 		const [problem] = validateAlertRules([rule({ name: 'Over full', setpoint: 120 })], map);
 		expect(problem).toMatchObject({

@@ -1,6 +1,6 @@
 /**
  * Checks of a map's alert rules that need the map itself or the whole rule list: the watched
- * channel must exist, setpoints should be reachable, a band must be a band, names must be unique.
+ * channel must exist (and be a value, not a counter or checksum), setpoints should be reachable, a band must be a band, names must be unique.
  * Errors make a rule meaningless; warnings are legal but probably unintended.
  */
 import { z } from 'zod';
@@ -13,6 +13,7 @@ export const alertRuleProblemCodeSchema = z.enum([
 	'unknown-frame',
 	'unknown-signal',
 	'setpoint-out-of-range',
+	'role-channel',
 	'band-inverted',
 	'deadband-closes-band',
 	'duplicate-rule-name',
@@ -90,6 +91,14 @@ export function validateAlertRules(rules: readonly AlertRule[], map: CanMap): Al
 				'error',
 				'unknown-signal',
 				`rule "${rule.name}" watches signal "${rule.channel.signal}", which frame "${rule.channel.frame}" does not have`,
+				['channel', 'signal']
+			);
+		} else if (found.signal.role !== 'value') {
+			// A limit on a counter or checksum means nothing physical (docs/map-format.md, "Signal roles").
+			report(
+				'warning',
+				'role-channel',
+				`rule "${rule.name}" watches "${found.signal.name}", a ${found.signal.role}: its raw value steps or changes with the frame and means nothing physical, so a limit on it alerts on noise`,
 				['channel', 'signal']
 			);
 		} else {

@@ -81,7 +81,8 @@ export function summarizeDecoding(result: DecodingFigures): DecodeSummary {
 			limitMax: c.info.max,
 			notAvailable: c.notAvailableCount,
 			errors: c.errorCount,
-			...(c.info.precision ? { precision: c.info.precision } : {})
+			...(c.info.precision ? { precision: c.info.precision } : {}),
+			role: c.info.role ?? 'value'
 		})),
 		ids: result.ids.map((s) => ({
 			bus: s.bus,

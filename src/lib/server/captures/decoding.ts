@@ -29,6 +29,7 @@ import { guessBitrateFromMap } from './bitrate';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
 import { forgetFieldProposals } from './field-proposal-cache';
 import { runCaptureTask } from './pool';
+import { readStoredDecode } from './stored-decode';
 import { summaryKey } from './work/decode';
 import type { SamplesTask, StoredDecode } from './work/tasks';
 
@@ -105,7 +106,7 @@ function storedDecode(
 			try {
 				const bytes = await services.storage.getBytes(summaryKey(folder));
 				return {
-					stored: JSON.parse(new TextDecoder().decode(bytes)) as StoredDecode,
+					stored: readStoredDecode(new TextDecoder().decode(bytes)),
 					bytes: 2 * bytes.byteLength
 				};
 			} catch (error) {

@@ -2,10 +2,11 @@
 // storage, the worker pool): a capture with planted fields (src/lib/can/testing/planted-csv.ts,
 // invented data) whose expected answers are the planted fields and the linear relation written
 // there, never output of the code under test.
-import { rmSync } from 'node:fs';
+import { readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { DecodeResponse } from '$lib/api/capture-views';
+import type { DecodeResponse, FrameDetail, FramesResponse } from '$lib/api/capture-views';
 import type {
 	AcceptedFieldsResponse,
 	CorrelateResponse,
@@ -19,6 +20,7 @@ import {
 	KNOWN_ID,
 	UNKNOWN_ID
 } from '$lib/can/testing/planted-csv';
+import { forgetCaptureDecodes } from '$lib/server/captures/decoding';
 import { importCaptureInProcess } from '$lib/server/captures/processing';
 import { saveDraft } from '$lib/server/maps/drafts';
 import { findMapForWorkspace } from '$lib/server/maps/maps';
@@ -31,6 +33,9 @@ import {
 	type TestServices
 } from '$lib/server/test-support';
 import { POST as decodeRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/decode/+server';
+import { GET as framesRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/+server';
+import { GET as frameRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/frames/[index]/+server';
+import { GET as storedDecodeRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/decodes/[decodeId]/+server';
 import { GET as fieldsRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/fields/+server';
 import { POST as acceptRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/fields/accept/+server';
 import { GET as correlateRoute } from '../../../routes/api/workspaces/[ws]/captures/[id]/fields/correlate/+server';
@@ -70,10 +75,10 @@ function event(
 	w: { services: TestServices; slug: string; captureId: string },
 	user: SessionUser | null,
 	route: string,
-	init: { query?: string; body?: unknown } = {}
+	init: { query?: string; body?: unknown; params?: Record<string, string> } = {}
 ) {
 	const routeId = `${API}${route}`;
-	const params = { ws: w.slug, id: w.captureId };
+	const params = { ws: w.slug, id: w.captureId, ...init.params };
 	return makeEvent<RequestEvent>({
 		services: w.services,
 		user,
@@ -264,5 +269,98 @@ describe('accepting proposals into the draft', () => {
 		expect(follower.min).toBeCloseTo(known.min!, 6);
 		expect(follower.max).toBeCloseTo(known.max!, 6);
 		expect(KNOWN_ID).not.toBe(UNKNOWN_ID);
+
+		// The decode carries each channel's role from the map (docs/map-format.md, "Signal roles").
+		const roles = Object.fromEntries(again.summary.channels.map((c) => [c.signalName, c.role]));
+		expect(roles).toMatchObject({
+			ShaftSpeed: 'value',
+			Follower: 'value',
+			Alive: 'counter',
+			Crc: 'checksum'
+		});
+
+		// So does one frame's decoded signals (the frame detail view marks them).
+		const page = await jsonOf<FramesResponse>(
+			await framesRoute(
+				event(w, w.viewer, '/frames', { query: `?id=${UNKNOWN_ID.toString(16)}&limit=1` })
+			)
+		);
+		const detail = await jsonOf<FrameDetail>(
+			await frameRoute(
+				event(w, w.viewer, '/frames/[index]', {
+					params: { index: String(page.frames[0].index) },
+					query: `?decode=${again.decode.id}`
+				})
+			)
+		);
+		expect(detail.signals.map((s) => [s.name, s.role])).toEqual([
+			['Follower', 'value'],
+			['Alive', 'counter'],
+			['Crc', 'checksum']
+		]);
+
+		// A summary stored before roles existed (no `role` in its channels) still reads: every
+		// channel a value.
+		const summaries = readdirSync(w.services.storageRoot, { recursive: true, encoding: 'utf8' })
+			.filter((f) => f.endsWith('summary.json'))
+			.map((f) => join(w.services.storageRoot, f));
+		expect(summaries.length).toBeGreaterThan(0);
+		for (const file of summaries) {
+			const stored = JSON.parse(readFileSync(file, 'utf8'));
+			for (const c of stored.summary.channels) delete c.role;
+			writeFileSync(file, JSON.stringify(stored));
+		}
+		forgetCaptureDecodes(w.captureId);
+		const old = await jsonOf<DecodeResponse>(
+			await storedDecodeRoute(
+				event(w, w.viewer, '/decodes/[decodeId]', { params: { decodeId: again.decode.id } })
+			)
+		);
+		expect(old.summary.channels.map((c) => c.signalName)).toEqual(
+			again.summary.channels.map((c) => c.signalName)
+		);
+		expect(new Set(old.summary.channels.map((c) => c.role))).toEqual(new Set(['value']));
+	});
+
+	it('lists the workspace’s map drafts and accepts into another map than the decode’s', async () => {
+		const w = await buildWorld();
+		const otherId = await createPublishedMap(w.services.db, {
+			workspaceId: w.workspaceId,
+			actorId: w.owner.id,
+			revisions: [{ ...map, name: 'Another map', frames: [] }]
+		});
+		const other = (await findMapForWorkspace(w.services.db, w.workspaceId, otherId))!;
+		const answer = await jsonOf<FieldsResponse>(
+			await getFields(w, w.editor, `?decode=${w.decodeId}&id=${UNKNOWN_ID.toString(16)}`)
+		);
+		expect(answer.draft.mapId).toBe(w.mapId);
+		expect(answer.drafts.map((d) => [d.mapId, d.mapName, d.version])).toEqual(
+			expect.arrayContaining([
+				[w.mapId, answer.draft.mapName, answer.draft.version],
+				[otherId, 'Another map', other.version]
+			])
+		);
+		expect(answer.drafts).toHaveLength(2);
+		const done = await jsonOf<AcceptedFieldsResponse>(
+			await acceptRoute(
+				event(w, w.editor, '/fields/accept', {
+					body: {
+						decode: w.decodeId,
+						mapId: otherId,
+						version: other.version,
+						id: UNKNOWN_ID,
+						extended: false,
+						signals
+					}
+				})
+			)
+		);
+		expect(done).toMatchObject({ mapId: otherId, version: other.version + 1, frameIndex: 0 });
+		const after = (await findMapForWorkspace(w.services.db, w.workspaceId, otherId))!;
+		expect(after.draft.frames.map((f) => f.id)).toEqual([UNKNOWN_ID]);
+		// The decode's own map is untouched.
+		expect(
+			(await findMapForWorkspace(w.services.db, w.workspaceId, w.mapId))!.draft.frames
+		).toHaveLength(1);
 	});
 });

@@ -102,7 +102,13 @@ export async function fieldProposals(
 	}
 	const ids = await proposalsOf(services, open.indexKey, unknown);
 	const map = await requireMap(services.db, workspaceId, open.decode.mapId!);
-	return { draft: { mapId: map.id, mapName: map.name, version: map.version }, ids };
+	const drafts = await services.db
+		.selectFrom('maps')
+		.select(['id as mapId', 'name as mapName', 'draft_version as version'])
+		.where('workspace_id', '=', workspaceId)
+		.orderBy('name')
+		.execute();
+	return { draft: { mapId: map.id, mapName: map.name, version: map.version }, drafts, ids };
 }
 
 export async function correlateChannel(
@@ -183,6 +189,8 @@ async function storedIds(
 		'This decode is no longer stored; decode the capture again and accept the proposals from there.'
 	);
 	if (decode.mapId === null) throw gone;
+	// The folder the decode was stored under: beside the capture's current store (a capture read
+	// again has a new one), per bus for a one-bus decode, as openDecode finds it.
 	const folder = decodeFolder(
 		await captureIndexKey(services, capture),
 		decode.mapId,

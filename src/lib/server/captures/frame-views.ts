@@ -130,7 +130,8 @@ async function frameDetail(
 				unit: signal.unit,
 				label: null,
 				present: false,
-				inRange: null
+				inRange: null,
+				role: signal.role
 			};
 		return {
 			name: signal.name,
@@ -139,7 +140,8 @@ async function frameDetail(
 			unit: signal.unit,
 			label: r.label,
 			present: true,
-			inRange: r.inRange
+			inRange: r.inRange,
+			role: signal.role
 		};
 	});
 	return { frame: { ...row, frameName: definition.frame.name }, signals };

@@ -22,6 +22,7 @@ const channel = (
 	limitMax: 10,
 	notAvailable: 0,
 	errors: 0,
+	role: 'value',
 	...over
 });
 

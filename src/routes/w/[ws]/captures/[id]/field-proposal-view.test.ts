@@ -2,11 +2,13 @@ import { describe, expect, it } from 'vitest';
 import type { FieldProposal } from '$lib/can/fields/proposal';
 import { signalSchema } from '$lib/can/map';
 import {
+	acceptTarget,
 	defaultSignalName,
 	proposalMarks,
 	proposalSummary,
 	selectedByDefault,
-	signalFromProposal
+	signalFromProposal,
+	withDraftVersion
 } from './field-proposal-view';
 
 const common = { confidence: 0.99, muxValue: null, evidence: 'seen in every frame' };
@@ -94,5 +96,29 @@ describe('field proposals on the capture page', () => {
 			true,
 			false
 		]);
+	});
+});
+
+describe('the map an accept goes to', () => {
+	const answer = () => ({
+		draft: { mapId: 'm1', mapName: 'Engine', version: 4 },
+		drafts: [
+			{ mapId: 'm2', mapName: 'Chassis', version: 9 },
+			{ mapId: 'm1', mapName: 'Engine', version: 4 }
+		]
+	});
+
+	it('is the chosen map with its own draft version, else the decode’s map', () => {
+		expect(acceptTarget(answer(), 'm2')).toEqual({ mapId: 'm2', mapName: 'Chassis', version: 9 });
+		expect(acceptTarget(answer(), '')).toEqual(answer().draft);
+		expect(acceptTarget(answer(), 'deleted-map')).toEqual(answer().draft);
+	});
+
+	it('reads the new draft version after an accept, in every entry of that map only', () => {
+		const a = answer();
+		withDraftVersion(a, 'm1', 5);
+		expect([a.draft.version, a.drafts[0].version, a.drafts[1].version]).toEqual([5, 9, 5]);
+		withDraftVersion(a, 'm2', 10);
+		expect([a.draft.version, a.drafts[0].version, a.drafts[1].version]).toEqual([5, 10, 5]);
 	});
 });

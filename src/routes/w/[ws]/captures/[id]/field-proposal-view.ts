@@ -111,3 +111,30 @@ export function signalFromProposal(
 	}
 	return signal;
 }
+
+/** A map draft accepted proposals may go to, with the version an accept must name. */
+export interface DraftTarget {
+	mapId: string;
+	mapName: string;
+	version: number;
+}
+
+/**
+ * The draft an accept goes to: the one chosen in the map picker, else the decode's map (also when
+ * the chosen map has since left the list).
+ */
+export function acceptTarget(
+	answer: { draft: DraftTarget; drafts: readonly DraftTarget[] },
+	chosenMapId: string
+): DraftTarget {
+	return answer.drafts.find((d) => d.mapId === chosenMapId) ?? answer.draft;
+}
+
+/** After an accept: every entry of that map reads the draft's new version, so the next accept is not stale. */
+export function withDraftVersion(
+	answer: { draft: DraftTarget; drafts: DraftTarget[] },
+	mapId: string,
+	version: number
+): void {
+	for (const d of [answer.draft, ...answer.drafts]) if (d.mapId === mapId) d.version = version;
+}

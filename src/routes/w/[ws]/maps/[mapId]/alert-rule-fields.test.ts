@@ -1,7 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { alertRuleSchema, type AlertRule } from '$lib/can/alerts/rule';
 import { canMapSchema } from '$lib/can/map';
-import { channelOptions, editRuleField, newAlertRule } from './alert-rule-fields';
+import {
+	channelOptions,
+	editRuleField,
+	newAlertRule,
+	unlistedChannelNote
+} from './alert-rule-fields';
 
 // Demo data: an invented two-signal frame, not a check value.
 const map = canMapSchema.parse({
@@ -92,5 +97,36 @@ describe('alert rule table helpers', () => {
 		});
 		const second = newAlertRule(map.frames, [first, { ...first, id: 'rule-2', name: 'Other' }]);
 		expect(second.id).toBe('rule-3');
+	});
+
+	// Demo data (invented): a frame whose first signals are a counter and a checksum.
+	const guarded = canMapSchema.parse({
+		format: 'framewright-map@1',
+		name: 'Roles demo',
+		frames: [
+			{
+				name: 'Guarded',
+				id: '0x200',
+				signals: [
+					{ name: 'Alive', startBit: 0, length: 4, role: 'counter' },
+					{ name: 'Crc', startBit: 8, length: 8, role: 'checksum' },
+					{ name: 'Boost', startBit: 16, length: 8, unit: 'kPa', max: 250 }
+				]
+			}
+		]
+	});
+
+	it('offers no counter or checksum as a channel, and a new rule starts on the first value', () => {
+		expect(channelOptions(guarded.frames).map((c) => c.label)).toEqual(['Guarded / Boost']);
+		expect(newAlertRule(guarded.frames, []).channel).toEqual({ frame: 'Guarded', signal: 'Boost' });
+	});
+
+	it('says why a rule’s channel is not offered: a counter, a checksum or missing', () => {
+		const note = (signal: string) =>
+			unlistedChannelNote(guarded.frames, { frame: 'Guarded', signal });
+		expect([note('Alive'), note('Crc'), note('Gone')]).toEqual(['counter', 'checksum', 'missing']);
+		expect(unlistedChannelNote(guarded.frames, { frame: 'Nowhere', signal: 'Boost' })).toBe(
+			'missing'
+		);
 	});
 });

@@ -9,21 +9,37 @@ import {
 	type AlertRule
 } from '$lib/can/alerts/rule';
 import type { Frame } from '$lib/can/map';
+import { ROLE_BADGE, valueChannels } from '$lib/signal-roles';
 import type { RuleEdit, RuleField } from '$lib/components/alert-rule-table';
 
 export type EditResult = RuleEdit<AlertRule>;
 
-/** "Frame / Signal" choices for the channel picker, as `frame\u0000signal` values. */
+/**
+ * "Frame / Signal" choices for the channel picker, as `frame\u0000signal` values. Counters and
+ * checksums are not offered: a limit on them means nothing physical (docs/map-format.md, "Signal
+ * roles"); a rule that already watches one keeps it, and validation warns.
+ */
 export function channelOptions(
 	frames: readonly Frame[]
 ): { value: string; label: string; unit: string }[] {
 	return frames.flatMap((f) =>
-		f.signals.map((s) => ({
+		valueChannels(f.signals).map((s) => ({
 			value: channelKey(f.name, s.name),
 			label: `${f.name} / ${s.name}`,
 			unit: s.unit
 		}))
 	);
+}
+
+/** Why a rule's channel is not among `channelOptions`: the map lacks it, or it is a counter/checksum. */
+export function unlistedChannelNote(
+	frames: readonly Frame[],
+	channel: { frame: string; signal: string }
+): string {
+	const signal = frames
+		.find((f) => f.name === channel.frame)
+		?.signals.find((s) => s.name === channel.signal);
+	return (signal && ROLE_BADGE[signal.role]) ?? 'missing';
 }
 
 export function channelKey(frame: string, signal: string): string {
@@ -105,8 +121,8 @@ export function newAlertRule(frames: readonly Frame[], existing: readonly AlertR
 	const names = new Set(existing.map((r) => r.name.toLowerCase()));
 	let n = existing.length + 1;
 	while (ids.has(`rule-${n}`) || names.has(`new rule ${n}`)) n++;
-	const frame = frames.find((f) => f.signals.length > 0);
-	const signal = frame?.signals[0];
+	const frame = frames.find((f) => valueChannels(f.signals).length > 0);
+	const signal = frame && valueChannels(frame.signals)[0];
 	return alertRuleSchema.parse({
 		id: `rule-${n}`,
 		name: `New rule ${n}`,
