@@ -28,6 +28,11 @@ function workerCount(): number {
 	return configuredWorkers ?? Math.max(1, availableParallelism());
 }
 
+/** Threads of the heavy pool: how many parts a large first decode is split into. */
+export function captureWorkerCount(): number {
+	return workerCount();
+}
+
 function createPools(): Promise<Pools> {
 	return captureWorkerPath().then((filename) => {
 		const common = {
