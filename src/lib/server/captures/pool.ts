@@ -33,6 +33,28 @@ export function captureWorkerCount(): number {
 	return workerCount();
 }
 
+type LoadBalancer = NonNullable<
+	NonNullable<ConstructorParameters<typeof Piscina>[0]>['loadBalancer']
+>;
+
+/**
+ * An idle thread first; while the pool may still grow, a new thread rather than a busy one (so the
+ * parts of a split decode run side by side, not one after the other on a warm thread); only then
+ * the least busy thread with room. (Piscina's own balancer gives a second task to a busy thread
+ * before starting another.)
+ */
+export function spreadingBalancer(maxThreads: number, tasksPerThread: number): LoadBalancer {
+	return (task, workers) => {
+		let best: (typeof workers)[number] | null = null;
+		for (const worker of workers) {
+			if (worker.currentUsage === 0) return worker;
+			if (worker.isRunningAbortableTask || task.isAbortable) continue;
+			if (worker.currentUsage < (best?.currentUsage ?? tasksPerThread)) best = worker;
+		}
+		return workers.length < maxThreads ? null : best;
+	};
+}
+
 function createPools(): Promise<Pools> {
 	return captureWorkerPath().then((filename) => {
 		const common = {
@@ -43,7 +65,12 @@ function createPools(): Promise<Pools> {
 			// A task waiting on storage or on a slow download leaves its thread to others.
 			concurrentTasksPerWorker: 4
 		};
-		const heavy = new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 });
+		const heavy = new Piscina({
+			...common,
+			maxThreads: workerCount(),
+			niceIncrement: 10,
+			loadBalancer: spreadingBalancer(workerCount(), common.concurrentTasksPerWorker)
+		});
 		// One interactive thread kept ready, so a plot after a restart does not wait for a thread to start.
 		const interactive = new Piscina({
 			...common,

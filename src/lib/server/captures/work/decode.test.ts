@@ -8,13 +8,18 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { CANONICAL_LAYOUT } from '$lib/can/capture/layout';
 import { createLocalStorage } from '$lib/server/storage';
 import { fixtureMap, fixtureText } from '$lib/server/test-support';
+import { closeCaptureWorkers, configureCaptureWorkers, runCaptureTask } from '../pool';
 import { mergeDecodeParts, pyramidsKey, runDecode, runDecodePart } from './decode';
 import { runProcess } from './process';
 import { runSeries } from './series';
-import type { StoredDecode } from './tasks';
+import type { DecodePartOutcome, StoredDecode } from './tasks';
 
 const root = mkdtempSync(join(tmpdir(), 'framewright-split-decode-'));
-afterAll(() => rmSync(root, { recursive: true, force: true }));
+afterAll(async () => {
+	await closeCaptureWorkers();
+	configureCaptureWorkers(null);
+	rmSync(root, { recursive: true, force: true });
+});
 const storage = createLocalStorage({ root, maxBytes: 1024 ** 3 });
 const settings = storage.settings;
 
@@ -87,5 +92,41 @@ describe('a split first decode', () => {
 				);
 			}
 		}
+	});
+});
+
+describe('the parts of a split decode in the worker pool', () => {
+	it('run on different threads, also when one thread is already warm', async () => {
+		await closeCaptureWorkers();
+		configureCaptureWorkers(2);
+		const map = fixtureMap('club-racer-ecu.map.json');
+		await storage.put(
+			'pool/raw.csv',
+			one(new TextEncoder().encode(fixtureText('club-racer-session.csv')))
+		);
+		const processed = await runCaptureTask<{ ok: boolean; indexKey: string; threadId: number }>({
+			kind: 'process',
+			storage: settings,
+			rawKey: 'pool/raw.csv',
+			layout: CANONICAL_LAYOUT,
+			storeFolder: 'pool/store/',
+			segmentFrames: 300
+		});
+		expect(processed.ok).toBe(true);
+		const on = {
+			storage: settings,
+			indexKey: processed.indexKey,
+			map,
+			folder: 'pool/decode/',
+			parts: 2
+		};
+		const outcomes = await Promise.all(
+			[0, 1].map((part) =>
+				runCaptureTask<DecodePartOutcome | null>({ kind: 'decode-part', ...on, part })
+			)
+		);
+		const threads = outcomes.map((o) => o!.threadId);
+		expect(threads).toContain(processed.threadId);
+		expect(new Set(threads).size).toBe(2);
 	});
 });

@@ -11,6 +11,7 @@
  * mergeDecodeParts then joins the parts' small figures into the one summary a single pass gives
  * (decode.test.ts compares them).
  */
+import { threadId } from 'node:worker_threads';
 import {
 	decodeChunked,
 	decodeChunkedPart,
@@ -128,6 +129,7 @@ export async function runDecodePart(
 	};
 	return {
 		part: task.part,
+		threadId,
 		bus: decoding.bus !== null,
 		owned: [...mine.keys()].filter((k) => mine[k] === 1),
 		summary: summarizeDecoding({ ...decoding, ...(decoding.bus ?? noBus) }),

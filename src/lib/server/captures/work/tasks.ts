@@ -76,6 +76,8 @@ export interface DecodePartOutcome {
 	owned: number[];
 	summary: DecodeSummary;
 	channels: StoredDecode['channels'];
+	/** The worker thread that decoded it (tests check that parts run side by side). */
+	threadId: number;
 }
 
 /** What a decode keeps in storage (`summary.json`), enough to answer every view without decoding again. */
