@@ -90,7 +90,7 @@ export async function captureIndexKey(
 }
 
 /** Captures from this many frames on are decoded in parts, one per worker (smaller ones in one pass). */
-export const SPLIT_DECODE_FROM_FRAMES = 1 << 20;
+export const SPLIT_DECODE_FROM_FRAMES = 1 << 19;
 
 /**
  * The first decode in the worker pool: in one pass, or for a large capture in as many parts as the
