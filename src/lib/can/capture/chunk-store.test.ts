@@ -291,6 +291,43 @@ describe('a first decode split into parts (one per worker) equals the single pas
 	});
 });
 
+describe('the bus part of a split decode', () => {
+	it.each([
+		[6, 'with', [0, 1, 5, 8, 8, 12, 64]],
+		[7, 'without', [0, 1, 5, 8, 8]]
+	])(
+		'seed %i, random IDs %s CAN FD frames: survey and bus load equal the single pass',
+		async (seed, _fd, lengths) => {
+			const parsed = parseMap(await readFile(fixture('club-racer-ecu.map.json'), 'utf8'));
+			if (!parsed.ok) throw new Error('fixture map does not parse');
+			const compiled = compileMap(parsed.map);
+			const rand = seededRandom(seed);
+			const ids = [0x100, 0x101, 0x7ff, 0x123, 0x5a5];
+			const { writer, open } = memoryStore(700);
+			let t = 0;
+			for (let i = 0; i < 5000; i++) {
+				t += rand.next() * 0.001;
+				const data = rand.bytes(rand.pick(lengths));
+				writer.add(t, rand.pick(ids), false, data, data.length);
+			}
+			const { source, index } = open();
+			// A data bit rate that is not a power-of-two multiple of the nominal one: FD frames'
+			// bit times are then fractions whose sums depend on their order.
+			const options = { dataBitrate: 3_000_000 };
+			const single = await decodeChunked(source, compiled, options);
+			expect(single.busLoad.fdFrames > 0).toBe(lengths.includes(64));
+			const plan = planDecodeParts(index, compiled, 2);
+			const parts = [];
+			for (const part of plan)
+				parts.push(await decodeChunkedPart(source, compiled, part, options));
+			const merged = mergeDecodeParts(compiled, parts);
+			expect(merged.ids).toEqual(single.ids);
+			expect(merged.unknownIds).toEqual(single.unknownIds);
+			expect(merged.busLoad).toEqual(single.busLoad);
+		}
+	);
+});
+
 describe('chunked exports (export.ts over the whole capture is the reference)', () => {
 	const text = async (chunks: AsyncIterable<string>) => {
 		let out = '';

@@ -15,6 +15,7 @@ import { decodeChannels } from './channels';
 import { readChunk, Segment, type Chunk, type ChunkIndex } from './chunk-store';
 import type { DecodeCaptureOptions } from './decode-capture';
 import type { FrameColumns } from './frame-columns';
+import { FLAG_FD } from './frame-store';
 import { createIdSurvey, type IdStatistics, type UnknownId } from './id-statistics';
 import { createJ1939Scanner, type J1939Scan } from './j1939-scan';
 import { createLoadCounter, type LoadOverTime } from './load-over-time';
@@ -119,15 +120,15 @@ export async function decodeChunked(
  * Splits the first decode into `count` parts for as many workers: the bus figures go to part 0, the
  * map's frames to the parts by the work they bring (their frames in the capture × (1 + channels),
  * a proxy), part 0 counting the bus figures as `busWeight` per frame of the capture: measured on
- * the capture benchmark (bench/captures.ts, 4 M frames), the survey, bus load and segments rebuilt in
- * capture order cost about 240 ns a frame, decoding a frame of four channels from its chunk about
- * 330 ns, i.e. about 4 units of 65 ns. Parts left empty are dropped.
+ * the capture benchmark's workload (bench/captures.ts, 4 M frames, bundled code), the survey and bus
+ * load cost about 130 ns a frame, decoding a frame of four channels from its chunk about 210 ns,
+ * i.e. 5 units of about 42 ns. Parts left empty are dropped.
  */
 export function planDecodeParts(
 	index: ChunkIndex,
 	compiled: CompiledMap,
 	count: number,
-	busWeight = 4
+	busWeight = 3
 ): DecodePart[] {
 	if (count <= 1) return [{ bus: true, frames: null }];
 	const work = new Float64Array(compiled.frames.length);
@@ -149,6 +150,11 @@ export function planDecodeParts(
 	return owned
 		.map((frames, p) => ({ bus: p === 0, frames: frames.sort((a, b) => a - b) }))
 		.filter((part) => part.bus || part.frames.length > 0);
+}
+
+function hasFdFrames(chunk: Chunk): boolean {
+	for (let i = 0; i < chunk.count; i++) if (chunk.flags[i] & FLAG_FD) return true;
+	return false;
 }
 
 /** Which keys a part decodes from their own chunks, and which from the segment in capture order. */
@@ -286,10 +292,17 @@ export async function decodeChunkedPart(
 	for (let s = 0; s < index.segmentCount; s++) {
 		const segment = await source.segment(s);
 		if (part.bus) {
-			const columns = segment.columns();
-			survey!.add(columns);
-			load!.add(columns);
-			j1939?.add(columns);
+			// The survey is per identifier and a classical frame's bus bits are a whole number (so
+			// their sums do not depend on order): a split decode's bus part reads the chunks as
+			// they are. J1939 transfers, FD frames' fractional bit times and a part that decodes
+			// every frame anyway take the segment rebuilt in capture order.
+			const chunks = keys && !j1939 ? segment.chunks.map((_, slot) => segment.chunk(slot)) : null;
+			const pieces = chunks && !chunks.some(hasFdFrames) ? chunks : [segment.columns()];
+			for (const piece of pieces) {
+				survey!.add(piece);
+				load!.add(piece);
+				j1939?.add(piece);
+			}
 		}
 		if (decodes) {
 			const columns = keys ? partColumns(segment, keys) : segment.columns();

@@ -71,10 +71,14 @@ export function createIdSurvey(compiled: CompiledMap): {
 	const tallies = new Map<number, Tally>();
 	const add = (store: FrameColumns) => {
 		const { time, id, flags, length, dataOffset, data } = store;
+		// The previous frame's tally (a chunk of the store is one ID: one lookup for all its frames).
+		let lastKey = -1;
+		let last: Tally | undefined;
 		for (let i = 0; i < store.count; i++) {
 			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
 			const key = extended ? id[i] + 0x20000000 : id[i];
-			let t = tallies.get(key);
+			let t = key === lastKey ? last : tallies.get(key);
+			lastKey = key;
 			if (t === undefined) {
 				t = {
 					id: id[i],
@@ -103,6 +107,7 @@ export function createIdSurvey(compiled: CompiledMap): {
 				t.gapM2 += delta * (gap - t.gapMean);
 				t.lastTime = time[i];
 			}
+			last = t;
 			t.count++;
 			if (length[i] < t.minLength) t.minLength = length[i];
 			if (length[i] > t.maxLength) t.maxLength = length[i];
