@@ -120,15 +120,15 @@ export async function decodeChunked(
  * Splits the first decode into `count` parts for as many workers: the bus figures go to part 0, the
  * map's frames to the parts by the work they bring (their frames in the capture × (1 + channels),
  * a proxy), part 0 counting the bus figures as `busWeight` per frame of the capture: measured on
- * the capture benchmark's workload (bench/captures.ts, 4 M frames, bundled code), the survey and bus
- * load cost about 130 ns a frame, decoding a frame of four channels from its chunk about 210 ns,
- * i.e. 5 units of about 42 ns. Parts left empty are dropped.
+ * the capture benchmark's workload (bench/captures.ts, 4 M frames, bundled code, a busy machine),
+ * the survey and bus load cost about 135 ns a frame, decoding a frame of four channels from its
+ * chunk about 180 ns, i.e. 5 units of about 36 ns. Parts left empty are dropped.
  */
 export function planDecodeParts(
 	index: ChunkIndex,
 	compiled: CompiledMap,
 	count: number,
-	busWeight = 3
+	busWeight = 4
 ): DecodePart[] {
 	if (count <= 1) return [{ bus: true, frames: null }];
 	const work = new Float64Array(compiled.frames.length);
@@ -175,8 +175,11 @@ function keysOfPart(index: ChunkIndex, compiled: CompiledMap, frames: readonly n
 	return { fromChunk, inOrder, any: inOrder.some((x) => x === 1) };
 }
 
-/** The frames of a part in one segment: its identifiers' chunks, then its multi-identifier frames in capture order. */
-function partColumns(segment: Segment, keys: ReturnType<typeof keysOfPart>): FrameColumns {
+/**
+ * The frames of a part in one segment, as pieces: its identifiers' chunks, then its
+ * multi-identifier frames in capture order. Each frame's frames are in one piece, in capture order.
+ */
+function partPieces(segment: Segment, keys: ReturnType<typeof keysOfPart>): FrameColumns[] {
 	const pieces: FrameColumns[] = [];
 	segment.chunks.forEach((c, slot) => {
 		if (keys.fromChunk[c.key]) pieces.push(segment.chunk(slot));
@@ -192,7 +195,7 @@ function partColumns(segment: Segment, keys: ReturnType<typeof keysOfPart>): Fra
 			pieces.push(selectFrames(columns, keep));
 		}
 	}
-	return pieces.length === 1 ? pieces[0] : concatColumns(pieces);
+	return pieces;
 }
 
 function selectFrames(columns: FrameColumns, keep: readonly number[]): FrameColumns {
@@ -217,38 +220,6 @@ function selectFrames(columns: FrameColumns, keep: readonly number[]): FrameColu
 		out.data.set(columns.data.subarray(from, from + columns.length[i]), at);
 		at += columns.length[i];
 	});
-	return out;
-}
-
-/** Pieces of frames one after the other (each piece's payload pool appended). */
-function concatColumns(pieces: readonly FrameColumns[]): FrameColumns {
-	let n = 0;
-	let bytes = 0;
-	for (const p of pieces) {
-		n += p.count;
-		bytes += p.data.byteLength;
-	}
-	const out = {
-		count: n,
-		time: new Float64Array(n),
-		id: new Uint32Array(n),
-		flags: new Uint8Array(n),
-		length: new Uint8Array(n),
-		dataOffset: new Uint32Array(n),
-		data: new Uint8Array(bytes)
-	};
-	let at = 0;
-	let base = 0;
-	for (const p of pieces) {
-		out.time.set(p.time.subarray(0, p.count), at);
-		out.id.set(p.id.subarray(0, p.count), at);
-		out.flags.set(p.flags.subarray(0, p.count), at);
-		out.length.set(p.length.subarray(0, p.count), at);
-		for (let i = 0; i < p.count; i++) out.dataOffset[at + i] = base + p.dataOffset[i];
-		out.data.set(p.data, base);
-		at += p.count;
-		base += p.data.byteLength;
-	}
 	return out;
 }
 
@@ -304,9 +275,10 @@ export async function decodeChunkedPart(
 				j1939?.add(piece);
 			}
 		}
-		if (decodes) {
-			const columns = keys ? partColumns(segment, keys) : segment.columns();
-			decodeChannels(columns, compiled).forEach((c, k) => {
+		// A channel's samples are all in one piece, so each channel still sees them in capture order.
+		const pieces = !decodes ? [] : keys ? partPieces(segment, keys) : [segment.columns()];
+		for (const piece of pieces) {
+			decodeChannels(piece, compiled).forEach((c, k) => {
 				if (c.count === 0 && c.notAvailableCount === 0 && c.errorCount === 0) return;
 				const a = accumulators[k];
 				a.count += c.count;
