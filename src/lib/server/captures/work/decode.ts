@@ -18,7 +18,7 @@ import {
 	planDecodeParts,
 	type ChunkedDecodingPart
 } from '../../../can/capture/chunked-decode';
-import { pyramidToBytes } from '../../../can/capture/pyramid';
+import { pyramidBytes, pyramidToBytes, type Pyramid } from '../../../can/capture/pyramid';
 import { compileMap } from '../../../can/decoder';
 import type { CanMap } from '../../../can/map';
 import type { BlobStorage } from '../../storage/storage';
@@ -41,7 +41,14 @@ interface DecodeTaskFields {
 	folder: string;
 }
 
-/** Writes the pyramids of the given channels (others get an empty range); returns each channel's entry. */
+/** Stored size of a pyramid (pyramidToBytes: header, one length per level, 40 bytes a node). */
+const storedSize = (p: Pyramid) => 16 + 8 * p.levels.length + pyramidBytes(p);
+
+/**
+ * Writes the pyramids of the given channels (others get an empty range); returns each channel's
+ * entry. Each pyramid is turned into bytes only when the storage asks for it, and let go once
+ * written, so memory never holds every pyramid twice.
+ */
 async function storePyramids(
 	storage: BlobStorage,
 	key: string,
@@ -49,20 +56,28 @@ async function storePyramids(
 	owned: (k: number) => boolean,
 	part?: number
 ): Promise<StoredDecode['channels']> {
-	const bytes = decoding.pyramids.map((p, k) => (owned(k) ? pyramidToBytes(p) : null));
+	const pyramids = decoding.pyramids;
 	let offset = 0;
 	const entries = decoding.channels.map((c, k) => {
 		const entry = {
 			firstTime: c.firstTime,
 			lastTime: c.lastTime,
 			pyramidOffset: offset,
-			pyramidBytes: bytes[k]?.byteLength ?? 0,
+			pyramidBytes: owned(k) ? storedSize(pyramids[k]) : 0,
 			...(part === undefined ? {} : { pyramidPart: part })
 		};
 		offset += entry.pyramidBytes;
 		return entry;
 	});
-	await storage.put(key, pieces(bytes.filter((b): b is Uint8Array => b !== null)));
+	async function* bytes(): AsyncGenerator<Uint8Array> {
+		for (let k = 0; k < pyramids.length; k++) {
+			if (!owned(k)) continue;
+			const out = pyramidToBytes(pyramids[k]);
+			pyramids[k] = { count: 0, levels: [] };
+			yield out;
+		}
+	}
+	await storage.put(key, bytes());
 	return entries;
 }
 
