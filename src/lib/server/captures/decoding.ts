@@ -25,7 +25,7 @@ import {
 	isLegacyStoreKey
 } from './capture-store';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
-import { captureWorkerCount, runCaptureTask } from './pool';
+import { captureWorkerCount, heavyTasksInFlight, runCaptureTask } from './pool';
 import { mergeDecodeParts, summaryKey } from './work/decode';
 import type { DecodePartOutcome, SamplesTask, StoredDecode } from './work/tasks';
 
@@ -90,11 +90,13 @@ export async function captureIndexKey(
 }
 
 /** Captures from this many frames on are decoded in parts, one per worker (smaller ones in one pass). */
-export const SPLIT_DECODE_FROM_FRAMES = 1 << 19;
+export const SPLIT_DECODE_FROM_FRAMES = 1 << 21;
 
 /**
  * The first decode in the worker pool: in one pass, or for a large capture in as many parts as the
- * pool has workers (work/decode.ts), whose small figures are then joined here.
+ * pool has workers (work/decode.ts), whose small figures are then joined here. Only an idle pool
+ * splits: when other heavy work runs (other decodes, exports, processing) every thread is busy
+ * anyway, and parts side by side with it would only add their working memory to theirs.
  */
 async function firstDecode(
 	services: Services,
@@ -104,7 +106,8 @@ async function firstDecode(
 	frameCount: number
 ): Promise<StoredDecode> {
 	const on = { storage: services.storage.settings, indexKey, map, folder };
-	const parts = frameCount >= SPLIT_DECODE_FROM_FRAMES ? captureWorkerCount() : 1;
+	const parts =
+		frameCount >= SPLIT_DECODE_FROM_FRAMES && heavyTasksInFlight() === 0 ? captureWorkerCount() : 1;
 	if (parts <= 1) return runCaptureTask<StoredDecode>({ kind: 'decode', ...on });
 	const outcomes = await Promise.all(
 		Array.from({ length: parts }, (_, part) =>

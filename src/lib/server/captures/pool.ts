@@ -108,16 +108,31 @@ export function startCaptureWorkers(): void {
 	);
 }
 
+let heavyTasks = 0;
+
+/** Tasks sent to the heavy pool and not finished yet (running or queued). */
+export function heavyTasksInFlight(): number {
+	return heavyTasks;
+}
+
 /** Runs a task on a worker; `interactive` for short answers a person waits for (series windows). */
 export async function runCaptureTask<T>(
 	task: CaptureTask,
 	options: { interactive?: boolean; signal?: AbortSignal; transferList?: TransferListItem[] } = {}
 ): Promise<T> {
 	const { heavy, interactive } = await getPools();
-	return (options.interactive ? interactive : heavy).run(task, {
-		signal: options.signal,
-		transferList: options.transferList
-	}) as Promise<T>;
+	const run = () =>
+		(options.interactive ? interactive : heavy).run(task, {
+			signal: options.signal,
+			transferList: options.transferList
+		}) as Promise<T>;
+	if (options.interactive) return run();
+	heavyTasks++;
+	try {
+		return await run();
+	} finally {
+		heavyTasks--;
+	}
 }
 
 /** Ends the worker threads (at shutdown; tasks still running are stopped). */
