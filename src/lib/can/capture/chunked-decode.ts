@@ -410,7 +410,9 @@ export async function channelSamples(
 	const take = (columns: FrameColumns) => {
 		const c = decodeChannels(columns, compiled)[channel];
 		times.push(c.time.subarray(0, c.count));
-		values.push(c.value.subarray(0, c.count));
+		// A copy: the values are a view into the table of every channel of the frame, which would
+		// otherwise stay in memory until the pieces are joined.
+		values.push(c.value.slice(0, c.count));
 	};
 	if (keys.length === 1) {
 		const k = keys[0];
