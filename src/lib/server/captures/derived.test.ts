@@ -138,6 +138,18 @@ describe('derived channels in a worker', () => {
 			derived: [{ name: 'Bad', unit: '', formula: 'EngineSpeed +' }]
 		});
 		await expect(exportRefused).rejects.toMatchObject({ status: 400 });
+		// Far too many wide rows: refused before the download starts, naming the interval.
+		const tooManyRows = exportDerived(services, workspaceId, captureId, {
+			decode: decodeId,
+			kind: 'wide',
+			interval: 1e-9,
+			mode: 'last',
+			derived: [{ name: 'Mix', unit: '', formula: FORMULA }]
+		});
+		await expect(tooManyRows).rejects.toMatchObject({
+			status: 400,
+			issues: [{ path: 'interval' }]
+		});
 	});
 
 	it('exports the derived channel after the decoded ones, its rows the series values', async () => {

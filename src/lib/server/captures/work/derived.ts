@@ -16,7 +16,7 @@ import { parseFormula } from '../../../can/derived/formula';
 import { histogram, spanStatistics, xyPairs } from '../../../can/derived/span';
 import type { BlobStorage } from '../../storage/storage';
 import { byteCache, openChunkSource } from '../capture-store';
-import { streamToPort } from './export';
+import { refusedForRows, streamToPort } from './export';
 import { compiledFor } from './series';
 import type { DerivedExportTask, DerivedOutcome, DerivedTask, FormulaRefusal } from './tasks';
 
@@ -148,19 +148,10 @@ export function runDerivedExport(
 				? longFormCsv(channels)
 				: wideFormCsv(channels, { interval: task.interval, mode: task.mode });
 		// The first chunk now, so a refusal (far too many wide rows) comes before the download starts.
-		let first: IteratorResult<string>;
-		try {
-			first = chunks.next();
-		} catch (thrown) {
-			if (thrown instanceof RangeError)
-				return {
-					refused: {
-						message: thrown.message,
-						issues: [{ path: 'interval', message: thrown.message }]
-					}
-				};
-			throw thrown;
-		}
+		const primed: IteratorResult<string>[] = [];
+		const refused = refusedForRows(() => primed.push(chunks.next()));
+		if (refused) return refused;
+		const first = primed[0];
 		return {
 			chunks: fromSync(
 				(function* () {

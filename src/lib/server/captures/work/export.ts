@@ -80,6 +80,22 @@ export async function streamToPort(
 	}
 }
 
+/**
+ * Runs `start` (which throws a RangeError for far too many wide rows) and answers the refusal
+ * naming the interval, or null when it went through; other errors are thrown on.
+ */
+export function refusedForRows(start: () => unknown): { refused: FormulaRefusal } | null {
+	try {
+		start();
+		return null;
+	} catch (error) {
+		if (!(error instanceof RangeError)) throw error;
+		return {
+			refused: { message: error.message, issues: [{ path: 'interval', message: error.message }] }
+		};
+	}
+}
+
 export function runExport(
 	storage: BlobStorage,
 	task: Omit<ExportTask, 'port'> & { port: MessagePort }
@@ -90,18 +106,7 @@ export function runExport(
 		const compiled = compileMap(task.map!);
 		if (task.exportKind === 'long') return { chunks: longFormCsvChunked(source, compiled) };
 		const options = { interval: task.interval, mode: task.mode, channelTimes: task.channelTimes };
-		try {
-			wideRows(options); // refuses too many rows before anything is sent
-		} catch (error) {
-			if (error instanceof RangeError)
-				return {
-					refused: {
-						message: error.message,
-						issues: [{ path: 'interval', message: error.message }]
-					}
-				};
-			throw error;
-		}
-		return { chunks: wideFormCsvChunked(source, compiled, options) };
+		const refused = refusedForRows(() => wideRows(options)); // before anything is sent
+		return refused ?? { chunks: wideFormCsvChunked(source, compiled, options) };
 	});
 }
