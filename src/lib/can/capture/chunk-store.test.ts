@@ -318,8 +318,7 @@ describe('the bus part of a split decode', () => {
 			expect(single.busLoad.fdFrames > 0).toBe(lengths.includes(64));
 			const plan = planDecodeParts(index, compiled, 2);
 			const parts = [];
-			for (const part of plan)
-				parts.push(await decodeChunkedPart(source, compiled, part, options));
+			for (const part of plan) parts.push(await decodeChunkedPart(source, compiled, part, options));
 			const merged = mergeDecodeParts(compiled, parts);
 			expect(merged.ids).toEqual(single.ids);
 			expect(merged.unknownIds).toEqual(single.unknownIds);
