@@ -22,8 +22,10 @@ import { runCaptureTask } from './pool';
 import type { DerivedOutcome, DerivedTask } from './work/tasks';
 
 /**
- * Asks the interactive pool (a person waits for the answer, as for a series window); a formula
- * that does not read is a 400 naming the position.
+ * Asks a worker; a formula that does not read is a 400 naming the position. A derived series is a
+ * plot, answered in the interactive pool beside the series windows; a span's statistics, histogram
+ * and XY pairs go to the heavy pool, so measuring (which may decode whole channels of a long
+ * capture) never holds up a plot's window on the interactive thread.
  */
 async function askWorker(
 	services: Services,
@@ -39,7 +41,7 @@ async function askWorker(
 			folder: open.folder,
 			query
 		},
-		{ interactive: true }
+		{ interactive: query.what === 'series' }
 	);
 	if (!outcome.ok) throw new Problem(400, outcome.refusal.message, outcome.refusal.issues);
 	return outcome;
