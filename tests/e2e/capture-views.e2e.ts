@@ -114,8 +114,11 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	// Min/max decimation keeps each bucket's extremes, so the whole-capture window shows the true extent.
 	await expect(summary).toContainText(`2 strips, 2 channels, from ${from} s to ${to} s.`);
 	const extent = async (label: string, unit: string) => {
+		const pattern = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`);
+		// Each strip's window arrives on its own: wait for this channel's figures, then read them.
+		await expect(summary).toContainText(pattern);
 		const text = await summary.innerText();
-		const m = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`).exec(text);
+		const m = pattern.exec(text);
 		expect(m, `${label} in "${text}"`).not.toBeNull();
 		return { min: Number(m![1]), max: Number(m![2]) };
 	};
