@@ -11,6 +11,8 @@
  *  2. process: POST …/process, then polling …/status until ready (chunked store written by a worker);
  *  3. decode: POST …/decode with r1 → the summary (statistics and pyramids stored by a worker);
  *  4. series windows of one channel at 2,000 points: the whole capture and a 1 % window;
+ *     4b. a derived channel over two channels (work/derived.ts): the first request (both channels
+ *     decoded from their chunks, the formula evaluated in a worker), then a 1 % window of it;
  *  5. after a restart: a new process (bench/captures-restart.ts) opens the same database and storage
  *     and asks for the summary and two windows (stored decode read back, fresh worker threads).
  * Throughout, a trivial request (GET …/status, one indexed SELECT) is sent every 10 ms and its
@@ -50,6 +52,7 @@ import { POST as processRoute } from '../src/routes/api/workspaces/[ws]/captures
 import { GET as statusRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/status/+server';
 import { POST as decodeRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/decode/+server';
 import { GET as seriesRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/series/+server';
+import { GET as derivedRoute } from '../src/routes/api/workspaces/[ws]/captures/[id]/derived-series/+server';
 import { GET as exportRoute } from '../src/routes/w/[ws]/captures/[id]/export/+server';
 
 const argValue = (name: string) => {
@@ -64,6 +67,8 @@ const UNKNOWN_IDS = 8;
 const FIRST_ID = 0x100;
 const SEED = 0xca97;
 const POINTS = 2000;
+/** Two channels of different frames, so the evaluation merges two time bases. */
+const DERIVED_FORMULA = '{F0.be16} * 2 + {F1.le16}';
 
 const signals: SignalInput[] = [
 	{ name: 'be16', startBit: 8, length: 16, byteOrder: 'big', scale: 0.1 },
@@ -328,6 +333,33 @@ async function main() {
 		phase(
 			`4 series, ${POINTS} points: whole capture first ${whole1.ms.toFixed(0)} ms then ${whole2.ms.toFixed(0)} ms; a 1 % window ${narrow.ms.toFixed(0)} ms; a 0.01 % window ${tiny.ms.toFixed(0)} ms`,
 			whole1.ms + whole2.ms + narrow.ms + tiny.ms
+		);
+
+		// A derived channel over two channels of different frames (evaluated in a worker from the
+		// stored capture): the first request evaluates it, the second is a window of the kept result.
+		const derived = async (query: string) => {
+			const t = performance.now();
+			const body = await ok(
+				await derivedRoute(
+					event(
+						`${API}/[id]/derived-series`,
+						{ id },
+						{
+							query: `?decode=${decoded.decode.id}&formula=${encodeURIComponent(DERIVED_FORMULA)}&points=${POINTS}${query}`
+						}
+					)
+				),
+				'derived series'
+			);
+			return { ms: performance.now() - t, count: body.count as number };
+		};
+		memory.phase();
+		probe.phase();
+		const derivedFirst = await derived('');
+		const derivedAgain = await derived(`&from=${duration * 0.5}&to=${duration * 0.51}`);
+		phase(
+			`4b derived series \`${DERIVED_FORMULA}\` (${derivedFirst.count.toLocaleString('en')} samples), ${POINTS} points: whole capture first ${derivedFirst.ms.toFixed(0)} ms (decoding both channels and evaluating); then a 1 % window ${derivedAgain.ms.toFixed(0)} ms`,
+			derivedFirst.ms + derivedAgain.ms
 		);
 
 		// A real restart: a new process with cold caches and new worker threads.

@@ -116,8 +116,11 @@ test('the capture views show the genset capture as the fixture bytes say', async
 	// The series arrive after the window is set: wait for both before reading their extent.
 	await expect(summary).not.toContainText('no samples in this window', { timeout: 20_000 });
 	const extent = async (label: string, unit: string) => {
+		const pattern = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`);
+		// Each strip's window arrives on its own: wait for this channel's figures, then read them.
+		await expect(summary).toContainText(pattern);
 		const text = await summary.innerText();
-		const m = new RegExp(`${label}: (\\S+) to (\\S+) ${unit}`).exec(text);
+		const m = pattern.exec(text);
 		expect(m, `${label} in "${text}"`).not.toBeNull();
 		return { min: Number(m![1]), max: Number(m![2]) };
 	};

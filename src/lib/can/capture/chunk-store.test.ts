@@ -2,12 +2,22 @@
 // by field), on random captures and on the demo fixtures; the chunked decode against decodeCapture.
 import { createReadStream } from 'node:fs';
 import { readFile } from 'node:fs/promises';
+import { Readable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
 import { compileMap } from '../decoder';
 import { parseMap } from '../map-json';
 import { seededRandom } from '../testing/seeded-random';
 import { ChunkIndex, ChunkStoreWriter, Segment } from './chunk-store';
-import { channelSamples, chunkSource, decodeChunked, decodedSegments } from './chunked-decode';
+import {
+	channelSamples,
+	chunkSource,
+	decodeChunked,
+	decodeChunkedPart,
+	decodedSegments,
+	keysOfFrame,
+	mergeDecodeParts,
+	planDecodeParts
+} from './chunked-decode';
 import {
 	framesCsvChunked,
 	longFormCsvChunked,
@@ -151,13 +161,21 @@ describe('chunked frame store', () => {
 	});
 });
 
-async function fixtureDecode(mapName: string, captureName: string, segmentFrames: number) {
+async function fixtureDecode(
+	mapName: string,
+	captureName: string,
+	segmentFrames: number,
+	edit?: (csv: string) => string
+) {
 	const parsed = parseMap(await readFile(fixture(mapName), 'utf8'));
 	if (!parsed.ok) throw new Error('fixture map does not parse');
 	const compiled = compileMap(parsed.map);
-	const whole = await ingestCapture(createReadStream(fixture(captureName)));
+	const text = edit ? edit(await readFile(fixture(captureName), 'utf8')) : null;
+	const read = () =>
+		text === null ? createReadStream(fixture(captureName)) : Readable.from([Buffer.from(text)]);
+	const whole = await ingestCapture(read());
 	const { writer, open } = memoryStore(segmentFrames);
-	const report = await ingestCaptureInto(createReadStream(fixture(captureName)), writer);
+	const report = await ingestCaptureInto(read(), writer);
 	const chunked = open({ timeOrigin: report.timeOrigin ?? 0, epoch: report.layout.epochTime });
 	return { compiled, whole, report, ...chunked };
 }
@@ -228,6 +246,85 @@ describe('chunked decode of the demo fixtures (decodeCapture on the whole FrameS
 			channels.forEach((c, k) => joined[k].push(...c.value.subarray(0, c.count)));
 		reference.channels.forEach((c, k) => expect(joined[k]).toEqual(Array.from(c.value)));
 	});
+});
+
+/** Every other EEC1 frame (PGN 61444) sent from source address 0x01 instead of 0x00: the J1939 map decodes both. */
+const secondEngine = (csv: string) => {
+	let n = 0;
+	return csv.replace(/,0CF00400,/g, (m) => (n++ % 2 ? ',0CF00401,' : m));
+};
+
+describe('a first decode split into parts (one per worker) equals the single pass', () => {
+	it.each([
+		['club-racer-ecu.map.json', 'club-racer-session.csv', 1000, undefined],
+		['genset-j1939.map.json', 'genset-idle.csv', 333, undefined],
+		['genset-j1939.map.json', 'genset-idle.csv', 250, secondEngine]
+	])('%s over %s', async (mapName, captureName, segmentFrames, edit) => {
+		const { compiled, source, index } = await fixtureDecode(
+			mapName,
+			captureName,
+			segmentFrames,
+			edit
+		);
+		const single = await decodeChunked(source, compiled);
+		// With two engines, a frame is fed by two identifiers (J1939 by PGN): the capture-order path.
+		const multiKey = compiled.frames.some((_, f) => keysOfFrame(index, compiled, f).length > 1);
+		expect(multiKey).toBe(edit !== undefined);
+		for (const [count, busWeight] of [
+			[2, 5],
+			[2, 0],
+			[3, 1],
+			[4, 100]
+		]) {
+			const plan = planDecodeParts(index, compiled, count, busWeight);
+			// Every frame owned by exactly one part, the bus figures by part 0 only.
+			expect(plan.flatMap((p) => p.frames!).sort((a, b) => a - b)).toEqual(
+				compiled.frames.map((_, f) => f)
+			);
+			expect(plan.map((p) => p.bus)).toEqual(plan.map((_, at) => at === 0));
+			expect(plan.length).toBeGreaterThan(1);
+			const parts = [];
+			for (const part of plan) parts.push(await decodeChunkedPart(source, compiled, part));
+			expect(parts.slice(1).every((p) => p.bus === null)).toBe(true);
+			expect(mergeDecodeParts(compiled, parts)).toEqual(single);
+		}
+	});
+});
+
+describe('the bus part of a split decode', () => {
+	it.each([
+		[6, 'with', [0, 1, 5, 8, 8, 12, 64]],
+		[7, 'without', [0, 1, 5, 8, 8]]
+	])(
+		'seed %i, random IDs %s CAN FD frames: survey and bus load equal the single pass',
+		async (seed, _fd, lengths) => {
+			const parsed = parseMap(await readFile(fixture('club-racer-ecu.map.json'), 'utf8'));
+			if (!parsed.ok) throw new Error('fixture map does not parse');
+			const compiled = compileMap(parsed.map);
+			const rand = seededRandom(seed);
+			const ids = [0x100, 0x101, 0x7ff, 0x123, 0x5a5];
+			const { writer, open } = memoryStore(700);
+			let t = 0;
+			for (let i = 0; i < 5000; i++) {
+				t += rand.next() * 0.001;
+				const data = rand.bytes(rand.pick(lengths));
+				writer.add(t, rand.pick(ids), false, data, data.length);
+			}
+			const { source, index } = open();
+			// A data bit rate that is not a power-of-two multiple of the nominal one: FD frames'
+			// bit times are then fractions whose sums depend on their order.
+			const options = { dataBitrate: 3_000_000 };
+			const single = await decodeChunked(source, compiled, options);
+			expect(single.busLoad.fdFrames > 0).toBe(lengths.includes(64));
+			const plan = planDecodeParts(index, compiled, 2);
+			const parts = [];
+			for (const part of plan) parts.push(await decodeChunkedPart(source, compiled, part, options));
+			const merged = mergeDecodeParts(compiled, parts);
+			expect(merged.ids).toEqual(single.ids);
+			expect(merged.unknownIds).toEqual(single.unknownIds);
+			expect(merged.busLoad).toEqual(single.busLoad);
+		}
+	);
 });
 
 describe('chunked exports (export.ts over the whole capture is the reference)', () => {

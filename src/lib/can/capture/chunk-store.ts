@@ -42,40 +42,53 @@ export interface ChunkStoreOrigin {
 
 // ---------------------------------------------------------------- small columns
 
-/** A u8 column: mode 0 = every value the same (one byte follows), 1 = one byte per frame. */
-function encodedU8Bytes(values: Uint8Array): number {
-	for (let i = 1; i < values.length; i++) if (values[i] !== values[0]) return 1 + values.length;
-	return 2;
+/**
+ * A small column of one chunk as written: a number when every frame has that value (mode 0), the
+ * values otherwise (mode 1). u8 columns: mode byte, then one byte or one per frame; u16 columns:
+ * the same, values little-endian byte by byte (no alignment needed).
+ */
+type Small = number | Uint8Array | Uint16Array;
+
+/** The one value of values[0, n), or -1 when they differ (or n is 0, which is written as 0). */
+function sameValue(values: Uint8Array | Uint16Array, n: number): number {
+	if (n === 0) return 0;
+	const first = values[0];
+	for (let i = 1; i < n; i++) if (values[i] !== first) return -1;
+	return first;
 }
-function writeU8Column(out: Uint8Array, at: number, values: Uint8Array): number {
-	if (encodedU8Bytes(values) === 2) {
+function small(values: Uint8Array | Uint16Array): Small {
+	const same = sameValue(values, values.length);
+	return same >= 0 ? same : values;
+}
+const smallU8Bytes = (c: Small) => (typeof c === 'number' ? 2 : 1 + c.length);
+const smallU16Bytes = (c: Small) => (typeof c === 'number' ? 3 : 1 + 2 * c.length);
+function writeSmallU8(out: Uint8Array, at: number, c: Small): number {
+	if (typeof c === 'number') {
 		out[at] = 0;
-		out[at + 1] = values.length ? values[0] : 0;
+		out[at + 1] = c;
 		return at + 2;
 	}
 	out[at] = 1;
-	out.set(values, at + 1);
-	return at + 1 + values.length;
+	out.set(c, at + 1);
+	return at + 1 + c.length;
+}
+function writeSmallU16(out: Uint8Array, at: number, c: Small): number {
+	if (typeof c === 'number') {
+		out[at] = 0;
+		out[at + 1] = c & 0xff;
+		out[at + 2] = c >>> 8;
+		return at + 3;
+	}
+	out[at++] = 1;
+	for (let i = 0; i < c.length; i++) {
+		out[at++] = c[i] & 0xff;
+		out[at++] = c[i] >>> 8;
+	}
+	return at;
 }
 function readU8Column(bytes: Uint8Array, at: number, n: number): [Uint8Array, number] {
 	if (bytes[at] === 0) return [new Uint8Array(n).fill(bytes[at + 1]), at + 2];
 	return [bytes.slice(at + 1, at + 1 + n), at + 1 + n];
-}
-/** A u16 column, the same two modes, values little-endian byte by byte (no alignment needed). */
-function encodedU16Bytes(values: Uint16Array): number {
-	for (let i = 1; i < values.length; i++) if (values[i] !== values[0]) return 1 + 2 * values.length;
-	return 3;
-}
-function writeU16Column(out: Uint8Array, at: number, values: Uint16Array): number {
-	const constant = encodedU16Bytes(values) === 3;
-	out[at++] = constant ? 0 : 1;
-	const n = constant ? 1 : values.length;
-	for (let i = 0; i < n; i++) {
-		const v = values.length ? values[i] : 0;
-		out[at++] = v & 0xff;
-		out[at++] = v >>> 8;
-	}
-	return at;
 }
 function readU16Column(bytes: Uint8Array, at: number, n: number): [Uint16Array, number] {
 	const values = new Uint16Array(n);
@@ -289,37 +302,51 @@ function encodeSegment(
 	const fill = start.slice(0, chunkCount);
 	for (let i = 0; i < n; i++) members[fill[slot[i]]++] = i;
 
-	// Per chunk: its small columns gathered, to size and write them.
+	// Per chunk: its small columns gathered, to size and write them. A column with one value over
+	// the whole segment (today's CSV layouts fill defaults) is that value in every chunk, so it is
+	// not gathered per chunk at all.
+	const segmentFlags = sameValue(cols.flags, n);
+	const segmentKind = sameValue(cols.kind, n);
+	const segmentDirection = sameValue(cols.direction, n);
+	const segmentBus = sameValue(cols.bus, n);
+	const segmentTag = sameValue(cols.tag, n);
 	const chunkColumns = keys.map((_, s) => {
 		const m = start[s + 1] - start[s];
-		const pick8 = (src: Uint8Array) => {
+		const from = start[s];
+		const pick8 = (src: Uint8Array, same: number): Small => {
+			if (same >= 0) return same;
 			const out = new Uint8Array(m);
-			for (let j = 0; j < m; j++) out[j] = src[members[start[s] + j]];
-			return out;
+			for (let j = 0; j < m; j++) out[j] = src[members[from + j]];
+			return small(out);
 		};
-		const tag = new Uint16Array(m);
+		let tag: Small = segmentTag;
+		if (segmentTag < 0) {
+			const picked = new Uint16Array(m);
+			for (let j = 0; j < m; j++) picked[j] = cols.tag[members[from + j]];
+			tag = small(picked);
+		}
 		let payload = 0;
 		let minTime = Infinity;
 		let maxTime = -Infinity;
 		for (let j = 0; j < m; j++) {
-			const i = members[start[s] + j];
-			tag[j] = cols.tag[i];
+			const i = members[from + j];
 			payload += cols.length[i];
-			if (cols.time[i] < minTime) minTime = cols.time[i];
-			if (cols.time[i] > maxTime) maxTime = cols.time[i];
+			const t = cols.time[i];
+			if (t < minTime) minTime = t;
+			if (t > maxTime) maxTime = t;
 		}
-		const flags = pick8(cols.flags);
-		const kind = pick8(cols.kind);
-		const direction = pick8(cols.direction);
-		const bus = pick8(cols.bus);
+		const flags = pick8(cols.flags, segmentFlags);
+		const kind = pick8(cols.kind, segmentKind);
+		const direction = pick8(cols.direction, segmentDirection);
+		const bus = pick8(cols.bus, segmentBus);
 		const bytes = align8(
 			9 * m +
 				payload +
-				encodedU8Bytes(flags) +
-				encodedU8Bytes(kind) +
-				encodedU8Bytes(direction) +
-				encodedU8Bytes(bus) +
-				encodedU16Bytes(tag)
+				smallU8Bytes(flags) +
+				smallU8Bytes(kind) +
+				smallU8Bytes(direction) +
+				smallU8Bytes(bus) +
+				smallU16Bytes(tag)
 		);
 		return { m, flags, kind, direction, bus, tag, bytes, minTime, maxTime };
 	});
@@ -361,6 +388,7 @@ function encodeSegment(
 		else if (width === 2) view.setUint16(p, slot[i], true);
 		else view.setUint32(p, slot[i], true);
 	}
+	const source = new DataView(cols.data.buffer, cols.data.byteOffset, cols.data.byteLength);
 	entries.forEach((e, s) => {
 		const c = chunkColumns[s];
 		const m = c.m;
@@ -372,15 +400,17 @@ function encodeSegment(
 		for (let j = 0; j < m; j++) bytes[p++] = cols.length[members[start[s] + j]];
 		for (let j = 0; j < m; j++) {
 			const i = members[start[s] + j];
-			const from = cols.dataOffset[i];
-			const len = cols.length[i];
-			for (let k = 0; k < len; k++) bytes[p++] = cols.data[from + k];
+			let from = cols.dataOffset[i];
+			let len = cols.length[i];
+			// Four bytes at a time (unaligned reads and writes through DataViews, the same bytes).
+			for (; len >= 4; len -= 4, from += 4, p += 4) view.setUint32(p, source.getUint32(from));
+			for (; len > 0; len--) bytes[p++] = cols.data[from++];
 		}
-		p = writeU8Column(bytes, p, c.flags);
-		p = writeU8Column(bytes, p, c.kind);
-		p = writeU8Column(bytes, p, c.direction);
-		p = writeU8Column(bytes, p, c.bus);
-		writeU16Column(bytes, p, c.tag);
+		p = writeSmallU8(bytes, p, c.flags);
+		p = writeSmallU8(bytes, p, c.kind);
+		p = writeSmallU8(bytes, p, c.direction);
+		p = writeSmallU8(bytes, p, c.bus);
+		writeSmallU16(bytes, p, c.tag);
 	});
 	return { bytes, chunks: entries };
 }

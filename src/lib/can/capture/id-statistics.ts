@@ -80,12 +80,16 @@ export function createIdSurvey(compiled: CompiledMap): {
 	const add = (store: FrameColumns & { readonly bus?: Uint8Array }) => {
 		const { time, id, flags, length, dataOffset, data } = store;
 		const buses = store.bus;
+		// The previous frame's tally (a chunk of the store is one ID: one lookup for all its frames).
+		let lastKey = -1;
+		let last: Tally | undefined;
 		for (let i = 0; i < store.count; i++) {
 			const extended = (flags[i] & FLAG_EXTENDED) !== 0;
 			const bus = buses ? buses[i] : 0;
 			// IDs are below 2^29: (bus, extended, id) as one exact number.
 			const key = bus * 0x40000000 + (extended ? id[i] + 0x20000000 : id[i]);
-			let t = tallies.get(key);
+			let t = key === lastKey ? last : tallies.get(key);
+			lastKey = key;
 			if (t === undefined) {
 				t = {
 					bus,
@@ -115,6 +119,7 @@ export function createIdSurvey(compiled: CompiledMap): {
 				t.gapM2 += delta * (gap - t.gapMean);
 				t.lastTime = time[i];
 			}
+			last = t;
 			t.count++;
 			if (length[i] < t.minLength) t.minLength = length[i];
 			if (length[i] > t.maxLength) t.maxLength = length[i];

@@ -22,10 +22,15 @@ export interface DerivedSeries {
 export function commonTimeBase(inputs: readonly SampledChannel[]): Float64Array {
 	if (inputs.length === 0 || inputs.some((c) => c.time.length === 0)) return new Float64Array(0);
 	const start = Math.max(...inputs.map((c) => c.time[0]));
-	const all: number[] = [];
+	// Counted first, then filled: one typed array of the times, no growing list (a long capture's
+	// channels have millions of samples).
+	let total = 0;
+	for (const c of inputs) for (let i = 0; i < c.time.length; i++) if (c.time[i] >= start) total++;
+	const sorted = new Float64Array(total);
+	let at = 0;
 	for (const c of inputs)
-		for (let i = 0; i < c.time.length; i++) if (c.time[i] >= start) all.push(c.time[i]);
-	const sorted = Float64Array.from(all).sort();
+		for (let i = 0; i < c.time.length; i++) if (c.time[i] >= start) sorted[at++] = c.time[i];
+	sorted.sort();
 	let n = 0;
 	for (let i = 0; i < sorted.length; i++)
 		if (i === 0 || sorted[i] !== sorted[n - 1]) sorted[n++] = sorted[i];

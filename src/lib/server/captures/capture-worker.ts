@@ -1,7 +1,7 @@
 /**
  * The capture worker thread's entry (run by the pool in pool.ts): parses captures into the chunked
- * store, decodes, answers series windows, replays alert rules and produces exports, so none of that
- * CPU work runs on the server's event loop. Each task names its storage by plain-data settings and
+ * store, decodes, answers series windows and derived channels, replays alert rules and produces
+ * exports, so none of that CPU work runs on the server's event loop. Each task names its storage by plain-data settings and
  * the worker opens it itself. Bundled with esbuild: at build time into the build folder, on demand
  * in development and tests (worker-bundle.ts).
  */
@@ -11,7 +11,8 @@ import type { BlobStorage, StorageSettings } from '../storage/storage';
 import { runAlerts, runSamples } from './work/alerts';
 import { runReceiver } from './work/receivers';
 import { runBusLoad } from './work/bus-load';
-import { runDecode } from './work/decode';
+import { runDecode, runDecodePart } from './work/decode';
+import { runDerived, runDerivedExport } from './work/derived';
 import { runExport } from './work/export';
 import { runCorrelate, runFields } from './work/fields';
 import { runConvert, runProcess } from './work/process';
@@ -42,6 +43,8 @@ export default async function run(task: CaptureTask): Promise<unknown> {
 			return runConvert(storage, task);
 		case 'decode':
 			return runDecode(storage, task);
+		case 'decode-part':
+			return runDecodePart(storage, task);
 		case 'series':
 			return runSeries(storage, task);
 		case 'samples':
@@ -58,5 +61,9 @@ export default async function run(task: CaptureTask): Promise<unknown> {
 			return runExport(storage, { ...task, port: task.port as unknown as MessagePort });
 		case 'bus-load':
 			return runBusLoad(storage, task);
+		case 'derived':
+			return runDerived(storage, task);
+		case 'derived-export':
+			return runDerivedExport(storage, { ...task, port: task.port as unknown as MessagePort });
 	}
 }

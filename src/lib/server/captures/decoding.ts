@@ -23,15 +23,16 @@ import {
 	captureKeys,
 	decodeFolder,
 	forgetCaptureStore,
-	isLegacyStoreKey
+	isLegacyStoreKey,
+	splitBusKey
 } from './capture-store';
 import { guessBitrateFromMap } from './bitrate';
 import { findDecode, insertDecode, requireCaptureRow } from './captures-db';
 import { forgetFieldProposals } from './field-proposal-cache';
-import { runCaptureTask } from './pool';
+import { captureWorkerCount, heavyTasksInFlight, runCaptureTask } from './pool';
 import { readStoredDecode } from './stored-decode';
-import { summaryKey } from './work/decode';
-import type { SamplesTask, StoredDecode } from './work/tasks';
+import { mergeDecodeParts, summaryKey } from './work/decode';
+import type { DecodePartOutcome, SamplesTask, StoredDecode } from './work/tasks';
 
 const MiB = 1024 * 1024;
 /** Stored decodes read back, by storage folder; sized by their JSON. */
@@ -93,12 +94,45 @@ export async function captureIndexKey(
 	return pending;
 }
 
-/** Reads a stored decode, or decodes in a worker (once, however many ask at the same time). */
+/** Captures from this many frames on are decoded in parts, one per worker (smaller ones in one pass). */
+export const SPLIT_DECODE_FROM_FRAMES = 1 << 21;
+
+/**
+ * The first decode in the worker pool: in one pass, or for a large capture in as many parts as the
+ * pool has workers (work/decode.ts), whose small figures are then joined here. Only an idle pool
+ * splits: when other heavy work runs (other decodes, exports, processing) every thread is busy
+ * anyway, and parts side by side with it would only add their working memory to theirs.
+ */
+async function firstDecode(
+	services: Services,
+	indexKey: string,
+	folder: string,
+	map: CanMap,
+	frameCount: number
+): Promise<StoredDecode> {
+	const on = { storage: services.storage.settings, indexKey, map, folder };
+	// A one-bus decode reads a filtered store (no chunk table to share out): one pass.
+	const wholeStore = splitBusKey(indexKey).bus === null;
+	const parts =
+		wholeStore && frameCount >= SPLIT_DECODE_FROM_FRAMES && heavyTasksInFlight() === 0
+			? captureWorkerCount()
+			: 1;
+	if (parts <= 1) return runCaptureTask<StoredDecode>({ kind: 'decode', ...on });
+	const outcomes = await Promise.all(
+		Array.from({ length: parts }, (_, part) =>
+			runCaptureTask<DecodePartOutcome | null>({ kind: 'decode-part', ...on, part, parts })
+		)
+	);
+	return mergeDecodeParts(services.storage, folder, outcomes);
+}
+
+/** Reads a stored decode, or decodes in workers (once, however many ask at the same time). */
 function storedDecode(
 	services: Services,
 	indexKey: string,
 	folder: string,
-	map: CanMap
+	map: CanMap,
+	frameCount: number
 ): Promise<StoredDecode> {
 	const id = JSON.stringify(services.storage.settings);
 	return storedDecodes
@@ -112,13 +146,7 @@ function storedDecode(
 			} catch (error) {
 				if (!(error instanceof StorageNotFoundError)) throw error;
 			}
-			const stored = await runCaptureTask<StoredDecode>({
-				kind: 'decode',
-				storage: services.storage.settings,
-				indexKey,
-				map,
-				folder
-			});
+			const stored = await firstDecode(services, indexKey, folder, map, frameCount);
 			return { stored, bytes: 2 * JSON.stringify(stored).length };
 		})
 		.then((e) => e.stored);
@@ -173,7 +201,7 @@ export async function decodeWith(
 	const storeKey = await captureIndexKey(services, capture);
 	const indexKey = busKey(storeKey, bus);
 	const folder = decodeFolder(storeKey, mapRecord.id, revision, draftVersion, bus);
-	const stored = await storedDecode(services, indexKey, folder, map);
+	const stored = await storedDecode(services, indexKey, folder, map, capture.frame_count ?? 0);
 	const decode = await db.transaction().execute(async (trx) => {
 		const record = await insertDecode(trx, {
 			captureId: capture.id,
@@ -261,7 +289,7 @@ export async function openDecode(
 		map,
 		indexKey,
 		folder,
-		stored: await storedDecode(services, indexKey, folder, map)
+		stored: await storedDecode(services, indexKey, folder, map, capture.frame_count ?? 0)
 	};
 }
 
@@ -322,6 +350,6 @@ export async function openRevisionDecode(
 		map,
 		indexKey,
 		folder,
-		stored: await storedDecode(services, indexKey, folder, map)
+		stored: await storedDecode(services, indexKey, folder, map, capture.frame_count ?? 0)
 	};
 }

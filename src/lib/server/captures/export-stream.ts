@@ -4,6 +4,7 @@
  * holds a few chunks in memory, and the server thread only passes bytes on.
  */
 import { MessageChannel, type MessagePort } from 'node:worker_threads';
+import type { Issue } from '../../api/problem';
 import type { FromExportWorker, ToExportWorker } from './work/export';
 
 /** Chunks the worker may send ahead of the download. */
@@ -12,6 +13,13 @@ const CREDITS_AHEAD = 4;
 /** Thrown before the stream starts when the worker refuses the export (e.g. too many wide rows). */
 export class ExportRefused extends Error {
 	override name = 'ExportRefused';
+	constructor(
+		message: string,
+		/** What the person should change (e.g. the interval, a formula at a column). */
+		readonly issues?: Issue[]
+	) {
+		super(message);
+	}
 }
 
 /**
@@ -35,7 +43,7 @@ export async function streamFromWorker(
 	};
 	port1.on('message', (m: FromExportWorker) => {
 		if (m.type === 'ready') settle(null);
-		else if (m.type === 'refused') settle(new ExportRefused(m.message));
+		else if (m.type === 'refused') settle(new ExportRefused(m.message, m.issues));
 		else if (m.type === 'chunk') queue.push(m.bytes);
 		else if (m.type === 'end') ended = true;
 		else {

@@ -13,29 +13,10 @@ import type { Services } from '../services';
 import { captureIndexKey, openDecode, requireReadyCapture, revisionLabel } from './decoding';
 import { ExportRefused, streamFromWorker } from './export-stream';
 import { runCaptureTask } from './pool';
-import type { ExportTask } from './work/tasks';
+import type { DerivedExportTask, ExportTask } from './work/tasks';
 
 /** The capture's own name without its file extension, for the download's name. */
 export const baseName = (name: string) => name.replace(/\.[A-Za-z0-9]{1,5}$/, '');
-
-/**
- * Pulls the first chunk before the response starts, so a refusal (a wide export with far too many
- * rows) becomes a 400 instead of a download that breaks off.
- */
-export function primed(chunks: Generator<string>): Iterable<string> {
-	let first: IteratorResult<string>;
-	try {
-		first = chunks.next();
-	} catch (thrown) {
-		if (thrown instanceof RangeError)
-			throw new Problem(400, thrown.message, [{ path: 'interval', message: thrown.message }]);
-		throw thrown;
-	}
-	return (function* () {
-		if (!first.done) yield first.value;
-		yield* { [Symbol.iterator]: () => chunks };
-	})();
-}
 
 export async function exportCapture(
 	services: Services,
@@ -83,20 +64,25 @@ export async function exportCapture(
 		});
 		headers.set('x-framewright-revision', revision);
 	}
-	let body: ReadableStream<Uint8Array>;
-	try {
-		body = await streamFromWorker((port) =>
-			runCaptureTask(
-				{ ...task, origin, storage: services.storage.settings, port: port as never },
-				{ transferList: [port] }
-			)
-		);
-	} catch (error) {
-		// A refusal (a wide export with far too many rows) becomes a 400, before the download starts.
-		if (error instanceof ExportRefused)
-			throw new Problem(400, error.message, [{ path: 'interval', message: error.message }]);
-		throw error;
-	}
+	const body = await exportFromWorker({ ...task, origin, storage: services.storage.settings });
 	headers.set('content-disposition', `attachment; filename="${fileName}"`);
 	return new Response(body, { headers });
+}
+
+/**
+ * Runs an export task (ExportTask, DerivedExportTask) in the heavy pool and returns its stream; a
+ * refusal (a wide export with far too many rows, a formula that does not read) becomes a 400
+ * before the download starts.
+ */
+export async function exportFromWorker(
+	task: Omit<ExportTask, 'port'> | Omit<DerivedExportTask, 'port'>
+): Promise<ReadableStream<Uint8Array>> {
+	try {
+		return await streamFromWorker((port) =>
+			runCaptureTask({ ...task, port: port as never }, { transferList: [port] })
+		);
+	} catch (error) {
+		if (error instanceof ExportRefused) throw new Problem(400, error.message, error.issues);
+		throw error;
+	}
 }

@@ -28,6 +28,33 @@ function workerCount(): number {
 	return configuredWorkers ?? Math.max(1, availableParallelism());
 }
 
+/** Threads of the heavy pool: how many parts a large first decode is split into. */
+export function captureWorkerCount(): number {
+	return workerCount();
+}
+
+type LoadBalancer = NonNullable<
+	NonNullable<ConstructorParameters<typeof Piscina>[0]>['loadBalancer']
+>;
+
+/**
+ * An idle thread first; while the pool may still grow, a new thread rather than a busy one (so the
+ * parts of a split decode run side by side, not one after the other on a warm thread); only then
+ * the least busy thread with room. (Piscina's own balancer gives a second task to a busy thread
+ * before starting another.)
+ */
+export function spreadingBalancer(maxThreads: number, tasksPerThread: number): LoadBalancer {
+	return (task, workers) => {
+		let best: (typeof workers)[number] | null = null;
+		for (const worker of workers) {
+			if (worker.currentUsage === 0) return worker;
+			if (worker.isRunningAbortableTask || task.isAbortable) continue;
+			if (worker.currentUsage < (best?.currentUsage ?? tasksPerThread)) best = worker;
+		}
+		return workers.length < maxThreads ? null : best;
+	};
+}
+
 function createPools(): Promise<Pools> {
 	return captureWorkerPath().then((filename) => {
 		const common = {
@@ -38,7 +65,12 @@ function createPools(): Promise<Pools> {
 			// A task waiting on storage or on a slow download leaves its thread to others.
 			concurrentTasksPerWorker: 4
 		};
-		const heavy = new Piscina({ ...common, maxThreads: workerCount(), niceIncrement: 10 });
+		const heavy = new Piscina({
+			...common,
+			maxThreads: workerCount(),
+			niceIncrement: 10,
+			loadBalancer: spreadingBalancer(workerCount(), common.concurrentTasksPerWorker)
+		});
 		// One interactive thread kept ready, so a plot after a restart does not wait for a thread to start.
 		const interactive = new Piscina({
 			...common,
@@ -76,16 +108,31 @@ export function startCaptureWorkers(): void {
 	);
 }
 
+let heavyTasks = 0;
+
+/** Tasks sent to the heavy pool and not finished yet (running or queued). */
+export function heavyTasksInFlight(): number {
+	return heavyTasks;
+}
+
 /** Runs a task on a worker; `interactive` for short answers a person waits for (series windows). */
 export async function runCaptureTask<T>(
 	task: CaptureTask,
 	options: { interactive?: boolean; signal?: AbortSignal; transferList?: TransferListItem[] } = {}
 ): Promise<T> {
 	const { heavy, interactive } = await getPools();
-	return (options.interactive ? interactive : heavy).run(task, {
-		signal: options.signal,
-		transferList: options.transferList
-	}) as Promise<T>;
+	const run = () =>
+		(options.interactive ? interactive : heavy).run(task, {
+			signal: options.signal,
+			transferList: options.transferList
+		}) as Promise<T>;
+	if (options.interactive) return run();
+	heavyTasks++;
+	try {
+		return await run();
+	} finally {
+		heavyTasks--;
+	}
 }
 
 /** Ends the worker threads (at shutdown; tasks still running are stopped). */

@@ -41,7 +41,8 @@ export async function channelSeries(
 			to,
 			points: q.points,
 			pyramidOffset: channels[q.channel].pyramidOffset,
-			pyramidBytes: channels[q.channel].pyramidBytes
+			pyramidBytes: channels[q.channel].pyramidBytes,
+			pyramidPart: channels[q.channel].pyramidPart
 		},
 		{ interactive: true }
 	);

@@ -1,7 +1,8 @@
 /**
  * Processing a stored capture CSV into the chunked frame store: the file is read from storage and
  * parsed chunk by chunk, and each finished segment is written while parsing goes on. Reading waits
- * for the segment writes, so memory holds one segment and one piece of text whatever the file's size.
+ * while more than SEGMENT_WRITES_AHEAD segment writes are running, so memory holds a few segments
+ * and one piece of text whatever the file's size.
  * Runs in a capture worker (and in-process for the small demo captures of the seed).
  */
 import { threadId } from 'node:worker_threads';
@@ -20,17 +21,38 @@ async function* single(bytes: Uint8Array): AsyncGenerator<Uint8Array> {
 	yield bytes;
 }
 
-/** A ChunkStoreWriter that stores each segment; `drain()` waits for the writes so far. */
+/**
+ * Segment writes that may be in flight while parsing goes on: storing a segment (a few MB, made
+ * durable by the storage) then overlaps with parsing the next ones instead of stalling it, and
+ * memory stays bounded by this many segments.
+ */
+export const SEGMENT_WRITES_AHEAD = 3;
+
+/**
+ * A ChunkStoreWriter that stores each segment; `drain(ahead)` waits until at most `ahead` writes are
+ * still running (0: all done) and throws the first write's failure.
+ */
 function storingWriter(storage: BlobStorage, storeFolder: string, segmentFrames?: number) {
-	let writes: Promise<unknown>[] = [];
+	const writes = new Set<Promise<void>>();
+	let failure: unknown = null;
 	const writer = new ChunkStoreWriter({
 		segmentFrames,
-		onSegment: (s, bytes) => writes.push(storage.put(segmentKey(storeFolder, s), single(bytes)))
+		onSegment: (s, bytes) => {
+			const write: Promise<void> = storage
+				.put(segmentKey(storeFolder, s), single(bytes))
+				.then(
+					() => {},
+					(error: unknown) => {
+						failure ??= error;
+					}
+				)
+				.finally(() => writes.delete(write));
+			writes.add(write);
+		}
 	});
-	const drain = async () => {
-		const now = writes;
-		writes = [];
-		await Promise.all(now);
+	const drain = async (ahead = 0) => {
+		while (writes.size > ahead) await Promise.race(writes);
+		if (failure !== null) throw failure;
 	};
 	const finish = async (
 		origin: { timeOrigin: number; epoch: boolean },
@@ -55,7 +77,8 @@ export async function runProcess(
 	let read = 0;
 	async function* source(): AsyncGenerator<Uint8Array> {
 		for await (const chunk of byteChunks(await storage.get(task.rawKey))) {
-			await drain(); // back-pressure: no more text until the finished segments are stored
+			// Back-pressure: no more text while more than a few finished segments are being stored.
+			await drain(SEGMENT_WRITES_AHEAD);
 			yield chunk;
 			read += chunk.byteLength;
 			onProgress(read);

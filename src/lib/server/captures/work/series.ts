@@ -36,12 +36,19 @@ export function compiledFor(folder: string, map: CanMap): Promise<CompiledMap> {
 
 export function loadPyramid(
 	storage: BlobStorage,
-	task: Pick<SeriesTask, 'folder' | 'channel' | 'pyramidOffset' | 'pyramidBytes' | 'storage'>
+	task: Pick<
+		SeriesTask,
+		'folder' | 'channel' | 'pyramidOffset' | 'pyramidBytes' | 'pyramidPart' | 'storage'
+	>
 ): Promise<Pyramid> {
 	const id = JSON.stringify(task.storage);
 	return pyramids.get(`${id}|${task.folder}${task.channel}`, async () =>
 		pyramidFromBytes(
-			await storage.getRange(pyramidsKey(task.folder), task.pyramidOffset, task.pyramidBytes)
+			await storage.getRange(
+				pyramidsKey(task.folder, task.pyramidPart),
+				task.pyramidOffset,
+				task.pyramidBytes
+			)
 		)
 	);
 }

@@ -4,6 +4,12 @@
  * server thread only passes keys, never frames.
  */
 import type { CaptureReport } from '../../../api/captures';
+import type { Issue } from '../../../api/problem';
+import type {
+	DerivedDefinition,
+	DerivedSeriesResponse,
+	SpanResponse
+} from '../../../api/workbench';
 import type {
 	CaptureBusLoadResponse,
 	DecodeSummary,
@@ -61,6 +67,26 @@ export interface DecodeTask extends OnStore {
 	folder: string;
 }
 
+/** Part `part` of a first decode split into `parts` (work/decode.ts, runDecodePart). */
+export interface DecodePartTask extends Omit<DecodeTask, 'kind'> {
+	kind: 'decode-part';
+	part: number;
+	parts: number;
+}
+
+/** What one part of a split decode gives back; its pyramids are stored in `pyramids-<part>.fwcp`. */
+export interface DecodePartOutcome {
+	part: number;
+	/** Whether this part has the bus figures (ID survey, bus load, J1939) of the summary. */
+	bus: boolean;
+	/** The channels this part decoded: their entries of `summary` and `channels` are the real ones. */
+	owned: number[];
+	summary: DecodeSummary;
+	channels: StoredDecode['channels'];
+	/** The worker thread that decoded it (tests check that parts run side by side). */
+	threadId: number;
+}
+
 /** What a decode keeps in storage (`summary.json`), enough to answer every view without decoding again. */
 export interface StoredDecode {
 	format: 'framewright-decode@1';
@@ -68,9 +94,11 @@ export interface StoredDecode {
 	channels: {
 		firstTime: number | null;
 		lastTime: number | null;
-		/** Byte range of the channel's pyramid in `pyramids.fwcp`. */
+		/** Byte range of the channel's pyramid in `pyramids.fwcp` (`pyramids-<part>.fwcp` with a part). */
 		pyramidOffset: number;
 		pyramidBytes: number;
+		/** The part of a split decode that stored the pyramid (absent: one pass, one file). */
+		pyramidPart?: number;
 	}[];
 }
 
@@ -88,6 +116,7 @@ export interface SeriesTask extends OnDecode {
 	points: number;
 	pyramidOffset: number;
 	pyramidBytes: number;
+	pyramidPart?: number;
 }
 
 export type SeriesOutcome = Omit<SeriesResponse, 'channel'>;
@@ -119,6 +148,47 @@ export interface ReceiverTask extends OnDecode {
 }
 
 export type ReceiverOutcome = CaptureCheck | AlertReplay;
+
+/** A request refused with a message for the person (the server answers 400 with it). */
+export interface FormulaRefusal {
+	message: string;
+	issues?: Issue[];
+}
+
+/**
+ * A derived channel (docs/derived-channels.md) evaluated in a worker over the channels its formula
+ * names: a decimated window of it, or a span's statistics, histogram and XY pairs against `versus`.
+ */
+export interface DerivedTask extends OnDecode {
+	kind: 'derived';
+	query:
+		| { what: 'series'; formula: string; from: number; to: number; points: number }
+		| {
+				what: 'span';
+				formula: string;
+				versus: string | null;
+				from: number;
+				to: number;
+				above: number | undefined;
+				bins: number;
+		  };
+}
+
+export type DerivedOutcome =
+	| { ok: true; series: DerivedSeriesResponse }
+	| { ok: true; span: SpanResponse }
+	| { ok: false; refusal: FormulaRefusal };
+
+/** The decode's channels and derived ones as one CSV, streamed like ExportTask. */
+export interface DerivedExportTask extends OnDecode {
+	kind: 'derived-export';
+	exportKind: 'long' | 'wide';
+	derived: DerivedDefinition[];
+	interval: number;
+	mode: ResampleMode;
+	/** Carries the stream (export-stream.ts). */
+	port: MessagePort;
+}
 
 export type ExportKind = 'frames' | 'long' | 'wide';
 
@@ -178,9 +248,12 @@ export type CaptureTask =
 	| ProcessTask
 	| ConvertTask
 	| DecodeTask
+	| DecodePartTask
 	| SeriesTask
 	| SamplesTask
 	| AlertsTask
 	| ReceiverTask
 	| ExportTask
-	| BusLoadTask;
+	| BusLoadTask
+	| DerivedTask
+	| DerivedExportTask;
