@@ -281,3 +281,35 @@ describe('the in-place reader on byte columns, line by line against the row pars
 		expect(read).toEqual([0, 1, 2, 3, 4, 6, 8]);
 	});
 });
+
+describe('large chunks read where they lie', () => {
+	it('give what small chunks give, with lines and CR LF split between chunks', async () => {
+		const rand = seededRandom(0xc4c4);
+		const lines = ['time,id,extended,dlc,data'];
+		for (let i = 0; i < 8000; i++) {
+			const bytes = Array.from(rand.bytes(rand.int(0, 8)), (b) => b.toString(16).padStart(2, '0'));
+			lines.push(
+				`${(i / 1000).toFixed(6)},${rand.int(0, 0x7ff).toString(16)},0,${bytes.length},${bytes.join(' ')}`
+			);
+			if (i % 1500 === 7)
+				lines.push(['0.5,zz,0,1,00', '"0.6",100,0,1,00', ''][((i - 7) / 1500) % 3]); // bad, quoted, blank
+		}
+		const text = lines.join('\r\n') + '\r\n';
+		const cr = (from: number) => text.indexOf('\r', from) + 1; // a cut between CR and LF
+		const cuts = [cr(70_000), 70_000 + 66_000 + 17, cr(210_000)];
+		const large = [0, ...cuts, text.length]
+			.slice(1)
+			.map((end, k, ends) => text.slice(k === 0 ? 0 : ends[k - 1], end));
+		expect(large.slice(0, -1).every((chunk) => chunk.length >= 1 << 14)).toBe(true);
+		const small = Array.from({ length: Math.ceil(text.length / 997) }, (_, k) =>
+			text.slice(k * 997, (k + 1) * 997)
+		);
+		const inPlace = await importBoth(large);
+		const joined = await importBoth(small);
+		expect(inPlace.fast).toEqual(joined.fast);
+		expect(inPlace.general).toEqual(joined.general);
+		expect(inPlace.fast).toEqual(inPlace.general);
+		expect(joined.general.report.badRowCount).toBe(2);
+		expect(joined.general.report.frameCount).toBeGreaterThan(8000);
+	});
+});
