@@ -196,11 +196,19 @@ export async function ingestCaptureInto(
 		}
 		previousTime = row.time;
 		// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
-		sink.add((row.time - firstTime) * secondsPerUnit, row.id, row.extended, row.data, row.length, {
-			bus: row.bus,
-			direction: row.direction,
-			tag: row.tag
-		});
+		// No extras object for a frame that has none: sinks take their absence as the defaults.
+		const extras =
+			row.bus === 0 && row.direction === 0 && row.tag === 0
+				? undefined
+				: { bus: row.bus, direction: row.direction, tag: row.tag };
+		sink.add(
+			(row.time - firstTime) * secondsPerUnit,
+			row.id,
+			row.extended,
+			row.data,
+			row.length,
+			extras
+		);
 		frameCount++;
 	};
 
