@@ -1,21 +1,22 @@
+import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
 import { seededRandom } from '../testing/seeded-random';
 import { linePlan, readPlainLine } from './canonical-line';
-import { CANONICAL_LAYOUT } from './layout';
-import { ingestCapture } from './ingest';
-import { createParsedRow, createRowParserState } from './row-parser';
+import { CANONICAL_LAYOUT, type CaptureLayout } from './layout';
+import type { FrameSink } from './frame-store';
+import { ingestCaptureInto } from './ingest';
+import { createParsedRow, createRowParser, createRowParserState } from './row-parser';
 
-/** Everything an import produces, in comparable form. */
-async function importBoth(text: string | string[]) {
+/** Everything an import produces, in comparable form: the report and every frame with its extras. */
+async function importBoth(text: string | string[], layout?: CaptureLayout) {
 	const routes = await Promise.all(
 		[true, false].map(async (canonicalFastPath) => {
-			const { store, ...report } = await ingestCapture(text, { canonicalFastPath });
-			const frames = Array.from({ length: store.count }, (_, i) => [
-				store.time[i],
-				store.id[i],
-				store.flags[i],
-				Array.from(store.payload(i))
-			]);
+			const frames: unknown[] = [];
+			const sink: FrameSink = {
+				add: (time, id, extended, data, length, extras) =>
+					frames.push([time, id, extended, Array.from(data.subarray(0, length)), extras])
+			};
+			const report = await ingestCaptureInto(text, sink, { canonicalFastPath, layout });
 			return { report, frames };
 		})
 	);
@@ -156,6 +157,64 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 			]
 		],
 		[
+			'ragged byte columns, a flag after the bytes, no header',
+			[
+				'0.001000,100,8,11,22,33,44,55,66,77,88,S',
+				'0.002000,18FE0021,3,A,bb,0C,X', // one-digit byte
+				'0.003000,101,0,S', // no bytes: the tag is right after the DLC
+				'0.003500,101,0', // no bytes, no tag
+				'0.004000,102,2,01,02', // no tag
+				'0.004500,102,2,01,02,', // empty tag
+				'0.005000,103,1,01,R', // a new tag: general route
+				'0.006000,104,0,R', // a remote request by its tag: general route
+				'0.007000,105,2,01, S', // blank before the tag: general route
+				'0.008000,106,3,01,02,S', // too few bytes ("S" is no hex byte): bad row
+				'0.009000,107,3,01,02,E', // too few bytes ("E" is a byte): bad row
+				'0.010000,108,2,01,123,S', // three digits: bad row
+				'0.011000,109,9,00,01,02,03,04,05,06,07,08,09,0a,0b,S', // more than the 8 columns: bad row
+				'0.012000,10A,2,01,02,S,extra', // columns after the tag are ignored
+				'0.013000,10B,2,01,02,X'
+			],
+			// given, as the user confirms it: the detector would not guess from rows this awkward
+			{
+				...CANONICAL_LAYOUT,
+				hasHeader: false,
+				extendedColumn: null,
+				dlcColumn: 2,
+				dataColumn: null,
+				byteColumns: [3, 4, 5, 6, 7, 8, 9, 10],
+				tagColumn: 'after-bytes'
+			} satisfies CaptureLayout
+		],
+		[
+			'ms times, 0x IDs, byte columns with empty ones at the end',
+			[
+				'time_ms,id,dlc,b0,b1,b2,b3,b4,b5,b6,b7',
+				'1.000,0x100,8,11,22,33,44,55,66,77,88',
+				'2.000,0x18FE0021,3,11,22,33,,,,,',
+				'3.000,0x101,0,,,,,,,,',
+				'4.000,0x102,2,11,22',
+				'5.000,0x103,3,11,,33,,,,,', // an empty column ends the bytes: bad row
+				'6.000,0x104,2,11,22,33,44,,,,', // more bytes than the DLC: they are ignored
+				'7.000,0x105,2,11, 22,,,,,,', // blank in a byte: general route
+				'8.000,0x106,2,1G,22,,,,,,' // not hex: bad row
+			]
+		],
+		[
+			'byte columns after a bus column, a tag in a later column',
+			[
+				'time;bus;id;dlc;b0;b1;b2;b3;note',
+				'0.1;can0;100;2;01;02;;;start',
+				'0.2;can0;100;4;01;02;03;04;start',
+				'0.3;can1;100;1;01;;;;',
+				'0.4;can0;100;1;01', // the line ends before the tag
+				'0.5;can0;100;1;01;;;;other', // a new tag: general route
+				'0.6;can0;100;1;01;;;;other',
+				'0.7;can0;100;1;01;;;;start;more',
+				'0.8;can0;100;1;;;;;start' // no byte for the DLC: bad row
+			]
+		],
+		[
 			'tabs, extended flag',
 			[
 				'time\tid\textended\tdlc\tdata',
@@ -165,14 +224,92 @@ describe('canonical fast path gives exactly what the general route gives', () =>
 				'0.4\tZZZ\t0\t1\t00' // not an ID: bad row
 			]
 		]
-	])('on %s', async (_name, lines) => {
+	] as [string, string[], CaptureLayout?][])('on %s', async (_name, lines, layout) => {
 		for (const text of [lines.join('\n') + '\n', lines.join('\r\n')]) {
-			const { fast, general } = await importBoth(text);
+			const { fast, general } = await importBoth(text, layout);
 			// The layout is one the in-place reader serves, so the equality says something.
 			expect(linePlan(general.report.layout, createRowParserState())).not.toBeNull();
 			expect(fast).toEqual(general);
 			expect(general.report.frameCount).toBeGreaterThan(1);
 			expect(general.report.badRowCount).toBeGreaterThan(0);
 		}
+	});
+});
+
+// Within one chunk a line naming a bus or tag not met yet sends the lines after it the general way
+// too, so short files hardly reach the in-place reader: here it meets the names first, line by line.
+describe('the in-place reader on byte columns, line by line against the row parser', () => {
+	const layout: CaptureLayout = {
+		...CANONICAL_LAYOUT,
+		delimiter: ';',
+		timeFormat: 'number',
+		idColumn: 2,
+		extendedColumn: null,
+		dlcColumn: 3,
+		dataColumn: null,
+		byteColumns: [4, 5, 6, 7],
+		busColumn: 1,
+		tagColumn: 8
+	};
+	const lines = [
+		'0.1;can0;100;2;01;02;;;start',
+		'0.2;can1;18FE0021;4;01;02;03;04;start',
+		'0.3;can1;100;1;f;;;;',
+		'0.4;can0;100;1;01',
+		'0.5;can0;100;0',
+		'0.6;can0;100;1;01;;;;other', // a new tag: general route
+		'0.7;can0;100;1;01;;;;start;more',
+		'0.8;can0;100;1;;;;;start', // no byte for the DLC: bad row
+		'0.9;can0;100;3;01;02;03;04;start' // a byte column beyond the DLC is not read
+	];
+
+	it('accepts only lines the row parser reads, with the same values', () => {
+		const state = createRowParserState();
+		state.buses.push('can0', 'can1');
+		state.tags.push('start');
+		const plan = linePlan(layout, state)!;
+		const parse = createRowParser(layout, state);
+		const read: number[] = [];
+		lines.forEach((line, n) => {
+			const fast = createParsedRow();
+			if (!readPlainLine(line, 0, line.length, fast, plan)) return;
+			read.push(n);
+			const general = createParsedRow();
+			expect(parse(Papa.parse<string[]>(line, { delimiter: ';' }).data[0], general)).toBeNull();
+			expect(fast).toEqual(general);
+		});
+		expect(read).toEqual([0, 1, 2, 3, 4, 6, 8]);
+	});
+});
+
+describe('large chunks read where they lie', () => {
+	it('give what small chunks give, with lines and CR LF split between chunks', async () => {
+		const rand = seededRandom(0xc4c4);
+		const lines = ['time,id,extended,dlc,data'];
+		for (let i = 0; i < 8000; i++) {
+			const bytes = Array.from(rand.bytes(rand.int(0, 8)), (b) => b.toString(16).padStart(2, '0'));
+			lines.push(
+				`${(i / 1000).toFixed(6)},${rand.int(0, 0x7ff).toString(16)},0,${bytes.length},${bytes.join(' ')}`
+			);
+			if (i % 1500 === 7)
+				lines.push(['0.5,zz,0,1,00', '"0.6",100,0,1,00', ''][((i - 7) / 1500) % 3]); // bad, quoted, blank
+		}
+		const text = lines.join('\r\n') + '\r\n';
+		const cr = (from: number) => text.indexOf('\r', from) + 1; // a cut between CR and LF
+		const cuts = [cr(70_000), 70_000 + 66_000 + 17, cr(210_000)];
+		const large = [0, ...cuts, text.length]
+			.slice(1)
+			.map((end, k, ends) => text.slice(k === 0 ? 0 : ends[k - 1], end));
+		expect(large.slice(0, -1).every((chunk) => chunk.length >= 1 << 14)).toBe(true);
+		const small = Array.from({ length: Math.ceil(text.length / 997) }, (_, k) =>
+			text.slice(k * 997, (k + 1) * 997)
+		);
+		const inPlace = await importBoth(large);
+		const joined = await importBoth(small);
+		expect(inPlace.fast).toEqual(joined.fast);
+		expect(inPlace.general).toEqual(joined.general);
+		expect(inPlace.fast).toEqual(inPlace.general);
+		expect(joined.general.report.badRowCount).toBe(2);
+		expect(joined.general.report.frameCount).toBeGreaterThan(8000);
 	});
 });

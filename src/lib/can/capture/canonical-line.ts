@@ -5,11 +5,14 @@
  * `0x` prefix or `h` suffix), optionally a bare 0/1 extended flag, a DLC, a direction (Rx/Tx) and a
  * bus already met, and one data column of hex pairs — the canonical layout (docs/capture-csv.md) and
  * e.g. `0.0123;3BAh;8;11 22 33` — in any column order and with any delimiter; columns with no role
- * are skipped. It accepts only lines the general route
+ * are skipped. Instead of the data column it also reads byte columns side by side after every other
+ * column (one byte each, as many as the DLC asks for, so rows may vary in width), with a tag after
+ * the bytes or in a later column, when the tag is one already met. It accepts only lines the general route
  * (papaparse + the row parser) would read without a problem, with the same values; anything else —
  * quotes, blanks, marker letters, words, mismatches, bad values — returns false and goes the general
  * route, which also words the reason for a bad row.
  */
+import { dlcToLength } from '../dlc';
 import { MAX_EXTENDED_ID, MAX_STANDARD_ID } from '../map';
 import type { CaptureLayout } from './layout';
 import {
@@ -17,6 +20,7 @@ import {
 	clockAt,
 	dlcMatches,
 	isPayloadLength,
+	parseKind,
 	parsePlainDecimal,
 	plainDateTime,
 	ROW_KIND,
@@ -36,8 +40,8 @@ const ROLE = {
 	direction: 6,
 	bus: 7
 } as const;
-/** Bus names compared in place before a line goes the general route (which adds new ones). */
-const BUSES_COMPARED = 16;
+/** Bus and tag names compared in place before a line goes the general route (which adds new ones). */
+const NAMES_COMPARED = 16;
 
 /** What the fast path needs of a layout: the role of each column up to the last one used. */
 export interface LinePlan {
@@ -47,6 +51,10 @@ export interface LinePlan {
 	dlcMeaning: CaptureLayout['dlcMeaning'];
 	hasExtended: boolean;
 	timeFormat: CaptureLayout['timeFormat'];
+	/** Byte columns (0 with a data column); they start right after the last column in `roles`. */
+	byteCount: number;
+	/** Where the tag is: after the bytes read, a column index, or nowhere. */
+	tagColumn: CaptureLayout['tagColumn'];
 	/** The row parser's state, shared: bus names met, the time of day's days passed. */
 	state: RowParserState;
 }
@@ -59,13 +67,20 @@ function hexAt(text: string, i: number): number {
 	return lower >= 97 && lower <= 102 ? lower - 87 : -1;
 }
 
-/** The plan of a layout the fast path can read, or null (byte columns, tag, kind, decimal IDs). */
+/**
+ * The plan of a layout the fast path can read, or null (decimal IDs, a kind column, byte columns not
+ * side by side or not after every other column, a tag beside a data column or among the bytes).
+ */
 export function linePlan(layout: CaptureLayout, state: RowParserState): LinePlan | null {
+	const bytes = layout.byteColumns;
+	const firstByte = bytes.length > 0 ? bytes[0] : -1;
+	const { tagColumn } = layout;
 	if (
 		layout.idFormat !== 'hex' ||
-		layout.dataColumn === null ||
 		layout.kindColumn !== null ||
-		layout.tagColumn !== null
+		bytes.some((column, k) => column !== firstByte + k) ||
+		(tagColumn !== null &&
+			(bytes.length === 0 || (tagColumn !== 'after-bytes' && tagColumn < firstByte + bytes.length)))
 	)
 		return null;
 	const columns: [number | null, number][] = [
@@ -78,7 +93,9 @@ export function linePlan(layout: CaptureLayout, state: RowParserState): LinePlan
 		[layout.busColumn, ROLE.bus]
 	];
 	const last = Math.max(...columns.map(([c]) => c ?? 0));
-	const roles = new Uint8Array(last + 1);
+	// Rows of byte columns vary in width, so every other column comes before the bytes.
+	if (firstByte >= 0 && last >= firstByte) return null;
+	const roles = new Uint8Array(firstByte >= 0 ? firstByte : last + 1);
 	for (const [column, role] of columns) {
 		if (column === null) continue;
 		if (roles[column] !== ROLE.none) return null; // one column, two roles: the general route says so
@@ -91,6 +108,8 @@ export function linePlan(layout: CaptureLayout, state: RowParserState): LinePlan
 		dlcMeaning: layout.dlcMeaning,
 		hasExtended: layout.extendedColumn !== null,
 		timeFormat: layout.timeFormat,
+		byteCount: bytes.length,
+		tagColumn,
 		state
 	};
 }
@@ -186,7 +205,7 @@ export function readPlainLine(
 					// a name met before, as written (blanks go the general route, which trims them)
 					const buses = plan.state.buses;
 					bus = -1;
-					for (let b = 0; b < buses.length && b < BUSES_COMPARED; b++) {
+					for (let b = 0; b < buses.length && b < NAMES_COMPARED; b++) {
 						if (buses[b].length === k - i && text.startsWith(buses[b], i)) {
 							bus = b;
 							break;
@@ -198,6 +217,54 @@ export function readPlainLine(
 		}
 		if (k < end && text.charCodeAt(k) !== dc) return false;
 		i = k + 1;
+	}
+	let tag = 0;
+	if (plan.byteCount > 0) {
+		// One byte per column (1 or 2 hex digits), as many as the DLC asks for, up to an empty column.
+		const wanted = dlc < 0 ? plan.byteCount : dlc <= 15 && dlc > 8 ? dlcToLength(dlc) : dlc;
+		const data = out.data;
+		let column = roles.length; // the column at i (i > end: past the line's end)
+		while (column - roles.length < plan.byteCount && length < wanted && i < end) {
+			const hi = hexAt(text, i);
+			if (hi < 0) {
+				if (text.charCodeAt(i) === dc) break; // an empty column ends the bytes
+				return false;
+			}
+			let k = i + 1;
+			let value = hi;
+			if (k < end && text.charCodeAt(k) !== dc) {
+				const lo = hexAt(text, k++);
+				if (lo < 0) return false;
+				value = hi * 16 + lo;
+			}
+			if (k < end && text.charCodeAt(k) !== dc) return false;
+			data[length++] = value;
+			column++;
+			i = k + 1;
+		}
+		if (plan.tagColumn !== null) {
+			for (; plan.tagColumn !== 'after-bytes' && column < plan.tagColumn && i <= end; column++) {
+				const k = text.indexOf(delimiter, i);
+				i = k < 0 || k > end ? end + 1 : k + 1;
+			}
+			if (i < end) {
+				let k = text.indexOf(delimiter, i);
+				if (k < 0 || k > end) k = end;
+				if (k > i) {
+					// a tag met before, as written (blanks go the general route, which trims them)
+					const tags = plan.state.tags;
+					for (let t = 0; t < tags.length && t < NAMES_COMPARED; t++) {
+						if (tags[t].length === k - i && text.startsWith(tags[t], i)) {
+							tag = t + 1;
+							break;
+						}
+					}
+					// a tag saying "remote" makes an empty row a remote request: the general route
+					if (tag === 0 || (length === 0 && parseKind(tags[tag - 1]) === ROW_KIND.remote))
+						return false;
+				}
+			}
+		}
 	}
 	if (!isPayloadLength(length) || (dlc >= 0 && !dlcMatches(dlc, length, plan.dlcMeaning)))
 		return false;
@@ -211,6 +278,6 @@ export function readPlainLine(
 	out.kind = ROW_KIND.data;
 	out.bus = bus;
 	out.direction = direction;
-	out.tag = 0;
+	out.tag = tag;
 	return true;
 }

@@ -72,6 +72,12 @@ export interface IngestOptions {
 export const MAX_REPORTED_BAD_ROWS = 1000;
 /** Characters of text parsed at a time: large enough to amortise calls, small enough to stay bounded. */
 const PARSE_CHUNK_CHARS = 1 << 20;
+/**
+ * A decoded chunk at least this long is read where it lies (only the line it shares with the chunk
+ * before is joined): appending it to the carried-over text would copy it once more, and the large
+ * strings left behind cost full garbage collections.
+ */
+const IN_PLACE_CHARS = 1 << 14;
 /** Text read before guessing the layout (unless SAMPLE_ROWS lines arrive first). */
 const SAMPLE_CHARS = 1 << 18;
 
@@ -190,11 +196,19 @@ export async function ingestCaptureInto(
 		}
 		previousTime = row.time;
 		// Subtract in the file's unit first so epoch times keep their sub-millisecond digits.
-		sink.add((row.time - firstTime) * secondsPerUnit, row.id, row.extended, row.data, row.length, {
-			bus: row.bus,
-			direction: row.direction,
-			tag: row.tag
-		});
+		// No extras object for a frame that has none: sinks take their absence as the defaults.
+		const extras =
+			row.bus === 0 && row.direction === 0 && row.tag === 0
+				? undefined
+				: { bus: row.bus, direction: row.direction, tag: row.tag };
+		sink.add(
+			(row.time - firstTime) * secondsPerUnit,
+			row.id,
+			row.extended,
+			row.data,
+			row.length,
+			extras
+		);
 		frameCount++;
 	};
 
@@ -219,25 +233,28 @@ export async function ingestCaptureInto(
 	};
 
 	/**
-	 * Whole lines of text (the last one may lack its newline when `dropLastRow` is false). Plain lines
-	 * are read in place; runs of other lines go the general route in file order.
+	 * Whole lines of text[from, to) (the last one may lack its newline when `dropLastRow` is false).
+	 * Plain lines are read in place; runs of other lines go the general route in file order.
 	 * Text with a quote always goes the general route, since a quoted field may span lines.
 	 */
-	const consume = (text: string, dropLastRow: boolean) => {
-		if (plan === null || text.indexOf('"') >= 0) return consumeParsed(text, dropLastRow);
+	const consume = (text: string, dropLastRow: boolean, from = 0, to = text.length) => {
+		const quote = text.indexOf('"', from);
+		if (plan === null || (quote >= 0 && quote < to))
+			return consumeParsed(text.slice(from, to), dropLastRow);
 		const step = newline.length;
-		let at = 0;
+		let at = from;
 		// The header (the first non-blank row) goes the general route, which skips it.
-		while (headerPending && at < text.length) {
-			const end = text.indexOf(newline, at);
-			const next = end < 0 ? text.length : end + step;
+		while (headerPending && at < to) {
+			let end = text.indexOf(newline, at);
+			if (end >= to) end = -1;
+			const next = end < 0 ? to : end + step;
 			consumeParsed(text.slice(at, next), end >= 0 || dropLastRow);
 			at = next;
 		}
 		let slowFrom = -1; // start of a run of lines for the general route
-		while (at < text.length) {
+		while (at < to) {
 			let end = text.indexOf(newline, at);
-			if (end < 0) end = text.length;
+			if (end < 0 || end > to) end = to;
 			if (readPlainLine(text, at, end, fastOut, plan)) {
 				// Its own row buffer: the earlier lines of the general route are handled first and reuse `out`.
 				if (slowFrom >= 0) consumeParsed(text.slice(slowFrom, at), true);
@@ -247,7 +264,7 @@ export async function ingestCaptureInto(
 			} else if (slowFrom < 0) slowFrom = at;
 			at = end + step;
 		}
-		if (slowFrom >= 0) consumeParsed(text.slice(slowFrom), dropLastRow);
+		if (slowFrom >= 0) consumeParsed(text.slice(slowFrom, to), dropLastRow);
 	};
 
 	let pending = '';
@@ -256,6 +273,18 @@ export async function ingestCaptureInto(
 		if (first && text.length > 0) {
 			text = text.replace(/^\ufeff/, ''); // a byte-order mark is not part of the first field
 			first = false;
+		}
+		if (parser && text.length >= IN_PLACE_CHARS) {
+			const head = text.indexOf(newline);
+			const cut = text.lastIndexOf(newline);
+			if (head >= 0) {
+				const step = newline.length;
+				// the line begun in the chunk before, joined to its end (a CR LF split between the chunks included)
+				consume(pending + text.slice(0, head + step), true);
+				consume(text, true, head + step, cut + step);
+				pending = text.slice(cut + step);
+				continue;
+			}
 		}
 		pending += text;
 		if (!parser) {
