@@ -70,6 +70,20 @@ export interface IngestOptions {
 }
 
 export const MAX_REPORTED_BAD_ROWS = 1000;
+
+/**
+ * Clock times are read as seconds of the day or since 1970, so the difference of two readings carries
+ * the subtraction's rounding (12:00:00.340 − 12:00:00.250 gives 0.0899999999965, not 0.09). Relative
+ * times are rounded to the finest step the reading can hold: 1 ns for a time of day (a float64 of up to
+ * a few days in seconds resolves about 10⁻¹¹ s), 1 µs for a date-time (since 1970 it resolves about
+ * 2.4 × 10⁻⁷ s). Numeric times are kept as read.
+ */
+const CLOCK_STEPS_PER_SECOND: Record<CaptureLayout['timeFormat'], number> = {
+	number: 0,
+	'time-of-day': 1e9,
+	'date-time': 1e6
+};
+
 /** Characters of text parsed at a time: large enough to amortise calls, small enough to stay bounded. */
 const PARSE_CHUNK_CHARS = 1 << 20;
 /**
@@ -150,6 +164,7 @@ export async function ingestCaptureInto(
 	let errorFrameCount = 0;
 	const specialRows: IngestReport['specialRows'] = [];
 	let secondsPerUnit = 1;
+	let clockSteps = 0;
 	let plan: LinePlan | null = null;
 
 	const out = createParsedRow();
@@ -177,6 +192,7 @@ export async function ingestCaptureInto(
 		parseRow = createRowParser(layout, parserState);
 		plan = (options.canonicalFastPath ?? true) ? linePlan(layout, parserState) : null;
 		secondsPerUnit = secondsPerTimeUnit(layout);
+		clockSteps = CLOCK_STEPS_PER_SECOND[layout.timeFormat];
 		headerPending = layout.hasHeader;
 	};
 
@@ -201,8 +217,9 @@ export async function ingestCaptureInto(
 			row.bus === 0 && row.direction === 0 && row.tag === 0
 				? undefined
 				: { bus: row.bus, direction: row.direction, tag: row.tag };
+		const relative = (row.time - firstTime) * secondsPerUnit;
 		sink.add(
-			(row.time - firstTime) * secondsPerUnit,
+			clockSteps === 0 ? relative : Math.round(relative * clockSteps) / clockSteps,
 			row.id,
 			row.extended,
 			row.data,

@@ -167,6 +167,19 @@ describe('time notations', () => {
 		expect(list).toHaveLength(3);
 	});
 
+	it('gives clock readings their written differences, without the subtraction’s rounding', async () => {
+		// Reference: decimal arithmetic on the written readings (.340 − .250 = .090, 01.000 − 00.250 =
+		// .750), the value a person reads off the file.
+		const ofDay = await framesOf(
+			'12:00:00.250,100,1,01\n12:00:00.340,100,1,02\n12:00:01.000,100,1,03\n'
+		);
+		expect(ofDay.list.map((f) => f.time)).toEqual([0, 0.09, 0.75]);
+		const dated = await framesOf(
+			'time;id;data\n2026-03-14T09:26:53.250000Z;100;01\n2026-03-14T09:26:53.340001Z;100;02\n'
+		);
+		expect(dated.list.map((f) => f.time)).toEqual([0, 0.090001]);
+	});
+
 	it('reads ISO date-times as wall-clock times', async () => {
 		const { list, layout, timeOrigin } = await framesOf(
 			'time;id;data\n2026-03-14T09:26:53.500000Z;100;01\n2026-03-14T09:26:53.750000Z;100;02\n'
