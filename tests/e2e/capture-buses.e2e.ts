@@ -8,7 +8,7 @@
  */
 import { expect, test } from '@playwright/test';
 import { referenceFrameBits } from '../../src/lib/can/testing/reference-frame-bits';
-import { decodeWithLatest, DEMO_SLUG, plotChannel } from './capture-helpers';
+import { decodeWithLatest, DEMO_SLUG, plotChannel, uploadAndProcess } from './capture-helpers';
 import { signIn } from './helpers';
 
 const EEC1 = 0x0cf00400;
@@ -146,36 +146,9 @@ test.describe('without JavaScript', () => {
 		page
 	}) => {
 		await signIn(page, 'calibrator@framewright.test');
-		const api = `/api/workspaces/${DEMO_SLUG}/captures`;
-		const upload = await page.request.post(`${api}?name=two-buses-noscript.csv`, {
-			data: csv,
-			headers: { 'content-type': 'text/csv' }
-		});
-		expect(upload.status()).toBe(201);
-		const { capture, detected } = (await upload.json()) as {
-			capture: { id: string };
-			detected: { layout: unknown };
-		};
-		expect(
-			(
-				await page.request.post(`${api}/${capture.id}/process`, {
-					data: { layout: detected.layout }
-				})
-			).status()
-		).toBe(202);
-		await expect
-			.poll(
-				async () =>
-					(
-						(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
-							status: string;
-						}
-					).status,
-				{ timeout: 60_000 }
-			)
-			.toBe('ready');
+		const captureId = await uploadAndProcess(page, { name: 'two-buses-noscript.csv', data: csv });
 
-		await page.goto(`/w/${DEMO_SLUG}/captures/${capture.id}?panel=bus`);
+		await page.goto(`/w/${DEMO_SLUG}/captures/${captureId}?panel=bus`);
 		// Nothing decoded yet: the workspace's usual map bit rate, said to be a guess.
 		await expect(page.getByTestId('capture-bitrate')).toContainText(
 			'(guessed from the workspace’s maps'

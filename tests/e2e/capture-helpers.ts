@@ -5,12 +5,22 @@ export const DEMO_SLUG = 'quillmoor-club-racing';
 export const GENSET_CSV = 'fixtures/genset-idle.csv';
 export const GENSET_MAP = 'Generator set engine (J1939)';
 
-/** Uploads a fixture capture of the journey's own through the API and waits until it is processed. */
-export async function uploadAndProcess(page: Page, path = GENSET_CSV): Promise<string> {
-	const api = `/api/workspaces/${DEMO_SLUG}/captures`;
-	const name = path.split('/').at(-1)!;
+/**
+ * Uploads a capture through the API — a fixture file by path, or text made by the journey — with the
+ * guessed layout, and waits until it is processed.
+ */
+export async function uploadAndProcess(
+	page: Page,
+	source: string | { name: string; data: string | Buffer } = GENSET_CSV,
+	slug = DEMO_SLUG
+): Promise<string> {
+	const api = `/api/workspaces/${slug}/captures`;
+	const { name, data } =
+		typeof source === 'string'
+			? { name: source.split('/').at(-1)!, data: readFileSync(source) }
+			: source;
 	const upload = await page.request.post(`${api}?name=${encodeURIComponent(name)}`, {
-		data: readFileSync(path),
+		data,
 		headers: { 'content-type': 'text/csv' }
 	});
 	expect(upload.status()).toBe(201);

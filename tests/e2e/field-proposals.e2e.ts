@@ -14,6 +14,7 @@ import {
 	followerMap,
 	UNKNOWN_ID
 } from '../../src/lib/can/testing/planted-csv';
+import { uploadAndProcess } from './capture-helpers';
 import { signIn, uniqueEmail } from './helpers';
 
 const idText = `0x${UNKNOWN_ID.toString(16).toUpperCase()}`;
@@ -30,32 +31,12 @@ async function setUp(page: Page): Promise<{ slug: string; captureId: string }> {
 	});
 	expect(created.status()).toBe(201);
 
-	const api = `/api/workspaces/${slug}/captures`;
-	const upload = await page.request.post(`${api}?name=planted-follower.csv`, {
-		data: Buffer.from(followerCaptureCsv(3000)),
-		headers: { 'content-type': 'text/csv' }
-	});
-	expect(upload.status()).toBe(201);
-	const { capture, detected } = (await upload.json()) as {
-		capture: { id: string };
-		detected: { layout: unknown };
-	};
-	const process = await page.request.post(`${api}/${capture.id}/process`, {
-		data: { layout: detected.layout }
-	});
-	expect(process.status()).toBe(202);
-	await expect
-		.poll(
-			async () =>
-				(
-					(await (await page.request.get(`${api}/${capture.id}/status`)).json()) as {
-						status: string;
-					}
-				).status,
-			{ timeout: 60_000 }
-		)
-		.toBe('ready');
-	return { slug, captureId: capture.id };
+	const captureId = await uploadAndProcess(
+		page,
+		{ name: 'planted-follower.csv', data: followerCaptureCsv(3000) },
+		slug
+	);
+	return { slug, captureId };
 }
 
 test('an editor finds the field that follows a known channel, accepts the proposals and decodes again', async ({
